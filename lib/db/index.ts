@@ -1,0 +1,3 @@
+export * from "./traces";
+export * from "./definitions";
+export * from "./reviews";

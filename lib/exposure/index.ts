@@ -1,0 +1,5 @@
+export * from "./timeAbove";
+export * from "./mkt";
+export * from "./limits";
+export * from "./rules";
+export * from "./window";

@@ -1,0 +1,146 @@
+import type { LimitSet, Rule } from "./limits";
+import { timeBeyond, type Excursion, type ExposureSummary } from "./timeAbove";
+import { partsOutside, type Span } from "./window";
+
+export type RuleStatus = "pass" | "fail" | "inconclusive";
+export type Outcome = "accept" | "hold" | "reject";
+
+/** A channel to judge: its series and the spans where it rests on bridged (not measured) data. */
+export interface ChannelSeries {
+  t_s: Float64Array;
+  value_C: Float64Array;
+  uncertainSpans: readonly Span[];
+  /** model uncertainty of this channel, K (0 for a measured channel) */
+  modelUncertainty_K: number;
+}
+
+export interface RuleFinding {
+  id: string;
+  channel: Rule["channel"];
+  direction: "above" | "below";
+  threshold_C: number;
+  /** nominal measures, at the threshold as written */
+  cumulative_s: number;
+  longest_s: number;
+  /** highest value for an "above" rule, lowest for a "below" rule, °C */
+  extreme_C: number;
+  excursions: Excursion[];
+  /** half-width of the guard band used, K */
+  guard_K: number;
+  status: RuleStatus;
+  reason: string;
+}
+
+interface Measure {
+  cumulative_s: number;
+  longest_s: number;
+  extreme_C: number;
+}
+
+function extremeOf(v: Float64Array, dir: "above" | "below"): number {
+  let e = dir === "above" ? -Infinity : Infinity;
+  for (const x of v) e = dir === "above" ? Math.max(e, x) : Math.min(e, x);
+  return e;
+}
+
+function measure(t_s: Float64Array, v: Float64Array, threshold: number, dir: "above" | "below"): Measure {
+  const s: ExposureSummary = timeBeyond(t_s, v, threshold, dir);
+  return { cumulative_s: s.cumulative_s, longest_s: s.longest_s, extreme_C: extremeOf(v, dir) };
+}
+
+/** Which allowances a measure exceeds, in words; empty when within every allowance. */
+function exceeded(rule: Rule, m: Measure, dir: "above" | "below", peakShift_K: number): string[] {
+  const out: string[] = [];
+  const noAllowance = rule.max_cumulative_min === undefined && rule.max_continuous_min === undefined && rule.max_peak_C === undefined;
+  const cumMin = m.cumulative_s / 60;
+  const longMin = m.longest_s / 60;
+  if (noAllowance && m.cumulative_s > 0) out.push(`${fmt(cumMin)} min beyond, none allowed`);
+  if (rule.max_cumulative_min !== undefined && cumMin > rule.max_cumulative_min) {
+    out.push(`${fmt(cumMin)} min cumulative > ${rule.max_cumulative_min} min allowed`);
+  }
+  if (rule.max_continuous_min !== undefined && longMin > rule.max_continuous_min) {
+    out.push(`${fmt(longMin)} min continuous > ${rule.max_continuous_min} min allowed`);
+  }
+  if (rule.max_peak_C !== undefined) {
+    const extreme = m.extreme_C + (dir === "above" ? peakShift_K : -peakShift_K);
+    if (dir === "above" ? extreme > rule.max_peak_C : extreme < rule.max_peak_C) {
+      out.push(`${dir === "above" ? "peak" : "lowest"} ${fmt(extreme)} °C beyond ${rule.max_peak_C} °C`);
+    }
+  }
+  return out;
+}
+
+const fmt = (x: number) => Number(x.toFixed(1)).toString();
+
+/**
+ * Judges one rule with a guard band u = sensor accuracy + model uncertainty, in the manner of the
+ * ISO 14253-1 decision rules: "pass" must hold with the threshold moved by u against the shipment,
+ * "fail" must hold with it moved by u in the shipment's favour, and anything between is
+ * "inconclusive". Time that rests on bridged data is left out of the "fail" test, and a rule whose
+ * channel crosses bridged data can at best be inconclusive.
+ */
+export function evaluateRule(rule: Rule, ch: ChannelSeries, sensorAccuracy_K: number): RuleFinding {
+  const dir: "above" | "below" = rule.above_C !== undefined ? "above" : "below";
+  const threshold_C = (rule.above_C ?? rule.below_C)!;
+  const u = sensorAccuracy_K + ch.modelUncertainty_K;
+  const against = dir === "above" ? -u : u; // moves the threshold so that more time counts
+  const nominal = timeBeyond(ch.t_s, ch.value_C, threshold_C, dir);
+  const strict = measure(ch.t_s, ch.value_C, threshold_C + against, dir);
+  const strictExceeds = exceeded(rule, strict, dir, u);
+
+  // Lenient measure on measured data only: each part outside the bridged spans on its own.
+  const parts = partsOutside(ch.t_s, ch.value_C, ch.uncertainSpans);
+  const lenient: Measure = { cumulative_s: 0, longest_s: 0, extreme_C: dir === "above" ? -Infinity : Infinity };
+  for (const p of parts) {
+    const m = measure(p.t_s, p.v, threshold_C - against, dir);
+    lenient.cumulative_s += m.cumulative_s;
+    lenient.longest_s = Math.max(lenient.longest_s, m.longest_s);
+    lenient.extreme_C = dir === "above" ? Math.max(lenient.extreme_C, m.extreme_C) : Math.min(lenient.extreme_C, m.extreme_C);
+  }
+  const lenientExceeds = parts.length > 0 ? exceeded(rule, lenient, dir, -u) : [];
+
+  const band = u > 0 ? ` (guard band ±${fmt(u)} K)` : "";
+  let status: RuleStatus;
+  let reason: string;
+  if (lenientExceeds.length > 0) {
+    status = "fail";
+    reason = `fails${band}: ${lenientExceeds.join("; ")}`;
+  } else if (strictExceeds.length > 0) {
+    status = "inconclusive";
+    reason = `undecided inside the guard band${band}: within the limits only when the readings are taken in the shipment's favour; taken against it: ${strictExceeds.join("; ")}`;
+  } else if (ch.uncertainSpans.length > 0) {
+    status = "inconclusive";
+    reason = `within the limits${band}, but judged across ${ch.uncertainSpans.length} data gap(s) bridged by linear interpolation`;
+  } else {
+    status = "pass";
+    reason = `within the limits${band}`;
+  }
+  return {
+    id: rule.id,
+    channel: rule.channel,
+    direction: dir,
+    threshold_C,
+    cumulative_s: nominal.cumulative_s,
+    longest_s: nominal.longest_s,
+    extreme_C: extremeOf(ch.value_C, dir),
+    excursions: nominal.excursions,
+    guard_K: u,
+    status,
+    reason,
+  };
+}
+
+/** accept when every rule passes, reject when any fails, hold for review otherwise. */
+export function overallOutcome(findings: readonly RuleFinding[]): Outcome {
+  if (findings.some((f) => f.status === "fail")) return "reject";
+  if (findings.every((f) => f.status === "pass")) return "accept";
+  return "hold";
+}
+
+export function evaluateLimitSet(limits: LimitSet, channels: Partial<Record<Rule["channel"], ChannelSeries>>): RuleFinding[] {
+  return limits.rules.map((rule) => {
+    const ch = channels[rule.channel];
+    if (!ch) throw new Error(`rule '${rule.id}' needs the '${rule.channel}' channel, which this review does not have`);
+    return evaluateRule(rule, ch, limits.sensor_accuracy_K ?? 0);
+  });
+}

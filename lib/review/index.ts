@@ -1,0 +1,3 @@
+export * from "./runReview";
+export * from "./cautions";
+export * from "./canonical";

@@ -1,0 +1,3 @@
+export * from "./product";
+export * from "./lumped";
+export * from "./screening";

@@ -1,0 +1,6 @@
+export * from "./series";
+export * from "./settings";
+export * from "./errors";
+export * from "./importCsv";
+export * from "./hash";
+export * from "./values";

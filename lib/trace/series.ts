@@ -1,0 +1,66 @@
+/** A parsed logger trace in engine units: epoch seconds (UTC) and °C. */
+export interface TraceSeries {
+  /** sample times, seconds since the Unix epoch (UTC), strictly increasing */
+  t_s: Float64Array;
+  /** air temperature at each sample, °C; NaN marks a missing value (a gap) */
+  air_C: Float64Array;
+}
+
+/** A span of the trace with no valid air reading, bridged linearly by the models. */
+export interface Gap {
+  start_s: number;
+  end_s: number;
+  duration_s: number;
+}
+
+/** Median spacing of the sample times, s (0 for fewer than two samples). */
+export function medianInterval_s(t_s: Float64Array): number {
+  if (t_s.length < 2) return 0;
+  const d = new Float64Array(t_s.length - 1);
+  for (let i = 1; i < t_s.length; i++) d[i - 1] = t_s[i]! - t_s[i - 1]!;
+  d.sort();
+  const m = d.length >> 1;
+  return d.length % 2 ? d[m]! : (d[m - 1]! + d[m]!) / 2;
+}
+
+/**
+ * Runs of missing values (NaN) between two valid readings. Each gap spans from the last valid sample
+ * before it to the first valid one after it: the interval over which the models must bridge.
+ */
+export function findGaps(series: TraceSeries): Gap[] {
+  const { t_s, air_C } = series;
+  const gaps: Gap[] = [];
+  let lastValid = -1;
+  for (let i = 0; i < t_s.length; i++) {
+    if (Number.isNaN(air_C[i]!)) continue;
+    if (lastValid >= 0 && i - lastValid > 1) {
+      const start_s = t_s[lastValid]!;
+      const end_s = t_s[i]!;
+      gaps.push({ start_s, end_s, duration_s: end_s - start_s });
+    }
+    lastValid = i;
+  }
+  return gaps;
+}
+
+/**
+ * Fills NaN runs by linear interpolation in time between the neighbouring valid readings (the stated
+ * bridging rule). Leading or trailing NaN cannot be bridged and are an error: the caller trims them.
+ */
+export function bridgeGaps(series: TraceSeries): Float64Array {
+  const { t_s, air_C } = series;
+  const out = Float64Array.from(air_C);
+  let lastValid = -1;
+  for (let i = 0; i < out.length; i++) {
+    if (Number.isNaN(out[i]!)) continue;
+    if (lastValid >= 0 && i - lastValid > 1) {
+      const t0 = t_s[lastValid]!, v0 = out[lastValid]!, t1 = t_s[i]!, v1 = out[i]!;
+      for (let j = lastValid + 1; j < i; j++) out[j] = v0 + ((v1 - v0) * (t_s[j]! - t0)) / (t1 - t0);
+    }
+    lastValid = i;
+  }
+  if (Number.isNaN(out[0]!) || Number.isNaN(out[out.length - 1]!)) {
+    throw new Error("the trace starts or ends with missing air readings, which cannot be bridged");
+  }
+  return out;
+}

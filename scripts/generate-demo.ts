@@ -1,0 +1,81 @@
+// Writes the demo scenario's files under public/demo/. Deterministic: same script, same bytes.
+// Scenario (invented): "Harrowgate Fresh Kitchens" sends chilled ready meals in insulated totes on a
+// five-drop regional route; at the third drop the tote waits on a warm loading dock for an hour.
+import { writeFileSync, mkdirSync } from "node:fs";
+import path from "node:path";
+
+/** mulberry32: a small seeded generator, so the demo noise is the same on every machine. */
+function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+const OUT = path.join(__dirname, "..", "public", "demo");
+const START_UTC_MS = Date.UTC(2026, 5, 16, 3, 0, 0); // 05:00 local (UTC+02:00)
+const STEP_MIN = 2;
+const HOURS = 12;
+
+/** Air temperature inside the van around the tote, °C, at minute m of the route. */
+function airAt(m: number): number {
+  const setpoint = 3.0;
+  const drops = [95, 190, 300, 470, 560]; // door opens for each drop (minutes from departure)
+  let a = setpoint;
+  if (m < 20) a = 9 - (6 * m) / 20; // loading bay, van pulling down to setpoint
+  for (const d of drops) {
+    if (m >= d && m < d + 8) a = 11.5; // doors open at the drop
+    else if (m >= d + 8 && m < d + 30) a = setpoint + 8.5 * Math.exp(-(m - d - 8) / 7);
+  }
+  if (m >= 310 && m < 370) a = 14.5 + 1.5 * Math.sin(((m - 310) / 60) * Math.PI); // tote left on the dock
+  if (m >= 370 && m < 405) a = setpoint + 11.5 * Math.exp(-(m - 370) / 9);
+  return a;
+}
+
+function main(): void {
+  mkdirSync(OUT, { recursive: true });
+  const rand = mulberry32(20260616);
+  const lines = [
+    "Logger serial;HX-20417",
+    "Trip;Route 7 north, tote 3 of 8",
+    "Exported;2026-06-16 18:05",
+    "",
+    "Timestamp,Air temperature (°C)",
+  ];
+  for (let m = 0; m <= HOURS * 60; m += STEP_MIN) {
+    const t = new Date(START_UTC_MS + m * 60_000);
+    const local = new Date(t.getTime() + 2 * 3600_000).toISOString().slice(0, 19);
+    const noise = (rand() - 0.5) * 0.3;
+    lines.push(`${local}+02:00,${(airAt(m) + noise).toFixed(1)}`);
+  }
+  // Metadata lines use ';' as exported by the logger's software; the data block is comma-separated.
+  const csv = lines.map((l, i) => (i < 3 ? l.replace(";", ": ") : l)).join("\r\n") + "\r\n";
+  writeFileSync(path.join(OUT, "route7-tote3.csv"), csv, "utf8");
+
+  const product = {
+    name: "Ready meal tray 450 g (in tote)",
+    mass_kg: 0.45,
+    properties: { cp_J_kgK: 3600, density_kg_m3: 1050, k_W_mK: 0.45 },
+    area_m2: 0.062,
+    h_W_m2K: 2.5,
+    initial_C: 3.2,
+  };
+  writeFileSync(path.join(OUT, "ready-meal.product.json"), JSON.stringify(product, null, 2) + "\n");
+
+  const limits = {
+    name: "Harrowgate chilled ready meals (example plan)",
+    sensor_accuracy_K: 0.5,
+    rules: [
+      { id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 },
+      { id: "core-peak-8C", channel: "core", above_C: 8, max_peak_C: 8 },
+      { id: "air-above-8C", channel: "air", above_C: 8, max_cumulative_min: 180, max_continuous_min: 120 },
+    ],
+  };
+  writeFileSync(path.join(OUT, "ready-meal.limits.json"), JSON.stringify(limits, null, 2) + "\n");
+}
+
+main();

@@ -1,0 +1,13 @@
+import path from "node:path";
+import { defineConfig } from "vitest/config";
+
+export default defineConfig({
+  resolve: { alias: { "@": path.resolve(__dirname) } },
+  test: {
+    environment: "node",
+    include: ["tests/unit/**/*.test.ts", "tests/integration/**/*.test.ts"],
+    // Integration tests migrate their own SQLite files; a non-UTC zone catches code that forgets a zone.
+    env: { TZ: "America/Sao_Paulo" },
+    testTimeout: 60_000,
+  },
+});
