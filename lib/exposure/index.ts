@@ -3,3 +3,4 @@ export * from "./mkt";
 export * from "./limits";
 export * from "./rules";
 export * from "./window";
+export * from "./templates";

@@ -9,8 +9,9 @@ export const GAS_CONSTANT_J_molK = 8.3144;
 /**
  * Mean kinetic temperature of a piecewise-linear series, °C:
  *   T_MKT = (ΔH/R) / −ln( Σ wi·exp(−ΔH/(R·Ti)) / Σ wi ),  T in kelvin,
- * where each sample's weight wi is the time it stands for (trapezoid weights: half of each adjoining
- * interval), so irregular sampling is weighted by time rather than by count.
+ * where each reading's weight wi is the time it stands for: half of each adjoining interval, and a full
+ * interval for the first and last readings. Equally spaced readings thus reduce exactly to the published
+ * unweighted mean; irregular sampling is weighted by time rather than by count.
  */
 export function meanKineticTemperature_C(t_s: Float64Array, value_C: Float64Array, activation_kJ_mol = DEFAULT_ACTIVATION_kJ_mol): number {
   const n = t_s.length;
@@ -20,8 +21,8 @@ export function meanKineticTemperature_C(t_s: Float64Array, value_C: Float64Arra
   let num = 0;
   let den = 0;
   for (let i = 0; i < n; i++) {
-    const left = i > 0 ? t_s[i]! - t_s[i - 1]! : 0;
-    const right = i < n - 1 ? t_s[i + 1]! - t_s[i]! : 0;
+    const left = i > 0 ? t_s[i]! - t_s[i - 1]! : t_s[1]! - t_s[0]!;
+    const right = i < n - 1 ? t_s[i + 1]! - t_s[i]! : t_s[n - 1]! - t_s[n - 2]!;
     const w = (left + right) / 2;
     num += w * Math.exp(-dHoverR / (value_C[i]! + 273.15));
     den += w;

@@ -99,21 +99,24 @@ export function evaluateRule(rule: Rule, ch: ChannelSeries, sensorAccuracy_K: nu
   }
   const lenientExceeds = parts.length > 0 ? exceeded(rule, lenient, dir, -u) : [];
 
-  const band = u > 0 ? ` (guard band ±${fmt(u)} K)` : "";
+  const fmtC = (x: number) => `${fmt(x)} °C`;
   let status: RuleStatus;
   let reason: string;
   if (lenientExceeds.length > 0) {
     status = "fail";
-    reason = `fails${band}: ${lenientExceeds.join("; ")}`;
+    reason =
+      u > 0
+        ? `fails even with the threshold moved ${fmt(u)} K in the shipment's favour (to ${fmtC(threshold_C - against)}): ${lenientExceeds.join("; ")}`
+        : `fails: ${lenientExceeds.join("; ")}`;
   } else if (strictExceeds.length > 0) {
     status = "inconclusive";
-    reason = `undecided inside the guard band${band}: within the limits only when the readings are taken in the shipment's favour; taken against it: ${strictExceeds.join("; ")}`;
+    reason = `inside the ±${fmt(u)} K guard band: within the limits with the threshold at ${fmtC(threshold_C - against)}, not with it at ${fmtC(threshold_C + against)} (${strictExceeds.join("; ")})`;
   } else if (ch.uncertainSpans.length > 0) {
     status = "inconclusive";
-    reason = `within the limits${band}, but judged across ${ch.uncertainSpans.length} data gap(s) bridged by linear interpolation`;
+    reason = `within the limits, but judged across ${ch.uncertainSpans.length} data gap(s) bridged by linear interpolation`;
   } else {
     status = "pass";
-    reason = `within the limits${band}`;
+    reason = u > 0 ? `passes with the threshold moved ${fmt(u)} K against the shipment (to ${fmtC(threshold_C + against)})` : "passes";
   }
   return {
     id: rule.id,

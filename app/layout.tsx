@@ -1,0 +1,27 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import "./globals.css";
+
+export const metadata: Metadata = {
+  title: "Corelag",
+  description: "Product core temperature from cold-chain logger traces",
+};
+
+export default function RootLayout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en">
+      <body>
+        <header className="site">
+          <Link href="/" className="brand">Corelag</Link>
+          <nav aria-label="Main">
+            <Link href="/">Reviews</Link>
+            <Link href="/traces">Traces</Link>
+            <Link href="/products">Products</Link>
+            <Link href="/limits">Limit sets</Link>
+          </nav>
+        </header>
+        <main>{children}</main>
+      </body>
+    </html>
+  );
+}

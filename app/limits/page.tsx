@@ -1,0 +1,48 @@
+import { listLatestDefinitions } from "@/lib/db/definitions";
+import type { LimitSet } from "@/lib/exposure/limits";
+import { LIMIT_TEMPLATES } from "@/lib/exposure/templates";
+import { LimitSetEditor } from "./LimitSetEditor";
+
+export const dynamic = "force-dynamic";
+
+function describeRule(r: LimitSet["rules"][number]): string {
+  const parts = [`${r.channel} ${r.above_C !== undefined ? `above ${r.above_C}` : `below ${r.below_C}`} °C`];
+  if (r.max_cumulative_min !== undefined) parts.push(`at most ${r.max_cumulative_min} min in all`);
+  if (r.max_continuous_min !== undefined) parts.push(`at most ${r.max_continuous_min} min at a stretch`);
+  if (r.max_peak_C !== undefined) parts.push(`never beyond ${r.max_peak_C} °C`);
+  if (parts.length === 1) parts.push("no time allowed");
+  return parts.join(", ");
+}
+
+export default async function LimitsPage({ searchParams }: { searchParams: Promise<{ saved?: string }> }) {
+  const { saved } = await searchParams;
+  const sets = await listLatestDefinitions<LimitSet>("limits");
+  return (
+    <>
+      <h1>Limit sets</h1>
+      {saved && <p className="muted" data-testid="saved-note">Limit set saved.</p>}
+      <section className="card">
+        <h2 style={{ marginTop: 0 }}>Stored limit sets</h2>
+        {sets.length === 0 ? <p className="muted">No limit sets yet.</p> : (
+          <table data-testid="limits-list">
+            <thead><tr><th>Name</th><th className="num">Version</th><th>Rules</th><th className="num">Sensor ± K</th></tr></thead>
+            <tbody>
+              {sets.map((s) => (
+                <tr key={s.id}>
+                  <td>{s.name}</td>
+                  <td className="num">{s.version}</td>
+                  <td><ul style={{ margin: 0, paddingLeft: "1rem" }}>{s.body.rules.map((r) => <li key={r.id}><strong>{r.id}</strong>: {describeRule(r)}</li>)}</ul></td>
+                  <td className="num">{s.body.sensor_accuracy_K ?? 0}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+      </section>
+      <section className="card">
+        <h2 style={{ marginTop: 0 }}>New limit set</h2>
+        <LimitSetEditor templates={LIMIT_TEMPLATES} />
+      </section>
+    </>
+  );
+}

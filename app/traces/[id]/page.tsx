@@ -1,0 +1,49 @@
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { getTrace } from "@/lib/db/traces";
+import { findGaps, medianInterval_s } from "@/lib/trace/series";
+import { readableDuration } from "@/lib/thermal/screening";
+import { TemperatureChart } from "@/app/components/TemperatureChart";
+
+export const dynamic = "force-dynamic";
+
+export default async function TracePage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const trace = await getTrace(id);
+  if (!trace) notFound();
+  const { meta, series } = trace;
+  const gaps = findGaps(series);
+  const s = meta.importSettings;
+  return (
+    <>
+      <h1>Trace: {meta.name}</h1>
+      <section className="card">
+        <dl className="facts">
+          <dt>File</dt><dd>{meta.fileName}</dd>
+          <dt>SHA-256 of the original bytes</dt><dd><code className="hash" data-testid="trace-sha256">{meta.sha256}</code></dd>
+          <dt>Samples</dt><dd data-testid="trace-samples">{meta.sampleCount}</dd>
+          <dt>From – to (UTC)</dt><dd>{meta.startAt.toISOString()} – {meta.endAt.toISOString()}</dd>
+          <dt>Median interval</dt><dd>{readableDuration(medianInterval_s(series.t_s))}</dd>
+          <dt>Import settings</dt>
+          <dd>header on row {s.headerRow}; delimiter {JSON.stringify(s.delimiter)}; time column ‘{s.timeColumn}’ read in {s.timeZone}; air column ‘{s.airColumn}’ in {s.unit === "K" ? "K" : `°${s.unit}`}</dd>
+          <dt>Gaps</dt><dd>{gaps.length === 0 ? "none" : `${gaps.length} (bridged linearly by the models)`}</dd>
+        </dl>
+        {meta.warnings.length > 0 && (
+          <>
+            <h2>Import warnings</h2>
+            <ul className="warnings" data-testid="trace-warnings">{meta.warnings.map((w) => <li key={w}>{w}</li>)}</ul>
+          </>
+        )}
+        <p className="no-print"><Link href={`/reviews/new?trace=${meta.id}`}>Review this trace →</Link></p>
+      </section>
+      <section className="card">
+        <TemperatureChart
+          title={`Air temperature, ${meta.name}`}
+          times_ms={Array.from(series.t_s, (t) => t * 1000)}
+          lines={[{ label: "Air", color: "var(--air)", values: Array.from(series.air_C) }]}
+          gaps={gaps.map((g) => [g.start_s * 1000, g.end_s * 1000])}
+        />
+      </section>
+    </>
+  );
+}

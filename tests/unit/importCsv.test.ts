@@ -1,0 +1,78 @@
+import { describe, it, expect } from "vitest";
+import { readFileSync } from "node:fs";
+import path from "node:path";
+import { importCsv, TraceImportError } from "@/lib/trace";
+import { expectClose } from "../helpers/numeric";
+
+const enc = (s: string) => new TextEncoder().encode(s);
+const refused = (text: string, opts = {}) => {
+  try {
+    importCsv(enc(text), opts);
+  } catch (e) {
+    expect(e).toBeInstanceOf(TraceImportError);
+    return (e as Error).message;
+  }
+  throw new Error("expected the import to be refused");
+};
+
+describe("importCsv", () => {
+  it("importCsv reads the demo export: metadata lines skipped, offsets honoured, °C from the header", () => {
+    const bytes = readFileSync(path.join(__dirname, "../../public/demo/route7-tote3.csv"));
+    const r = importCsv(bytes);
+    expect(r.settings).toMatchObject({ headerRow: 5, timeColumn: "Timestamp", airColumn: "Air temperature (°C)", unit: "C", delimiter: "," });
+    expect(r.series.t_s.length).toBe(361);
+    // first row: 2026-06-16T05:00:00+02:00 = 03:00 UTC
+    expect(r.series.t_s[0]).toBe(Date.UTC(2026, 5, 16, 3) / 1000);
+    expect(r.series.t_s[1]! - r.series.t_s[0]!).toBe(120);
+    expect(r.warnings).toEqual([]);
+  });
+
+  it("importCsv converts °F from the header to °C exactly", () => {
+    const r = importCsv(enc("time,temp (°F)\n2026-01-01T00:00:00Z,41\n2026-01-01T00:05:00Z,32\n"));
+    expect(r.settings.unit).toBe("F");
+    expectClose(r.series.air_C[0]!, 5, { abs: 1e-12 });
+    expect(r.series.air_C[1]).toBe(0);
+  });
+
+  it("importCsv reads local times in the chosen IANA zone", () => {
+    const r = importCsv(enc("time;air\n2026-07-01 12:00:00;4.0\n2026-07-01 12:10:00;4.5\n"), { timeZone: "Europe/Berlin" });
+    expect(r.settings.delimiter).toBe(";");
+    expect(r.series.t_s[0]).toBe(Date.UTC(2026, 6, 1, 10) / 1000); // CEST = UTC+2
+  });
+
+  it("importCsv refuses a text cell in the temperature column, naming row and column", () => {
+    const msg = refused("Time,Temp\n2026-01-01T00:00:00Z,4.1\n2026-01-01T00:01:00Z,12,4,1\n");
+    expect(msg).toBe("row 3: expected 2 fields but found 4");
+    expect(refused("Time,Temp\n2026-01-01T00:00:00Z,4.1\n2026-01-01T00:01:00Z,warm\n")).toBe("row 3, column 'Temp': 'warm' is not a number");
+  });
+
+  it("importCsv refuses an unreadable timestamp, naming row and column", () => {
+    expect(refused("Time,Temp\n2026-01-01T00:00:00Z,4.1\nyesterday,4.2\n")).toBe("row 3, column 'Time': 'yesterday' is not a timestamp");
+  });
+
+  it("importCsv keeps missing readings as gaps, never zeros", () => {
+    const r = importCsv(enc("Time,Temp\n2026-01-01T00:00:00Z,4\n2026-01-01T00:01:00Z,\n2026-01-01T00:02:00Z,NA\n2026-01-01T00:03:00Z,5\n"));
+    expect(Array.from(r.series.air_C)).toEqual([4, NaN, NaN, 5]);
+  });
+
+  it("importCsv excludes implausible readings with a warning instead of clipping them", () => {
+    const r = importCsv(enc("Time,Temp\n2026-01-01T00:00:00Z,4\n2026-01-01T00:01:00Z,999\n2026-01-01T00:02:00Z,5\n"));
+    expect(Number.isNaN(r.series.air_C[1]!)).toBe(true);
+    expect(r.warnings[0]).toMatch(/1 reading\(s\) outside -60 to 80 °C were excluded.*rows 3/);
+  });
+
+  it("importCsv sorts out-of-order rows and drops exact duplicates, reporting both", () => {
+    const r = importCsv(enc("Time,Temp\n2026-01-01T00:02:00Z,6\n2026-01-01T00:00:00Z,4\n2026-01-01T00:00:00Z,4\n2026-01-01T00:01:00Z,5\n"));
+    expect(Array.from(r.series.air_C)).toEqual([4, 5, 6]);
+    expect(r.warnings.join(" ")).toMatch(/sorted.*1 exact duplicate row\(s\) dropped \(rows 4\)/);
+  });
+
+  it("importCsv refuses empty and header-only files", () => {
+    expect(() => importCsv(new Uint8Array())).toThrow("the file is empty");
+    expect(refused("Time,Temp\n")).toMatch(/no header row/);
+  });
+
+  it("importCsv refuses bytes that are not text", () => {
+    expect(() => importCsv(Uint8Array.from([0x50, 0x4b, 0x03, 0x04, 0xff, 0xfe, 0x80]))).toThrow(/not valid UTF-8/);
+  });
+});
