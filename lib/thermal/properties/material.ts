@@ -1,0 +1,103 @@
+import type { Composition } from "../definitions";
+import { mixture, type MassFractions } from "./choiOkos";
+import { iceFraction, LATENT_FUSION_WATER_J_kg } from "./iceFraction";
+import { EnthalpyCurve } from "./enthalpyCurve";
+
+/** Thermal properties of a product material as functions of temperature (°C). */
+export interface Material {
+  density(t_C: number): number;
+  conductivity(t_C: number): number;
+  /** apparent specific heat dh/dT, J/(kg·K), including latent heat released or absorbed */
+  apparentCp(t_C: number): number;
+  /** specific enthalpy, J/kg, as a table */
+  enthalpy: EnthalpyCurve;
+  /** constant properties and no phase change: the lumped model may use its exact update */
+  linear: boolean;
+  /** ice mass fraction at t_C (0 for a material without a freezing model) */
+  ice(t_C: number): number;
+  description: string;
+}
+
+/** Temperature range of the tables, °C: the import's plausible range with a margin. */
+const T_MIN = -60;
+const T_MAX = 100;
+
+export function constantMaterial(props: { cp_J_kgK: number; density_kg_m3?: number; k_W_mK?: number }): Material {
+  const { cp_J_kgK: cp } = props;
+  const enthalpy = new EnthalpyCurve(Float64Array.from([T_MIN, T_MAX]), Float64Array.from([0, cp * (T_MAX - T_MIN)]));
+  return {
+    density: () => props.density_kg_m3 ?? Number.NaN,
+    conductivity: () => props.k_W_mK ?? Number.NaN,
+    apparentCp: () => cp,
+    enthalpy,
+    linear: true,
+    ice: () => 0,
+    description: "properties as given (constant)",
+  };
+}
+
+/**
+ * Properties from composition with the Choi–Okos correlations. Above the initial freezing point the
+ * water is liquid; below it, the ice fraction follows Tchigeov's equation and the enthalpy is
+ *   h(T) = ∫ c_sensible dT + L·(x_wo − x_ice(T)),
+ * with c_sensible the mass-weighted specific heat of solids, ice and unfrozen water (Choi–Okos) and
+ * L = 333.6 kJ/kg. The apparent specific heat is dh/dT. Below −40 °C the correlations are extrapolated.
+ * Without a freezing point, no freezing is modelled.
+ */
+export function compositionMaterial(c: Composition, freezingPoint_C?: number): Material {
+  const solids: MassFractions = { protein: c.protein, fat: c.fat, carbohydrate: c.carbohydrate, fiber: c.fiber, ash: c.ash };
+  const xIce = (t: number) => (freezingPoint_C === undefined ? 0 : iceFraction(t, c.water, freezingPoint_C));
+  const fractionsAt = (t: number): MassFractions => {
+    const ice = xIce(t);
+    return { ...solids, water: c.water - ice, ice };
+  };
+  const props = (t: number) => mixture(fractionsAt(t), t);
+
+  // Tabulate h(T): fine steps near and below the freezing point where the curve bends, coarser above.
+  const temps: number[] = [];
+  const fine = 0.02, coarse = 0.25;
+  const tf = freezingPoint_C ?? Number.NEGATIVE_INFINITY;
+  for (let t = T_MIN; t < T_MAX; ) {
+    temps.push(t);
+    const step = t < tf + 1 && t > tf - 15 ? fine : t <= tf - 15 ? 0.1 : coarse;
+    const next = t + step;
+    if (t < tf && next > tf) {
+      temps.push(tf);
+      t = tf + fine;
+    } else t = next;
+  }
+  temps.push(T_MAX);
+  const T = Float64Array.from(temps);
+  const H = new Float64Array(T.length);
+  // Sensible part by Simpson's rule on each interval; latent part exact from the ice fraction.
+  let sensible = 0;
+  const cSens = (t: number) => props(t).cp_J_kgK;
+  H[0] = LATENT_FUSION_WATER_J_kg * (c.water - xIce(T[0]!));
+  for (let i = 1; i < T.length; i++) {
+    const a = T[i - 1]!, b = T[i]!;
+    // Water's cp fit switches at 0 °C: integrate each side separately.
+    sensible += simpson(cSens, a, b);
+    H[i] = sensible + LATENT_FUSION_WATER_J_kg * (c.water - xIce(b));
+  }
+  const enthalpy = new EnthalpyCurve(T, H);
+  return {
+    density: (t) => props(t).density_kg_m3,
+    conductivity: (t) => props(t).k_W_mK,
+    apparentCp: (t) => {
+      const h = 0.01;
+      return (enthalpy.hAt(t + h) - enthalpy.hAt(t - h)) / (2 * h);
+    },
+    enthalpy,
+    linear: false,
+    ice: xIce,
+    description:
+      freezingPoint_C === undefined
+        ? "Choi–Okos (1986) from composition, unfrozen"
+        : `Choi–Okos (1986) from composition; ice fraction by Tchigeov's equation below ${freezingPoint_C} °C`,
+  };
+}
+
+function simpson(f: (t: number) => number, a: number, b: number): number {
+  if (a < 0 && b > 0) return simpson(f, a, 0) + simpson(f, 0, b);
+  return ((b - a) / 6) * (f(a) + 4 * f((a + b) / 2) + f(b));
+}
