@@ -17,6 +17,7 @@ export default function RootLayout({ children }: { children: React.ReactNode }) 
             <Link href="/">Reviews</Link>
             <Link href="/traces">Traces</Link>
             <Link href="/products">Products</Link>
+            <Link href="/packs">Packs</Link>
             <Link href="/limits">Limit sets</Link>
           </nav>
         </header>

@@ -11,6 +11,8 @@ export async function startReview(_prev: FormState, form: FormData): Promise<For
     traceId: textField(form, "traceId") ?? "",
     productId: textField(form, "productId") ?? "",
     limitsId: textField(form, "limitsId") ?? "",
+    packId: textField(form, "packId") || undefined,
+    model: textField(form, "model") || undefined,
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
   const outcome = await runAndStoreReview(parsed.data);

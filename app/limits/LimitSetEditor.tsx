@@ -1,7 +1,7 @@
 "use client";
 
 import { useActionState, useState } from "react";
-import { createLimitSet } from "@/app/actions/limits";
+import { saveLimitSet } from "@/app/actions/definitions";
 import { FormMessage } from "@/app/components/Field";
 import { CHANNELS, type LimitSet } from "@/lib/exposure/limits";
 import type { LimitTemplate } from "@/lib/exposure/templates";
@@ -33,11 +33,11 @@ function rowsFrom(limits: LimitSet): RuleRow[] {
 }
 
 /** Builds a limit set rule by rule; the server validates the whole set and names the rule and field at fault. */
-export function LimitSetEditor({ templates }: { templates: readonly LimitTemplate[] }) {
-  const [state, action, pending] = useActionState<FormState, FormData>(createLimitSet, {});
-  const [name, setName] = useState("");
-  const [accuracy, setAccuracy] = useState("0.5");
-  const [rules, setRules] = useState<RuleRow[]>([emptyRule(1)]);
+export function LimitSetEditor({ templates, editing }: { templates: readonly LimitTemplate[]; editing?: { id: string; lineage: string; version: number; body: LimitSet } }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(saveLimitSet, {});
+  const [name, setName] = useState(editing?.body.name ?? "");
+  const [accuracy, setAccuracy] = useState(editing ? (editing.body.sensor_accuracy_K?.toString() ?? "") : "0.5");
+  const [rules, setRules] = useState<RuleRow[]>(editing ? rowsFrom(editing.body) : [emptyRule(1)]);
   const [source, setSource] = useState<string | null>(null);
 
   const definition = {
@@ -65,6 +65,7 @@ export function LimitSetEditor({ templates }: { templates: readonly LimitTemplat
 
   return (
     <form action={action} className="stack" style={{ maxWidth: "none" }} aria-label="Limit set">
+      {editing && <p className="muted">Editing version {editing.version}: saving creates version {editing.version + 1}.</p>}
       <label htmlFor="f-template">
         Start from a template
         <select id="f-template" defaultValue="" onChange={(e) => applyTemplate(e.target.value)} data-testid="template-select">
@@ -122,8 +123,10 @@ export function LimitSetEditor({ templates }: { templates: readonly LimitTemplat
       <p className="hint muted">A rule with no maximum allows no time beyond its threshold. Leave a maximum blank to not use it.</p>
       <button type="button" className="secondary" onClick={() => setRules([...rules, emptyRule(rules.length + 1)])}>Add a rule</button>
       <input type="hidden" name="definition" value={JSON.stringify(definition)} />
+      <input type="hidden" name="lineage" value={editing?.lineage ?? ""} />
+      <input type="hidden" name="editing" value={editing?.id ?? ""} />
       <FormMessage state={state} />
-      <button type="submit" disabled={pending}>{pending ? "Saving…" : "Save limit set"}</button>
+      <button type="submit" disabled={pending}>{pending ? "Saving…" : editing ? "Save new version" : "Save limit set"}</button>
     </form>
   );
 }

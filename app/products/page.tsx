@@ -1,13 +1,21 @@
-import { listLatestDefinitions } from "@/lib/db/definitions";
-import { bareProductSchema, type BareProduct } from "@/lib/thermal/product";
-import { readableDuration, screenBareProduct } from "@/lib/thermal/screening";
-import { ProductForm } from "./ProductForm";
+import Link from "next/link";
+import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
+import { productSchema, type Pack, type Product } from "@/lib/thermal/definitions";
+import { screenDefinition } from "@/lib/thermal/predict";
+import { ProductEditor } from "./ProductEditor";
 
 export const dynamic = "force-dynamic";
 
-export default async function ProductsPage({ searchParams }: { searchParams: Promise<{ saved?: string }> }) {
-  const { saved } = await searchParams;
-  const products = await listLatestDefinitions<BareProduct>("product");
+function describeShape(p: Product): string {
+  if (!p.shape) return "no shape (lumped)";
+  const { kind, ...dims } = p.shape;
+  return `${kind} ${Object.values(dims).map((v) => `${Number((v * 1000).toPrecision(4))}`).join(" × ")} mm`;
+}
+
+export default async function ProductsPage({ searchParams }: { searchParams: Promise<{ saved?: string; edit?: string }> }) {
+  const { saved, edit } = await searchParams;
+  const [products, packs] = await Promise.all([listLatestDefinitions<Product>("product"), listLatestDefinitions<Pack>("pack")]);
+  const editing = edit ? await getDefinition<Product>(edit) : null;
   return (
     <>
       <h1>Products</h1>
@@ -19,22 +27,22 @@ export default async function ProductsPage({ searchParams }: { searchParams: Pro
         ) : (
           <table data-testid="product-list">
             <thead>
-              <tr><th>Name</th><th className="num">Version</th><th className="num">Mass (kg)</th><th className="num">cp (J/kg·K)</th><th className="num">h·A (W/K)</th><th className="num">tau</th><th className="num">Bi</th></tr>
+              <tr><th>Name</th><th className="num">Version</th><th>Shape</th><th>Properties</th><th className="num">tau (own h)</th><th className="num">Bi</th><th /></tr>
             </thead>
             <tbody>
               {products.map((p) => {
-                const body = bareProductSchema.safeParse(p.body);
+                const body = productSchema.safeParse(p.body);
                 if (!body.success) return <tr key={p.id}><td>{p.name}</td><td colSpan={6}>stored definition no longer valid</td></tr>;
-                const s = screenBareProduct(body.data);
+                const s = body.data.h_W_m2K !== undefined ? screenDefinition(body.data, undefined) : null;
                 return (
                   <tr key={p.id}>
                     <td>{p.name}</td>
                     <td className="num">{p.version}</td>
-                    <td className="num">{body.data.mass_kg}</td>
-                    <td className="num">{body.data.properties.cp_J_kgK}</td>
-                    <td className="num">{(body.data.h_W_m2K * body.data.area_m2).toPrecision(3)}</td>
-                    <td className="num">{readableDuration(s.tau_s)}</td>
-                    <td className="num">{s.biot === null ? "–" : s.biot.toPrecision(2)}</td>
+                    <td>{describeShape(body.data)}</td>
+                    <td>{body.data.composition ? `composition${body.data.freezing_point_C !== undefined ? `, freezes at ${body.data.freezing_point_C} °C` : ""}` : `cp ${body.data.properties!.cp_J_kgK} J/kg·K`}</td>
+                    <td className="num">{s ? s.tau_readable : "with a pack"}</td>
+                    <td className="num">{s?.biot == null ? "–" : s.biot.toPrecision(2)}</td>
+                    <td><Link href={`/products?edit=${p.id}`}>Edit</Link></td>
                   </tr>
                 );
               })}
@@ -43,8 +51,12 @@ export default async function ProductsPage({ searchParams }: { searchParams: Pro
         )}
       </section>
       <section className="card">
-        <h2 style={{ marginTop: 0 }}>Define a product</h2>
-        <ProductForm />
+        <h2 style={{ marginTop: 0 }}>{editing ? `Edit ${editing.name}` : "Define a product"}</h2>
+        <ProductEditor
+          key={editing?.id ?? "new"}
+          editing={editing && editing.kind === "product" ? { id: editing.id, lineage: editing.lineage, version: editing.version, body: editing.body } : undefined}
+          packs={packs.map((p) => ({ id: p.id, name: `${p.name} v${p.version}`, body: p.body }))}
+        />
       </section>
     </>
   );

@@ -1,16 +1,32 @@
 // Corelag command line: `npm run -s corelag -- <command> [options]`. Prints JSON on stdout; on bad input
-// prints one line naming the file and the row or field at fault to stderr and exits non-zero.
-import { readFileSync } from "node:fs";
+// prints one line naming the file and the row or field at fault to stderr and exits 2.
+import { readFileSync, writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { z } from "zod";
-import { importCsv, importOptionsSchema, TraceImportError, sha256Hex } from "../trace";
-import { bareProductSchema } from "../thermal/product";
+import { findGaps, importCsv, importOptionsSchema, medianInterval_s, sha256Hex, TraceImportError, bridgeGaps, type ImportOptions, type TraceImport } from "../trace";
+import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
+import { predict } from "../thermal/predict";
 import { limitSetSchema } from "../exposure/limits";
-import { runReview } from "../review";
+import { runReview, unsupportedRule } from "../review";
+import { CAUTIONS } from "../review/cautions";
+import { csvRow } from "../review/csv";
 
 class CliError extends Error {}
 
-const USAGE = `usage: corelag review --trace FILE.csv --product PRODUCT.json --limits LIMITS.json [--time-col NAME] [--air-col NAME] [--unit C|F|K] [--tz ZONE] --format json`;
+const USAGE = `usage:
+  corelag import FILE [--time-col NAME] [--air-col NAME] [--unit C|F|K] [--tz ZONE] [--format json]
+  corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction] [--out FILE.csv] [import options] [--format json]
+  corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction] [import options] [--format json]`;
+
+const IMPORT_FLAGS = {
+  "time-col": { type: "string" },
+  "air-col": { type: "string" },
+  "product-col": { type: "string" },
+  unit: { type: "string" },
+  tz: { type: "string" },
+  "date-order": { type: "string" },
+  format: { type: "string", default: "json" },
+} as const;
 
 function readBytes(file: string): Uint8Array {
   try {
@@ -37,25 +53,13 @@ function readJsonFile<T>(file: string, schema: z.ZodType<T>): T {
   return parsed.data;
 }
 
-function reviewCommand(argv: string[]): unknown {
-  const { values } = parseArgs({
-    args: argv,
-    options: {
-      trace: { type: "string" },
-      product: { type: "string" },
-      limits: { type: "string" },
-      "time-col": { type: "string" },
-      "air-col": { type: "string" },
-      unit: { type: "string" },
-      tz: { type: "string" },
-      format: { type: "string", default: "json" },
-    },
-    strict: true,
-  });
-  for (const required of ["trace", "product", "limits"] as const) {
-    if (!values[required]) throw new CliError(`--${required} is required\n${USAGE}`);
-  }
-  if (values.format !== "json") throw new CliError(`--format: only 'json' is supported`);
+type Values = Record<string, string | boolean | undefined>;
+
+/** Import flags, checked before any file is read so a bad flag is reported as such. */
+function importOptionsFrom(values: Values): ImportOptions {
+  if (values.format !== undefined && values.format !== "json") throw new CliError(`--format: only 'json' is supported`);
+  if (values["product-col"] !== undefined) throw new CliError("--product-col: product-probe channels are not read yet; import the air channel only");
+  if (values["date-order"] !== undefined) throw new CliError("--date-order: only ISO 8601 dates (year first) are read yet");
   const opts = importOptionsSchema.safeParse({
     timeColumn: values["time-col"],
     airColumn: values["air-col"],
@@ -67,35 +71,119 @@ function reviewCommand(argv: string[]): unknown {
     const flag = { timeColumn: "--time-col", airColumn: "--air-col", unit: "--unit", timeZone: "--tz" }[String(issue.path[0])] ?? "option";
     throw new CliError(`${flag}: ${issue.message}`);
   }
-  const traceFile = values.trace!;
-  const bytes = readBytes(traceFile);
-  let imported;
+  return opts.data;
+}
+
+function importTrace(file: string, options: ImportOptions): { imported: TraceImport; bytes: Uint8Array } {
+  const bytes = readBytes(file);
   try {
-    imported = importCsv(bytes, opts.data);
+    return { imported: importCsv(bytes, options), bytes };
   } catch (e) {
-    if (e instanceof TraceImportError) throw new CliError(`${traceFile}: ${e.message}`);
+    if (e instanceof TraceImportError) throw new CliError(`${file}: ${e.message}`);
     throw e;
   }
-  const product = readJsonFile(values.product!, bareProductSchema);
-  const limits = readJsonFile(values.limits!, limitSetSchema);
-  const bad = limits.rules.findIndex((r) => r.channel !== "air" && r.channel !== "core");
-  if (bad >= 0) {
-    throw new CliError(`${values.limits}: field 'rules.${bad}.channel': '${limits.rules[bad]!.channel}' needs a model this command does not run yet (air and core are available)`);
-  }
-  const { result } = runReview({ series: imported.series, product, limits });
+}
+
+const iso = (t_s: number) => new Date(Math.round(t_s * 1000)).toISOString();
+
+function importCommand(argv: string[]): unknown {
+  const { values, positionals } = parseArgs({ args: argv, options: IMPORT_FLAGS, allowPositionals: true, strict: true });
+  if (positionals.length !== 1) throw new CliError(`give exactly one FILE to import\n${USAGE}`);
+  const file = positionals[0]!;
+  const { imported } = importTrace(file, importOptionsFrom(values));
+  const { series, settings, warnings } = imported;
+  const n = series.t_s.length;
   return {
-    trace: {
-      file: traceFile,
-      sha256: sha256Hex(bytes),
-      samples: imported.series.t_s.length,
-      import_settings: imported.settings,
-      warnings: imported.warnings,
+    samples: n,
+    channels: [{ name: settings.airColumn, role: "air", unit: settings.unit }],
+    start: iso(series.t_s[0]!),
+    end: iso(series.t_s[n - 1]!),
+    median_interval_s: medianInterval_s(series.t_s),
+    gaps: findGaps(series).map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s })),
+    warnings,
+  };
+}
+
+function modelInputs(values: Values): { product: Product; pack: Pack | undefined; model: z.infer<typeof modelChoiceSchema> } {
+  if (!values.trace) throw new CliError(`--trace is required\n${USAGE}`);
+  if (!values.product) throw new CliError(`--product is required\n${USAGE}`);
+  const product = readJsonFile(String(values.product), productSchema);
+  const pack = values.pack ? readJsonFile(String(values.pack), packSchema) : undefined;
+  const model = modelChoiceSchema.safeParse(values.model ?? "auto");
+  if (!model.success) throw new CliError(`--model: ${model.error.issues[0]!.message}`);
+  if (!pack && product.h_W_m2K === undefined) throw new CliError(`${values.product}: field 'h_W_m2K': give the product's surface coefficient, or a --pack`);
+  if (model.data === "conduction" && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
+    throw new CliError(`${values.product}: field 'shape': the conduction model needs the product's shape and conductivity`);
+  }
+  return { product, pack, model: model.data };
+}
+
+function predictCommand(argv: string[]): unknown {
+  const { values } = parseArgs({
+    args: argv,
+    options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, model: { type: "string" }, out: { type: "string" } },
+    strict: true,
+  });
+  const importOptions = importOptionsFrom(values);
+  const { product, pack, model } = modelInputs(values);
+  const { imported } = importTrace(String(values.trace), importOptions);
+  const { series } = imported;
+  const air = bridgeGaps(series);
+  const p = predict(product, pack, series.t_s, air, { model });
+  const gaps = findGaps(series).map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s }));
+  const screening = { ...p.screening, lumped_vs_conduction_K: p.lumped_vs_conduction_K };
+  if (values.out) {
+    const head = ["time_utc", "air_C", "core_C", "surface_C", "mean_C", ...(p.coolant ? ["coolant_C"] : [])];
+    const lines = [csvRow(head)];
+    for (let i = 0; i < series.t_s.length; i++) {
+      const row = [iso(series.t_s[i]!), air[i]!, p.core[i]!, p.surface[i]!, p.mean[i]!, ...(p.coolant ? [p.coolant[i]!] : [])];
+      lines.push(csvRow(row.map((v) => (typeof v === "number" ? v.toFixed(4) : v))));
+    }
+    try {
+      writeFileSync(String(values.out), lines.join("\r\n") + "\r\n");
+    } catch (e) {
+      throw new CliError(`${values.out}: cannot be written (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+    }
+    return { screening, solver: p.solver, gaps, out: values.out, cautions: CAUTIONS };
+  }
+  const arr = (a: Float64Array) => Array.from(a, (x) => Number(x.toFixed(4)));
+  return {
+    screening,
+    solver: p.solver,
+    gaps,
+    series: {
+      t: Array.from(series.t_s, iso),
+      air: arr(air),
+      core: arr(p.core),
+      surface: arr(p.surface),
+      mean: arr(p.mean),
+      ...(p.coolant ? { coolant: arr(p.coolant) } : {}),
     },
+    cautions: CAUTIONS,
+  };
+}
+
+function reviewCommand(argv: string[]): unknown {
+  const { values } = parseArgs({
+    args: argv,
+    options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, limits: { type: "string" }, model: { type: "string" } },
+    strict: true,
+  });
+  const importOptions = importOptionsFrom(values);
+  if (!values.limits) throw new CliError(`--limits is required\n${USAGE}`);
+  const { product, pack, model } = modelInputs(values);
+  const limits = readJsonFile(values.limits, limitSetSchema);
+  const bad = unsupportedRule(limits);
+  if (bad) throw new CliError(`${values.limits}: field 'rules.${bad.index}.channel': '${bad.channel}' is not produced by a review yet (air, core, surface and mean are)`);
+  const { imported, bytes } = importTrace(String(values.trace), importOptions);
+  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model } });
+  return {
+    trace: { file: values.trace, sha256: sha256Hex(bytes), samples: imported.series.t_s.length, import_settings: imported.settings, warnings: imported.warnings },
     ...result,
   };
 }
 
-const COMMANDS: Record<string, (argv: string[]) => unknown> = { review: reviewCommand };
+const COMMANDS: Record<string, (argv: string[]) => unknown> = { import: importCommand, predict: predictCommand, review: reviewCommand };
 
 function main(argv: string[]): number {
   const [command, ...rest] = argv;

@@ -1,6 +1,6 @@
 import { db } from "./client";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
-import type { ReviewResult } from "../review";
+import type { ReviewComputation, ReviewResult } from "../review";
 
 export interface NewReview {
   title: string;
@@ -10,12 +10,12 @@ export interface NewReview {
   limitsId: string;
   options: Record<string, unknown>;
   engineVersion: string;
-  result: ReviewResult;
-  core_C: Float64Array;
+  computation: ReviewComputation;
   resultSha256: string;
 }
 
 export async function createReview(r: NewReview): Promise<string> {
+  const c = r.computation;
   const row = await db.review.create({
     data: {
       title: r.title,
@@ -25,10 +25,13 @@ export async function createReview(r: NewReview): Promise<string> {
       limitsId: r.limitsId,
       options: r.options as object,
       engineVersion: r.engineVersion,
-      result: r.result as object,
-      coreC: float64ToBytes(r.core_C),
+      result: c.result as object,
+      coreC: float64ToBytes(c.core_C),
+      surfaceC: float64ToBytes(c.surface_C),
+      meanC: float64ToBytes(c.mean_C),
+      coolantC: c.coolant_C ? float64ToBytes(c.coolant_C) : null,
       resultSha256: r.resultSha256,
-      outcome: r.result.outcome,
+      outcome: c.result.outcome,
     },
     select: { id: true },
   });
@@ -41,11 +44,20 @@ export async function getReview(id: string) {
     include: {
       trace: { select: { id: true, name: true, fileName: true, sha256: true, sampleCount: true, startAt: true, endAt: true, warnings: true } },
       product: true,
+      pack: true,
       limits: true,
     },
   });
   if (!row) return null;
-  return { ...row, result: row.result as unknown as ReviewResult, core_C: bytesToFloat64(row.coreC) };
+  const f = (b: Uint8Array | null) => (b ? bytesToFloat64(b) : null);
+  return {
+    ...row,
+    result: row.result as unknown as ReviewResult,
+    core_C: bytesToFloat64(row.coreC),
+    surface_C: f(row.surfaceC),
+    mean_C: f(row.meanC),
+    coolant_C: f(row.coolantC),
+  };
 }
 
 export async function listReviews() {

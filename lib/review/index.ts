@@ -1,3 +1,4 @@
 export * from "./runReview";
 export * from "./cautions";
 export * from "./canonical";
+export * from "./csv";

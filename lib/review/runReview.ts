@@ -1,7 +1,7 @@
 import { bridgeGaps, findGaps, type TraceSeries } from "../trace/series";
-import { lumpedResponse } from "../thermal/lumped";
-import { screenBareProduct, readableDuration, type Screening } from "../thermal/screening";
-import type { BareProduct } from "../thermal/product";
+import { predict, type ScreeningResult, type SolverReport } from "../thermal/predict";
+import { readableDuration } from "../thermal/screening";
+import type { ModelChoice, Pack, Product } from "../thermal/definitions";
 import type { LimitSet } from "../exposure/limits";
 import { evaluateLimitSet, overallOutcome, type ChannelSeries, type Outcome } from "../exposure/rules";
 import { meanKineticTemperature_C } from "../exposure/mkt";
@@ -10,18 +10,27 @@ import type { Span } from "../exposure/window";
 import { CAUTIONS } from "./cautions";
 
 /** Bumped whenever a change to the engine could change a stored result. */
-export const ENGINE_VERSION = "0.1.0";
+export const ENGINE_VERSION = "0.2.0";
+
+/** Channels the models produce; "probe" needs a measured product channel, which a review does not have yet. */
+export const MODELLED_CHANNELS = ["air", "core", "surface", "mean"] as const;
 
 /**
- * After a bridged gap the core still carries the bridged air for a while: its influence decays as
- * exp(−t/tau), below 1 % after 5·tau (1 − e⁻⁵ = 0.993). The core's uncertain span is extended by that.
+ * After a bridged gap the product still carries the bridged air for a while: its influence decays as
+ * exp(−t/tau), below 1 % after 5·tau (1 − e⁻⁵ = 0.993). Modelled channels' uncertain spans are extended by that.
  */
 const GAP_MEMORY_TAUS = 5;
 
+export interface ReviewOptions {
+  model: ModelChoice;
+}
+
 export interface ReviewInput {
   series: TraceSeries;
-  product: BareProduct;
+  product: Product;
+  pack?: Pack;
   limits: LimitSet;
+  options?: ReviewOptions;
 }
 
 const iso = (t_s: number) => new Date(Math.round(t_s * 1000)).toISOString();
@@ -29,7 +38,8 @@ const round = (x: number, digits: number) => Number(x.toFixed(digits));
 
 export interface ReviewResult {
   engine_version: string;
-  screening: Screening & { tau_readable: string; excursion_reading: string };
+  screening: ScreeningResult & { excursion_reading: string; lumped_vs_conduction_K: number | null };
+  solver: SolverReport;
   gaps: Array<{ start: string; end: string; duration_s: number }>;
   rules: Array<{
     id: string;
@@ -51,13 +61,15 @@ export interface ReviewResult {
 
 export interface ReviewComputation {
   result: ReviewResult;
-  /** predicted core temperature at each sample, °C */
   core_C: Float64Array;
+  surface_C: Float64Array;
+  mean_C: Float64Array;
+  coolant_C: Float64Array | null;
   /** air as used by the model (gaps bridged), °C */
   airBridged_C: Float64Array;
 }
 
-/** How the product's time constant compares with the longest air excursion of the first rule on air or core. */
+/** How the product's time constant compares with the longest air excursion beyond any rule threshold. */
 function excursionReading(tau_s: number, longestAirExcursion_s: number): string {
   if (longestAirExcursion_s <= 0) return "the air did not cross the rule thresholds, so the time constant does not decide the outcome";
   const ratio = tau_s / longestAirExcursion_s;
@@ -68,34 +80,39 @@ function excursionReading(tau_s: number, longestAirExcursion_s: number): string 
   return `the product lags the air on the scale of the excursions (${both}): core exposure must be modelled`;
 }
 
+/** Checks that every rule's channel is one the review produces; returns the first offending rule. */
+export function unsupportedRule(limits: LimitSet): { index: number; id: string; channel: string } | null {
+  const i = limits.rules.findIndex((r) => !(MODELLED_CHANNELS as readonly string[]).includes(r.channel));
+  return i < 0 ? null : { index: i, id: limits.rules[i]!.id, channel: limits.rules[i]!.channel };
+}
+
 /** Runs the model and the rules over one trace. Pure and deterministic: same inputs, same bits. */
 export function runReview(input: ReviewInput): ReviewComputation {
-  const { series, product, limits } = input;
+  const { series, product, pack, limits } = input;
+  const options = input.options ?? { model: "auto" };
   const gaps = findGaps(series);
   const air = bridgeGaps(series);
-  const screening = screenBareProduct(product);
-  const core = lumpedResponse(series.t_s, air, product.initial_C, screening.tau_s);
+  const pred = predict(product, pack, series.t_s, air, { model: options.model });
+  const tau = pred.screening.tau_s;
 
   const airSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s]);
-  const coreSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s + GAP_MEMORY_TAUS * screening.tau_s]);
-  const channels: Record<"air" | "core", ChannelSeries> = {
+  const modelSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s + GAP_MEMORY_TAUS * tau]);
+  const modelled = (value_C: Float64Array): ChannelSeries => ({ t_s: series.t_s, value_C, uncertainSpans: modelSpans, modelUncertainty_K: 0 });
+  const channels = {
     air: { t_s: series.t_s, value_C: air, uncertainSpans: airSpans, modelUncertainty_K: 0 },
-    core: { t_s: series.t_s, value_C: core, uncertainSpans: coreSpans, modelUncertainty_K: 0 },
+    core: modelled(pred.core),
+    surface: modelled(pred.surface),
+    mean: modelled(pred.mean),
   };
   const findings = evaluateLimitSet(limits, channels);
 
   let longestAir = 0;
-  for (const f of findings) {
-    longestAir = Math.max(longestAir, timeBeyond(series.t_s, air, f.threshold_C, f.direction).longest_s);
-  }
+  for (const f of findings) longestAir = Math.max(longestAir, timeBeyond(series.t_s, air, f.threshold_C, f.direction).longest_s);
 
   const result: ReviewResult = {
     engine_version: ENGINE_VERSION,
-    screening: {
-      ...screening,
-      tau_readable: readableDuration(screening.tau_s),
-      excursion_reading: excursionReading(screening.tau_s, longestAir),
-    },
+    screening: { ...pred.screening, excursion_reading: excursionReading(tau, longestAir), lumped_vs_conduction_K: pred.lumped_vs_conduction_K },
+    solver: pred.solver,
     gaps: gaps.map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s })),
     rules: findings.map((f) => ({
       id: f.id,
@@ -118,10 +135,10 @@ export function runReview(input: ReviewInput): ReviewComputation {
     })),
     mkt_C: {
       air: round(meanKineticTemperature_C(series.t_s, air), 3),
-      core: round(meanKineticTemperature_C(series.t_s, core), 3),
+      core: round(meanKineticTemperature_C(series.t_s, pred.core), 3),
     },
     outcome: overallOutcome(findings),
     cautions: [...CAUTIONS],
   };
-  return { result, core_C: core, airBridged_C: air };
+  return { result, core_C: pred.core, surface_C: pred.surface, mean_C: pred.mean, coolant_C: pred.coolant, airBridged_C: air };
 }

@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import { importCsv } from "../trace";
-import { bareProductSchema } from "../thermal/product";
+import { productSchema } from "../thermal/definitions";
 import { limitSetSchema } from "../exposure/limits";
 import { createTrace } from "../db/traces";
 import { createDefinition } from "../db/definitions";
@@ -16,7 +16,7 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   const fileName = "route7-tote3.csv";
   const bytes = readFileSync(path.join(DEMO, fileName));
   const traceId = await createTrace({ name: "Route 7 north, tote 3 (demo)", fileName, bytes, imported: importCsv(bytes) });
-  const product = bareProductSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
+  const product = productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
   const limits = limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
   const p = await createDefinition("product", product);
   const l = await createDefinition("limits", limits);

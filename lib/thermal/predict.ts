@@ -120,6 +120,15 @@ function screen(p: ResolvedProduct, r: Resistances, choice: ModelChoice): Screen
   };
 }
 
+/**
+ * The screening alone (no trace needed): what the product and pack editors show as the user types.
+ * Radiation is linearised about tMean_C (default: the product's initial temperature).
+ */
+export function screenDefinition(product: Product, pack: Pack | undefined, model: ModelChoice = "auto", tMean_C = product.initial_C): ScreeningResult {
+  const p = resolveProduct(product);
+  return screen(p, resistances(product, p.geometry, p.area_m2, pack, tMean_C), model);
+}
+
 interface Channels {
   core: Float64Array;
   surface: Float64Array;

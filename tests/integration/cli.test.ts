@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
 import { spawnSync } from "node:child_process";
-import { mkdtempSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 
@@ -50,5 +50,60 @@ describe("corelag review (CLI)", () => {
     const r = corelag("review", "--trace", "x.csv", "--product", "p.json", "--limits", "l.json", "--tz", "Mars/Olympus");
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/--tz: is not a known IANA time zone/);
+  });
+});
+
+describe("corelag predict and import (CLI)", () => {
+  const sphere = path.join(tmp, "sphere.product.json");
+  writeFileSync(
+    sphere,
+    JSON.stringify({ name: "cheese ball", shape: { kind: "sphere", radius_m: 0.06 }, properties: { density_kg_m3: 1100, cp_J_kgK: 3000, k_W_mK: 0.35 }, initial_C: 4, h_W_m2K: 8 }),
+  );
+
+  it("predict prints screening and series, choosing conduction when Bi ≥ 0.1", () => {
+    const r = corelag("predict", "--trace", path.join(DEMO, "route7-tote3.csv"), "--product", sphere, "--model", "auto", "--format", "json");
+    expect(r.stderr).toBe("");
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    // Lc = r/3 = 0.02 m, Bi = 8·0.02/0.35 = 0.457
+    expect(out.screening.lc_m).toBeCloseTo(0.02, 12);
+    expect(out.screening.biot).toBeCloseTo((8 * 0.02) / 0.35, 12);
+    expect(out.screening.model).toBe("conduction");
+    expect(out.screening.reason).toMatch(/lumped core differs from the conduction core by up to/);
+    expect(Object.keys(out.screening)).toEqual(expect.arrayContaining(["biot", "tau_s", "lc_m", "r_total_K_W", "c_total_J_K", "model", "reason"]));
+    expect(out.series.t).toHaveLength(361);
+    expect(out.series.t[0]).toBe("2026-06-16T03:00:00.000Z");
+    for (const k of ["air", "core", "surface", "mean"]) expect(out.series[k]).toHaveLength(361);
+    // the surface leads the core on the way up: at the end of the dock delay it is warmer
+    const i = out.series.t.indexOf("2026-06-16T09:10:00.000Z");
+    expect(out.series.surface[i]).toBeGreaterThan(out.series.core[i]);
+  });
+
+  it("predict --out writes the series as CSV and keeps only the screening in the JSON", () => {
+    const csv = path.join(tmp, "series.csv");
+    const r = corelag("predict", "--trace", path.join(DEMO, "route7-tote3.csv"), "--product", path.join(DEMO, "ready-meal.product.json"), "--out", csv);
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.series).toBeUndefined();
+    expect(out.screening.model).toBe("lumped");
+    const lines = readFileSync(csv, "utf8").trim().split("\r\n");
+    expect(lines[0]).toBe("time_utc,air_C,core_C,surface_C,mean_C");
+    expect(lines).toHaveLength(362);
+  });
+
+  it("import prints samples, channels, interval and gaps", () => {
+    const trace = path.join(tmp, "gappy.csv");
+    writeFileSync(trace, "Time,Air (°F)\n2026-01-01T00:00:00Z,41\n2026-01-01T00:05:00Z,NA\n2026-01-01T00:10:00Z,\n2026-01-01T00:15:00Z,42\n2026-01-01T00:20:00Z,43\n");
+    const r = corelag("import", trace, "--format", "json");
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout)).toEqual({
+      samples: 5,
+      channels: [{ name: "Air (°F)", role: "air", unit: "F" }],
+      start: "2026-01-01T00:00:00.000Z",
+      end: "2026-01-01T00:20:00.000Z",
+      median_interval_s: 300,
+      gaps: [{ start: "2026-01-01T00:00:00.000Z", end: "2026-01-01T00:15:00.000Z", duration_s: 900 }],
+      warnings: [],
+    });
   });
 });

@@ -87,7 +87,7 @@ describe("upload → store → review → read back (SQLite)", () => {
     const l = await dbm.createDefinition("limits", { name: "probe", rules: [{ id: "probe-5", channel: "probe", above_C: 5 }] });
     const traces = await dbm.listTraces();
     const res = await services.runAndStoreReview({ title: "x", traceId: traces[0]!.id, productId: p.id, limitsId: l.id });
-    expect(res).toEqual({ ok: false, field: "limitsId", message: "rule 'probe-5' is on the 'probe' channel; this review has only air and core" });
+    expect(res).toEqual({ ok: false, field: "limitsId", message: "rule 'probe-5' is on the 'probe' channel, which a review does not produce yet" });
     expect(await (await import("@/lib/db/client")).db.review.count()).toBe(before);
   });
 });

@@ -7,6 +7,7 @@ import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { StatusBadge } from "@/app/components/StatusBadge";
 import { Caution } from "@/app/components/Caution";
+import { ResistanceTable } from "@/app/products/ProductEditor";
 
 export const dynamic = "force-dynamic";
 
@@ -33,6 +34,7 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
           <dt>Trace</dt><dd><Link href={`/traces/${review.trace.id}`}>{review.trace.name}</Link> ({review.trace.sampleCount} samples, {fmtTime(review.trace.startAt.toISOString())} – {fmtTime(review.trace.endAt.toISOString())} UTC)</dd>
           <dt>Trace SHA-256</dt><dd><code className="hash">{review.trace.sha256}</code></dd>
           <dt>Product</dt><dd>{review.product.name} v{review.product.version}</dd>
+          <dt>Pack</dt><dd>{review.pack ? `${review.pack.name} v${review.pack.version}` : "none (the product's own surface coefficient)"}</dd>
           <dt>Limit set</dt><dd>{review.limits.name} v{review.limits.version}</dd>
           <dt>Engine</dt><dd>{review.engineVersion}; result SHA-256 <code className="hash">{review.resultSha256}</code></dd>
           <dt>Run</dt><dd>{review.createdAt.toISOString()}</dd>
@@ -46,6 +48,13 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
           lines={[
             { label: "Air (logger)", color: "var(--air)", values: Array.from(bridgeGaps(trace.series)) },
             { label: "Core (predicted)", color: "var(--core)", values: Array.from(review.core_C) },
+            ...(s.model === "conduction" && review.surface_C && review.mean_C
+              ? [
+                  { label: "Surface (predicted)", color: "#6c8ebf", values: Array.from(review.surface_C), dashed: true },
+                  { label: "Mean (predicted)", color: "#2b8a7e", values: Array.from(review.mean_C), dashed: true },
+                ]
+              : []),
+            ...(review.coolant_C ? [{ label: "Coolant / inner air", color: "#7a4fa3", values: Array.from(review.coolant_C), dashed: true }] : []),
           ]}
           thresholds={thresholds}
           gaps={findGaps(trace.series).map((g) => [g.start_s * 1000, g.end_s * 1000])}
@@ -61,9 +70,17 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
             <dt>C = m·cp</dt><dd>{s.c_total_J_K.toPrecision(4)} J/K</dd>
             <dt>Lc = V/A</dt><dd>{s.lc_m === null ? "not known" : `${(s.lc_m * 1000).toPrecision(3)} mm`}</dd>
             <dt>Biot number</dt><dd data-testid="biot">{s.biot === null ? "not checked" : s.biot.toPrecision(2)}</dd>
-            <dt>Model</dt><dd>lumped capacitance, exact for air linear between samples</dd>
+            <dt>Model</dt><dd data-testid="model">{s.model === "lumped" ? "lumped capacitance" : `1-D conduction (${review.result.solver.shells} shells)`}</dd>
+            <dt>Solver</dt>
+            <dd>
+              {review.result.solver.method}
+              {review.result.solver.step_s !== null ? `, step ${review.result.solver.step_s} s (halving it changes results by ${review.result.solver.halving_change_K!.toFixed(4)} K)` : ", closed form for air linear between samples"}
+            </dd>
+            <dt>Material</dt><dd>{s.material}</dd>
           </dl>
           <p>{s.reason}.</p>
+          {s.geometry_note && <p className="muted">{s.geometry_note[0]!.toUpperCase() + s.geometry_note.slice(1)}.</p>}
+          <ResistanceTable items={s.resistances} />
           <p>{s.excursion_reading[0]!.toUpperCase() + s.excursion_reading.slice(1)}.</p>
         </section>
         <section className="card">
@@ -107,6 +124,9 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
         <table>
           <thead><tr><th>Rule</th><th>Start (UTC)</th><th>End (UTC)</th><th className="num">Duration (min)</th><th className="num">Peak °C</th><th className="num">Degree-minutes</th></tr></thead>
           <tbody>
+            {r.rules.every((x) => x.excursions.length === 0) && (
+              <tr><td colSpan={6} className="muted">No excursions beyond any rule threshold.</td></tr>
+            )}
             {r.rules.flatMap((x) =>
               x.excursions.map((e) => (
                 <tr key={`${x.id}-${e.start}`}>

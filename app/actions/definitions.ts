@@ -1,0 +1,46 @@
+"use server";
+
+import { redirect } from "next/navigation";
+import type { z } from "zod";
+import { packSchema, productSchema } from "@/lib/thermal/definitions";
+import { limitSetSchema } from "@/lib/exposure/limits";
+import { createDefinition, getDefinition, reviseDefinition, type DefinitionKind } from "@/lib/db/definitions";
+import { fieldErrors, formValues, type FormState } from "@/lib/validation";
+
+/**
+ * The definition editors post the whole definition as one JSON field (built in the browser from the
+ * inputs); it is validated here as a whole and refused with a message per field path. With a lineage
+ * the save is an edit: a new version, leaving the old one for the reviews that used it.
+ */
+async function save<S extends z.ZodType<{ name: string }>>(kind: DefinitionKind, schema: S, form: FormData, back: string): Promise<FormState> {
+  const values = formValues(form);
+  let body: unknown;
+  try {
+    body = JSON.parse(String(form.get("definition") ?? ""));
+  } catch {
+    return { message: "the form could not be read; reload the page and try again", values };
+  }
+  const parsed = schema.safeParse(body);
+  if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
+  const lineage = form.get("lineage");
+  if (typeof lineage === "string" && lineage !== "") {
+    const current = await getDefinition(String(form.get("editing") ?? ""));
+    if (!current || current.lineage !== lineage || current.kind !== kind) return { message: "the definition being edited no longer exists", values };
+    await reviseDefinition(lineage, parsed.data);
+  } else {
+    await createDefinition(kind, parsed.data);
+  }
+  redirect(`${back}?saved=1`);
+}
+
+export async function saveProduct(_prev: FormState, form: FormData): Promise<FormState> {
+  return save("product", productSchema, form, "/products");
+}
+
+export async function savePack(_prev: FormState, form: FormData): Promise<FormState> {
+  return save("pack", packSchema, form, "/packs");
+}
+
+export async function saveLimitSet(_prev: FormState, form: FormData): Promise<FormState> {
+  return save("limits", limitSetSchema, form, "/limits");
+}

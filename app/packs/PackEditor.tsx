@@ -1,0 +1,109 @@
+"use client";
+
+import { useActionState, useMemo, useState } from "react";
+import { savePack } from "@/app/actions/definitions";
+import { FormMessage } from "@/app/components/Field";
+import { NumberField, num } from "@/app/components/NumberField";
+import { packSchema, type Pack } from "@/lib/thermal/definitions";
+import { resistances } from "@/lib/thermal/resistances";
+import { ResistanceTable } from "@/app/products/ProductEditor";
+import type { FormState } from "@/lib/validation";
+
+type Row = Record<string, string>;
+const LAYER = ["thickness_m", "k_W_mK"] as const;
+const COOLANT = ["mass_kg", "melt_C", "latent_J_kg", "cp_solid_J_kgK", "cp_liquid_J_kgK", "initial_C"] as const;
+const COOLANT_LABELS: Record<(typeof COOLANT)[number], string> = {
+  mass_kg: "mass kg", melt_C: "melt °C", latent_J_kg: "latent J/kg", cp_solid_J_kgK: "cp solid", cp_liquid_J_kgK: "cp liquid", initial_C: "initial °C",
+};
+
+const str = (v: unknown) => (v === undefined ? "" : String(v));
+
+export function PackEditor({ editing }: { editing?: { id: string; lineage: string; version: number; body: Pack } }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(savePack, {});
+  const b = editing?.body;
+  const [head, setHead] = useState<Row>({
+    name: b?.name ?? "", h_outside_W_m2K: str(b?.h_outside_W_m2K ?? 8), h_inside_W_m2K: str(b?.h_inside_W_m2K), emissivity: str(b?.emissivity), area_m2: str(b?.area_m2),
+  });
+  const [layers, setLayers] = useState<Row[]>(b?.layers.map((l) => ({ name: l.name, thickness_m: str(l.thickness_m), k_W_mK: str(l.k_W_mK) })) ?? []);
+  const [coolants, setCoolants] = useState<Row[]>(b?.coolants.map((c) => Object.fromEntries(Object.entries(c).map(([k, v]) => [k, str(v)]))) ?? []);
+  const err = (p: string) => state.fieldErrors?.[p];
+
+  const def = useMemo(
+    () =>
+      JSON.parse(
+        JSON.stringify({
+          name: head.name,
+          h_outside_W_m2K: num(head.h_outside_W_m2K) ?? null,
+          h_inside_W_m2K: num(head.h_inside_W_m2K),
+          emissivity: num(head.emissivity),
+          area_m2: num(head.area_m2),
+          layers: layers.map((l) => ({ name: l.name, thickness_m: num(l.thickness_m) ?? null, k_W_mK: num(l.k_W_mK) ?? null })),
+          coolants: coolants.map((c) => ({ name: c.name, ...Object.fromEntries(COOLANT.map((k) => [k, num(c[k]) ?? null])) })),
+        }),
+      ),
+    [head, layers, coolants],
+  );
+  const preview = useMemo(() => {
+    const p = packSchema.safeParse(def);
+    if (!p.success || p.data.area_m2 === undefined) return null;
+    // A plane-wall pack's own resistance, referred to its wall area (product film left out: it depends on the product).
+    const r = resistances({ name: "", initial_C: 20, area_m2: p.data.area_m2, mass_kg: 1, properties: { cp_J_kgK: 1 } }, null, p.data.area_m2, { ...p.data, h_inside_W_m2K: undefined }, 20);
+    return r;
+  }, [def]);
+
+  return (
+    <div className="grid2">
+      <form action={action} className="stack" aria-label="Pack definition">
+        {editing && <p className="muted">Editing version {editing.version}: saving creates version {editing.version + 1}.</p>}
+        <label>
+          Name
+          <input value={head.name} onChange={(e) => setHead({ ...head, name: e.target.value })} data-testid="pack-name" aria-invalid={err("name") ? true : undefined} />
+          {err("name") && <span className="field-error">{err("name")}</span>}
+        </label>
+        <NumberField label="Outside coefficient h (W/m²·K)" hint="Still air 7–9 with radiation; forced air 25 and up" value={head.h_outside_W_m2K!} onChange={(v) => setHead({ ...head, h_outside_W_m2K: v })} error={err("h_outside_W_m2K")} />
+        <NumberField label="Inside coefficient h (W/m²·K), optional" hint="Inner air to the product; required with coolant" value={head.h_inside_W_m2K!} onChange={(v) => setHead({ ...head, h_inside_W_m2K: v })} error={err("h_inside_W_m2K")} />
+        <NumberField label="Outer surface emissivity, optional" hint="Adds linearised radiation to the outside film" value={head.emissivity!} onChange={(v) => setHead({ ...head, emissivity: v })} error={err("emissivity")} />
+        <NumberField label="Wall area (m²), optional" hint="Plane walls over this area; without it, layers wrap the product" value={head.area_m2!} onChange={(v) => setHead({ ...head, area_m2: v })} error={err("area_m2")} />
+        <h3>Wall layers, outside to inside</h3>
+        {layers.map((l, i) => (
+          <div key={i} style={{ display: "flex", gap: "0.5rem", alignItems: "end" }} data-testid={`layer-${i}`}>
+            <label>name<input value={l.name} size={12} onChange={(e) => setLayers(layers.map((x, j) => (j === i ? { ...x, name: e.target.value } : x)))} /></label>
+            {LAYER.map((k) => (
+              <NumberField key={k} label={k === "thickness_m" ? "thickness m" : "k W/m·K"} width={7} value={l[k] ?? ""} onChange={(v) => setLayers(layers.map((x, j) => (j === i ? { ...x, [k]: v } : x)))} error={err(`layers.${i}.${k}`)} />
+            ))}
+            <button type="button" className="secondary" onClick={() => setLayers(layers.filter((_, j) => j !== i))}>Remove</button>
+          </div>
+        ))}
+        <button type="button" className="secondary" onClick={() => setLayers([...layers, { name: `layer ${layers.length + 1}`, thickness_m: "", k_W_mK: "" }])}>Add a layer</button>
+        <h3>Coolant packs</h3>
+        {coolants.map((c, i) => (
+          <div key={i} style={{ display: "flex", flexWrap: "wrap", gap: "0.5rem", alignItems: "end" }} data-testid={`coolant-${i}`}>
+            <label>name<input value={c.name ?? ""} size={10} onChange={(e) => setCoolants(coolants.map((x, j) => (j === i ? { ...x, name: e.target.value } : x)))} /></label>
+            {COOLANT.map((k) => (
+              <NumberField key={k} label={COOLANT_LABELS[k]} width={7} value={c[k] ?? ""} onChange={(v) => setCoolants(coolants.map((x, j) => (j === i ? { ...x, [k]: v } : x)))} error={err(`coolants.${i}.${k}`)} />
+            ))}
+            <button type="button" className="secondary" onClick={() => setCoolants(coolants.filter((_, j) => j !== i))}>Remove</button>
+          </div>
+        ))}
+        <button type="button" className="secondary" onClick={() => setCoolants([...coolants, { name: "gel pack", mass_kg: "", melt_C: "0", latent_J_kg: "", cp_solid_J_kgK: "", cp_liquid_J_kgK: "", initial_C: "" }])}>Add a coolant</button>
+        <input type="hidden" name="definition" value={JSON.stringify(def)} />
+        <input type="hidden" name="lineage" value={editing?.lineage ?? ""} />
+        <input type="hidden" name="editing" value={editing?.id ?? ""} />
+        <FormMessage state={state} />
+        <button type="submit" disabled={pending}>{pending ? "Saving…" : editing ? "Save new version" : "Save pack"}</button>
+      </form>
+      <div>
+        <h2 style={{ marginTop: 0 }}>Wall resistance</h2>
+        {preview ? (
+          <div data-testid="pack-preview">
+            <p>Outside film and layers over {num(head.area_m2)} m²: R = {preview.r_wall_K_W.toPrecision(3)} K/W, U = {(1 / (preview.r_wall_K_W * num(head.area_m2)!)).toPrecision(3)} W/m²·K{preview.h_radiation_W_m2K > 0 ? ` (radiation adds ${preview.h_radiation_W_m2K.toFixed(1)} W/m²·K at 20 °C)` : ""}.</p>
+            <ResistanceTable items={preview.items} />
+            <p className="muted">For reference, the ATP agreement classes insulated bodies by K ≤ 0.70 W/m²·K (normal) and K ≤ 0.40 W/m²·K (heavy insulation). The product&apos;s own film and tau appear in the product editor when you preview with this pack.</p>
+          </div>
+        ) : (
+          <p className="muted" data-testid="pack-preview">Give a wall area to see the wall&apos;s resistance here; with the layers wrapped around a sphere or cylinder, see the product editor.</p>
+        )}
+      </div>
+    </div>
+  );
+}
