@@ -2,6 +2,9 @@
 import { performance } from "node:perf_hooks";
 import { lumpedResponse } from "../lib/thermal/lumped";
 import { timeBeyond } from "../lib/exposure/timeAbove";
+import { predict } from "../lib/thermal/predict";
+import type { Product } from "../lib/thermal/definitions";
+import { centreTheta } from "../tests/helpers/series";
 
 function mulberry32(seed: number): () => number {
   let a = seed >>> 0;
@@ -55,5 +58,26 @@ function benchTimeBeyond(): void {
   console.log(`time beyond threshold: ${n.toLocaleString("en")} samples in ${ms.toFixed(1)} ms; fraction above ${frac.toFixed(5)} (analytical 0.5 over whole periods)`);
 }
 
+function benchSphere(): void {
+  // 40-shell sphere over 100,000 one-minute samples of a daily cycle with noise. Accuracy is read on a
+  // separate step-response run against the exact series (Incropera et al. §5.6).
+  const r0 = 0.05, k = 0.5, rho = 1000, cp = 3600, bi = 1;
+  const product: Product = { name: "bench sphere", shape: { kind: "sphere", radius_m: r0 }, properties: { density_kg_m3: rho, cp_J_kgK: cp, k_W_mK: k }, initial_C: 4, h_W_m2K: (bi * k) / r0 };
+  const n = 100_000;
+  const rand = mulberry32(3);
+  const t = Float64Array.from({ length: n }, (_, i) => i * 60);
+  const air = Float64Array.from(t, (ti) => 6 + 8 * Math.sin((2 * Math.PI * ti) / 86400) + (rand() - 0.5));
+  const { ms, value } = best(3, () => predict(product, undefined, t, air, { model: "conduction", shells: 40 }));
+  const ts = Float64Array.from({ length: 721 }, (_, i) => i * 60);
+  const step = predict({ ...product, initial_C: 20 }, undefined, ts, new Float64Array(ts.length), { model: "conduction", shells: 40 });
+  const alpha = k / (rho * cp);
+  let err = 0;
+  for (const i of [30, 60, 180, 360, 720]) err = Math.max(err, Math.abs(step.core[i]! - 20 * centreTheta("sphere", bi, (alpha * ts[i]!) / r0 ** 2)));
+  console.log(
+    `1-D sphere, 40 shells: ${n.toLocaleString("en")} samples in ${ms.toFixed(0)} ms (target < 1000), step ${value.solver.step_s} s, halving change ${value.solver.halving_change_K!.toExponential(2)} K; centre error vs series on a 20 K step ${err.toExponential(2)} K`,
+  );
+}
+
 benchLumped();
 benchTimeBeyond();
+benchSphere();

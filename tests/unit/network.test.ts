@@ -109,3 +109,24 @@ describe("property-based (fast-check)", () => {
     );
   });
 });
+
+describe("runChain linear fast path", () => {
+  it("runChain gives the same temperatures on the linear fast path and the general Newton path", () => {
+    const n = 12;
+    const curve = new EnthalpyCurve(Float64Array.of(-60, 100), Float64Array.of(0, 160 * 3000));
+    const mk = (linear: boolean) => ({
+      mass: Float64Array.from({ length: n }, (_, i) => 0.1 + 0.01 * i),
+      curves: Array.from({ length: n }, () => curve),
+      gAmbient: 0.8,
+      g: Float64Array.from({ length: n - 1 }, (_, i) => 2 + i),
+      linear,
+    });
+    const t = Float64Array.from({ length: 200 }, (_, i) => i * 90);
+    const air = Float64Array.from(t, (ti) => 5 + 3 * Math.sin(ti / 2000));
+    const init = new Float64Array(n).fill(1);
+    const fast = runChain(mk(true), t, air, init, 45);
+    const general = runChain(mk(false), t, air, init, 45);
+    for (let i = 0; i < fast.T.length; i++) expectClose(fast.T[i]!, general.T[i]!, { abs: 1e-9 });
+    expectClose(fast.heatIn_J, fast.storedEnd_J - fast.storedStart_J, { abs: 1e-8 });
+  });
+});

@@ -4,6 +4,9 @@
  * curve continues with the end slopes. T(h) is its inverse; dT/dh is 0 on a plateau.
  */
 export class EnthalpyCurve {
+  /** dT/dh when the curve is one straight line (constant specific heat), else NaN: lets solvers skip the table. */
+  readonly constantSlope: number;
+
   constructor(
     readonly T: Float64Array,
     readonly H: Float64Array,
@@ -12,6 +15,7 @@ export class EnthalpyCurve {
     for (let i = 1; i < T.length; i++) {
       if (!(T[i]! >= T[i - 1]!) || !(H[i]! > H[i - 1]!)) throw new Error("an enthalpy curve must increase");
     }
+    this.constantSlope = T.length === 2 ? (T[1]! - T[0]!) / (H[1]! - H[0]!) : Number.NaN;
   }
 
   private segmentByH(h: number): number {
