@@ -1,8 +1,14 @@
 "use server";
 
 import { redirect } from "next/navigation";
-import { runAndStoreReview, runReviewRequestSchema } from "@/lib/services/reviews";
+import { revalidatePath } from "next/cache";
+import { z } from "zod";
+import { runAndStoreReview, runReviewRequestSchema, signOff, signOffSchema } from "@/lib/services/reviews";
+import { renameReview } from "@/lib/db/reviews";
 import { fieldErrors, formValues, textField, type FormState } from "@/lib/validation";
+
+/** datetime-local inputs carry no zone; the form states that they are UTC. */
+const utc = (v: string | undefined) => (v ? (v.length === 16 ? `${v}:00Z` : `${v}Z`) : undefined);
 
 export async function startReview(_prev: FormState, form: FormData): Promise<FormState> {
   const values = formValues(form);
@@ -13,9 +19,40 @@ export async function startReview(_prev: FormState, form: FormData): Promise<For
     limitsId: textField(form, "limitsId") ?? "",
     packId: textField(form, "packId") || undefined,
     model: textField(form, "model") || undefined,
+    windowStart: utc(textField(form, "windowStart") || undefined),
+    windowEnd: utc(textField(form, "windowEnd") || undefined),
+    correctsId: textField(form, "correctsId") || undefined,
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
   const outcome = await runAndStoreReview(parsed.data);
   if (!outcome.ok) return { fieldErrors: { [outcome.field]: outcome.message }, values };
   redirect(`/reviews/${outcome.reviewId}`);
+}
+
+export async function signOffReview(_prev: FormState, form: FormData): Promise<FormState> {
+  const values = formValues(form);
+  const id = textField(form, "reviewId") ?? "";
+  const parsed = signOffSchema.safeParse({
+    reviewer: textField(form, "reviewer") ?? "",
+    decision: textField(form, "decision") ?? "",
+    comment: textField(form, "comment") || undefined,
+    suggested: textField(form, "suggested") ?? "",
+  });
+  if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
+  const res = await signOff(id, parsed.data);
+  if (!res.ok) return { message: res.message, values };
+  revalidatePath(`/reviews/${id}`);
+  redirect(`/reviews/${id}`);
+}
+
+const renameSchema = z.object({ title: z.string().trim().min(1, { message: "give the review a title" }).max(160) });
+
+export async function renameReviewAction(_prev: FormState, form: FormData): Promise<FormState> {
+  const values = formValues(form);
+  const id = textField(form, "reviewId") ?? "";
+  const parsed = renameSchema.safeParse({ title: textField(form, "title") ?? "" });
+  if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
+  const res = await renameReview(id, parsed.data.title);
+  if (!res.ok) return { message: res.message, values };
+  redirect(`/reviews/${id}`);
 }

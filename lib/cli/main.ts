@@ -16,7 +16,8 @@ class CliError extends Error {}
 const USAGE = `usage:
   corelag import FILE [--time-col NAME] [--air-col NAME] [--unit C|F|K] [--tz ZONE] [--format json]
   corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction] [--out FILE.csv] [import options] [--format json]
-  corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction] [import options] [--format json]`;
+  corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction] [--window START/END] [import options] [--format json]
+  corelag verify [--review ID]          (checks the audit chain and re-runs stored reviews; uses DATABASE_URL)`;
 
 const IMPORT_FLAGS = {
   "time-col": { type: "string" },
@@ -166,7 +167,7 @@ function predictCommand(argv: string[]): unknown {
 function reviewCommand(argv: string[]): unknown {
   const { values } = parseArgs({
     args: argv,
-    options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, limits: { type: "string" }, model: { type: "string" } },
+    options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, limits: { type: "string" }, model: { type: "string" }, window: { type: "string" } },
     strict: true,
   });
   const importOptions = importOptionsFrom(values);
@@ -175,25 +176,62 @@ function reviewCommand(argv: string[]): unknown {
   const limits = readJsonFile(values.limits, limitSetSchema);
   const bad = unsupportedRule(limits);
   if (bad) throw new CliError(`${values.limits}: field 'rules.${bad.index}.channel': '${bad.channel}' is not produced by a review yet (air, core, surface and mean are)`);
+  const window = values.window === undefined ? undefined : parseWindow(values.window);
   const { imported, bytes } = importTrace(String(values.trace), importOptions);
-  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model } });
+  const t = imported.series.t_s;
+  if (window && (window.start_s < t[0]! || window.end_s > t[t.length - 1]!)) {
+    throw new CliError(`--window: ${values.window} is not inside the trace (${iso(t[0]!)}/${iso(t[t.length - 1]!)})`);
+  }
+  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model, window } });
   return {
     trace: { file: values.trace, sha256: sha256Hex(bytes), samples: imported.series.t_s.length, import_settings: imported.settings, warnings: imported.warnings },
     ...result,
   };
 }
 
+/** START/END as two ISO 8601 date-times with Z or an offset. */
+function parseWindow(text: string): { start_s: number; end_s: number } {
+  const parts = text.split("/");
+  const iso8601 = z.iso.datetime({ offset: true });
+  if (parts.length !== 2 || !iso8601.safeParse(parts[0]).success || !iso8601.safeParse(parts[1]).success) {
+    throw new CliError(`--window: '${text}' is not START/END with ISO 8601 date-times (e.g. 2026-06-16T05:00:00Z/2026-06-16T11:00:00Z)`);
+  }
+  const start_s = Date.parse(parts[0]!) / 1000, end_s = Date.parse(parts[1]!) / 1000;
+  if (!(end_s > start_s)) throw new CliError(`--window: the end must come after the start`);
+  return { start_s, end_s };
+}
+
+async function verifyCommand(argv: string[]): Promise<{ output: unknown; ok: boolean }> {
+  const { values } = parseArgs({ args: argv, options: { review: { type: "string" }, format: { type: "string", default: "json" } }, strict: true });
+  const { listAudit } = await import("../db/audit");
+  const { allReviewIds } = await import("../db/reviews");
+  const { verifyStoredReview } = await import("../services/reviews");
+  const { verifyAuditChain } = await import("../review/audit");
+  const chain = verifyAuditChain(await listAudit());
+  const ids = values.review ? [values.review] : await allReviewIds();
+  const reviews = [];
+  for (const id of ids) reviews.push(await verifyStoredReview(id));
+  const ok = chain.ok && reviews.every((r) => r.reproduced);
+  return { output: { ok, chain, reviews }, ok };
+}
+
 const COMMANDS: Record<string, (argv: string[]) => unknown> = { import: importCommand, predict: predictCommand, review: reviewCommand };
 
-function main(argv: string[]): number {
+async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
   const run = command ? COMMANDS[command] : undefined;
-  if (!run) {
+  if (!run && command !== "verify") {
     process.stderr.write(`${command ? `unknown command '${command}'` : "no command given"}\n${USAGE}\n`);
     return 2;
   }
   try {
-    process.stdout.write(JSON.stringify(run(rest), null, 2) + "\n");
+    if (command === "verify") {
+      // Exit 1 when the chain is broken or a review does not reproduce; the JSON says which and why.
+      const { output, ok } = await verifyCommand(rest);
+      process.stdout.write(JSON.stringify(output, null, 2) + "\n");
+      return ok ? 0 : 1;
+    }
+    process.stdout.write(JSON.stringify(run!(rest), null, 2) + "\n");
     return 0;
   } catch (e) {
     if (e instanceof CliError) {
@@ -208,4 +246,12 @@ function main(argv: string[]): number {
   }
 }
 
-process.exitCode = main(process.argv.slice(2));
+main(process.argv.slice(2)).then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (e: unknown) => {
+    process.stderr.write(`corelag: ${e instanceof Error ? e.message : String(e)}\n`);
+    process.exitCode = 3;
+  },
+);

@@ -1,5 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { db } from "./client";
+import { appendAudit } from "./audit";
 import { canonicalJson } from "../review/canonical";
 import { sha256Hex } from "../trace/hash";
 
@@ -21,20 +22,30 @@ function toStored<T>(row: { id: string; kind: string; lineage: string; version: 
 }
 
 /** A new definition, version 1 of a new lineage. `body` must already be validated. */
-export async function createDefinition<T extends { name: string }>(kind: DefinitionKind, body: T): Promise<StoredDefinition<T>> {
-  const row = await db.definition.create({
-    data: { kind, lineage: randomUUID(), version: 1, name: body.name, body: body as object, sha256: sha256Hex(canonicalJson(body)) },
+export async function createDefinition<T extends { name: string }>(kind: DefinitionKind, body: T, actor = "web"): Promise<StoredDefinition<T>> {
+  return db.$transaction(async (tx) => {
+    const row = await tx.definition.create({
+      data: { kind, lineage: randomUUID(), version: 1, name: body.name, body: body as object, sha256: sha256Hex(canonicalJson(body)) },
+    });
+    await appendAudit(tx, { action: "create", entity: "definition", entityId: row.id, actor, details: { kind, name: row.name, lineage: row.lineage, version: 1, sha256: row.sha256 } });
+    return toStored<T>(row);
   });
-  return toStored<T>(row);
 }
 
 /** An edit: a new version in the same lineage. Earlier versions stay as they were, for the reviews that used them. */
-export async function reviseDefinition<T extends { name: string }>(lineage: string, body: T): Promise<StoredDefinition<T>> {
+export async function reviseDefinition<T extends { name: string }>(lineage: string, body: T, actor = "web"): Promise<StoredDefinition<T>> {
   return db.$transaction(async (tx) => {
     const latest = await tx.definition.findFirst({ where: { lineage }, orderBy: { version: "desc" } });
     if (!latest) throw new Error(`no definition with lineage ${lineage}`);
     const row = await tx.definition.create({
       data: { kind: latest.kind, lineage, version: latest.version + 1, name: body.name, body: body as object, sha256: sha256Hex(canonicalJson(body)) },
+    });
+    await appendAudit(tx, {
+      action: "edit",
+      entity: "definition",
+      entityId: row.id,
+      actor,
+      details: { kind: row.kind, name: row.name, lineage, version: row.version, previous: latest.id, sha256: row.sha256 },
     });
     return toStored<T>(row);
   });

@@ -1,6 +1,8 @@
 import { db } from "./client";
+import { appendAudit } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
 import type { ReviewComputation, ReviewResult } from "../review";
+import type { Outcome } from "../exposure/rules";
 
 export interface NewReview {
   title: string;
@@ -12,40 +14,97 @@ export interface NewReview {
   engineVersion: string;
   computation: ReviewComputation;
   resultSha256: string;
+  correctsId?: string;
+  actor?: string;
 }
 
+/** Stores a review and its audit entry in one transaction. */
 export async function createReview(r: NewReview): Promise<string> {
   const c = r.computation;
-  const row = await db.review.create({
-    data: {
-      title: r.title,
-      traceId: r.traceId,
-      productId: r.productId,
-      packId: r.packId ?? null,
-      limitsId: r.limitsId,
-      options: r.options as object,
-      engineVersion: r.engineVersion,
-      result: c.result as object,
-      coreC: float64ToBytes(c.core_C),
-      surfaceC: float64ToBytes(c.surface_C),
-      meanC: float64ToBytes(c.mean_C),
-      coolantC: c.coolant_C ? float64ToBytes(c.coolant_C) : null,
-      resultSha256: r.resultSha256,
-      outcome: c.result.outcome,
-    },
-    select: { id: true },
+  return db.$transaction(async (tx) => {
+    const row = await tx.review.create({
+      data: {
+        title: r.title,
+        traceId: r.traceId,
+        productId: r.productId,
+        packId: r.packId ?? null,
+        limitsId: r.limitsId,
+        options: r.options as object,
+        engineVersion: r.engineVersion,
+        result: c.result as object,
+        coreC: float64ToBytes(c.core_C),
+        surfaceC: float64ToBytes(c.surface_C),
+        meanC: float64ToBytes(c.mean_C),
+        coolantC: c.coolant_C ? float64ToBytes(c.coolant_C) : null,
+        resultSha256: r.resultSha256,
+        outcome: c.result.outcome,
+        correctsId: r.correctsId ?? null,
+      },
+      select: { id: true, trace: { select: { sha256: true } } },
+    });
+    await appendAudit(tx, {
+      action: "run",
+      entity: "review",
+      entityId: row.id,
+      actor: r.actor ?? "web",
+      details: {
+        traceId: r.traceId,
+        traceSha256: row.trace.sha256,
+        productId: r.productId,
+        packId: r.packId ?? null,
+        limitsId: r.limitsId,
+        options: r.options,
+        engineVersion: r.engineVersion,
+        resultSha256: r.resultSha256,
+        outcome: c.result.outcome,
+        corrects: r.correctsId ?? null,
+      },
+    });
+    return row.id;
   });
-  return row.id;
+}
+
+export type ReviewChange = { ok: true } | { ok: false; reason: "not-found" | "signed"; message: string };
+
+/** Sign-off: the reviewer's decision, final. A decision that differs from the suggestion needs a comment (checked by the caller's schema). */
+export async function signReview(id: string, s: { reviewer: string; decision: Outcome; comment?: string }): Promise<ReviewChange> {
+  return db.$transaction(async (tx) => {
+    const row = await tx.review.findUnique({ where: { id }, select: { status: true, outcome: true } });
+    if (!row) return { ok: false, reason: "not-found", message: "that review does not exist" };
+    if (row.status === "signed") return { ok: false, reason: "signed", message: "this review is already signed off; a correction is a new review" };
+    const signedAt = new Date();
+    await tx.review.update({ where: { id }, data: { status: "signed", signedBy: s.reviewer, signedAt, decision: s.decision, signComment: s.comment ?? null } });
+    await appendAudit(
+      tx,
+      { action: "sign", entity: "review", entityId: id, actor: s.reviewer, details: { decision: s.decision, suggested: row.outcome, comment: s.comment ?? null } },
+      signedAt,
+    );
+    return { ok: true };
+  });
+}
+
+/** Renames an open review; a signed one refuses. */
+export async function renameReview(id: string, title: string): Promise<ReviewChange> {
+  return db.$transaction(async (tx) => {
+    const row = await tx.review.findUnique({ where: { id }, select: { status: true, title: true } });
+    if (!row) return { ok: false, reason: "not-found", message: "that review does not exist" };
+    if (row.status === "signed") return { ok: false, reason: "signed", message: "a signed review cannot be edited; start a correction instead" };
+    await tx.review.update({ where: { id }, data: { title } });
+    await appendAudit(tx, { action: "rename", entity: "review", entityId: id, actor: "web", details: { from: row.title, to: title } });
+    return { ok: true };
+  });
 }
 
 export async function getReview(id: string) {
   const row = await db.review.findUnique({
     where: { id },
     include: {
-      trace: { select: { id: true, name: true, fileName: true, sha256: true, sampleCount: true, startAt: true, endAt: true, warnings: true } },
+      trace: { select: { id: true, name: true, fileName: true, sha256: true, sampleCount: true, startAt: true, endAt: true, warnings: true, importSettings: true } },
       product: true,
       pack: true,
       limits: true,
+      corrects: { select: { id: true, title: true } },
+      correctedBy: { select: { id: true, title: true, createdAt: true } },
     },
   });
   if (!row) return null;
@@ -59,14 +118,34 @@ export async function getReview(id: string) {
     coolant_C: f(row.coolantC),
   };
 }
+export type StoredReview = NonNullable<Awaited<ReturnType<typeof getReview>>>;
 
-export async function listReviews() {
+export interface ReviewFilter {
+  outcome?: Outcome;
+  status?: "open" | "signed";
+  productLineage?: string;
+  from?: Date;
+  to?: Date;
+}
+
+export async function listReviews(filter: ReviewFilter = {}) {
   return db.review.findMany({
+    where: {
+      outcome: filter.outcome,
+      status: filter.status,
+      product: filter.productLineage ? { lineage: filter.productLineage } : undefined,
+      createdAt: filter.from || filter.to ? { gte: filter.from, lt: filter.to } : undefined,
+    },
     select: {
-      id: true, title: true, outcome: true, createdAt: true,
+      id: true, title: true, outcome: true, status: true, decision: true, signedBy: true, createdAt: true, correctsId: true,
       trace: { select: { name: true } },
-      product: { select: { name: true, version: true } },
+      product: { select: { name: true, version: true, lineage: true } },
     },
     orderBy: { createdAt: "desc" },
   });
+}
+
+/** Ids of every stored review, oldest first (for verification). */
+export async function allReviewIds(): Promise<string[]> {
+  return (await db.review.findMany({ select: { id: true }, orderBy: { createdAt: "asc" } })).map((r) => r.id);
 }

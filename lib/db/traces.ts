@@ -1,4 +1,5 @@
 import { db } from "./client";
+import { appendAudit } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
 import { sha256Hex, type TraceImport, type TraceSeries, type ResolvedImportSettings } from "../trace";
 
@@ -16,26 +17,36 @@ export interface StoredTraceMeta {
 }
 
 /** Stores the original bytes, their hash, the resolved import settings and the parsed series, in one write. */
-export async function createTrace(args: { name: string; fileName: string; bytes: Uint8Array; imported: TraceImport }): Promise<string> {
+export async function createTrace(args: { name: string; fileName: string; bytes: Uint8Array; imported: TraceImport; actor?: string }): Promise<string> {
   const { series, settings, warnings } = args.imported;
   const n = series.t_s.length;
-  const row = await db.trace.create({
-    data: {
-      name: args.name,
-      fileName: args.fileName,
-      sha256: sha256Hex(args.bytes),
-      original: new Uint8Array(args.bytes),
-      importSettings: settings,
-      timesS: float64ToBytes(series.t_s),
-      airC: float64ToBytes(series.air_C),
-      sampleCount: n,
-      startAt: new Date(series.t_s[0]! * 1000),
-      endAt: new Date(series.t_s[n - 1]! * 1000),
-      warnings,
-    },
-    select: { id: true },
+  const sha256 = sha256Hex(args.bytes);
+  return db.$transaction(async (tx) => {
+    const row = await tx.trace.create({
+      data: {
+        name: args.name,
+        fileName: args.fileName,
+        sha256,
+        original: new Uint8Array(args.bytes),
+        importSettings: settings,
+        timesS: float64ToBytes(series.t_s),
+        airC: float64ToBytes(series.air_C),
+        sampleCount: n,
+        startAt: new Date(series.t_s[0]! * 1000),
+        endAt: new Date(series.t_s[n - 1]! * 1000),
+        warnings,
+      },
+      select: { id: true },
+    });
+    await appendAudit(tx, {
+      action: "import",
+      entity: "trace",
+      entityId: row.id,
+      actor: args.actor ?? "web",
+      details: { fileName: args.fileName, sha256, samples: n, settings, warnings: warnings.length },
+    });
+    return row.id;
   });
-  return row.id;
 }
 
 const metaSelect = {

@@ -4,3 +4,4 @@ export * from "./limits";
 export * from "./rules";
 export * from "./window";
 export * from "./templates";
+export * from "./bands";

@@ -32,7 +32,8 @@ export function partsOutside(t_s: Float64Array, v: Float64Array, spans: readonly
   return keep.filter(([a, b]) => b > a).map(([a, b]) => clip(t_s, v, a, b));
 }
 
-function clip(t_s: Float64Array, v: Float64Array, a: number, b: number): { t_s: Float64Array; v: Float64Array } {
+/** The series between times a and b (a < b, inside the series' range), cut exactly at a and b by interpolation. */
+export function clip(t_s: Float64Array, v: Float64Array, a: number, b: number): { t_s: Float64Array; v: Float64Array } {
   const t: number[] = [a];
   const x: number[] = [valueAt(t_s, v, a)];
   for (let i = 0; i < t_s.length; i++) {

@@ -8,7 +8,8 @@ export function csvRow(cells: ReadonlyArray<string | number>): string {
     .map((c) => {
       if (typeof c === "number") return String(c);
       let s = c;
-      if (/^[=+\-@\t\r]/.test(s) && !/^[+-]?\d/.test(s)) s = `'${s}`;
+      // a cell that is exactly a signed number (e.g. "-3.5000") is data, not a formula
+      if (/^[=+\-@\t\r]/.test(s) && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) s = `'${s}`;
       return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
     })
     .join(",");

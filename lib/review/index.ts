@@ -2,3 +2,5 @@ export * from "./runReview";
 export * from "./cautions";
 export * from "./canonical";
 export * from "./csv";
+export * from "./audit";
+export * from "./export";

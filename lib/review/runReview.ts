@@ -6,7 +6,8 @@ import type { LimitSet } from "../exposure/limits";
 import { evaluateLimitSet, overallOutcome, type ChannelSeries, type Outcome } from "../exposure/rules";
 import { meanKineticTemperature_C } from "../exposure/mkt";
 import { timeBeyond } from "../exposure/timeAbove";
-import type { Span } from "../exposure/window";
+import { clip, type Span } from "../exposure/window";
+import { bandLabel, DEFAULT_BAND_EDGES_C, timeInBands } from "../exposure/bands";
 import { CAUTIONS } from "./cautions";
 
 /** Bumped whenever a change to the engine could change a stored result. */
@@ -23,6 +24,8 @@ const GAP_MEMORY_TAUS = 5;
 
 export interface ReviewOptions {
   model: ModelChoice;
+  /** judge only this part of the trace (the model still runs from the first sample), epoch s */
+  window?: { start_s: number; end_s: number };
 }
 
 export interface ReviewInput {
@@ -55,6 +58,10 @@ export interface ReviewResult {
     reason: string;
   }>;
   mkt_C: { air: number; core: number };
+  /** the judged window (the whole trace when none was chosen) */
+  window: { start: string; end: string };
+  /** time-temperature history: minutes in each band */
+  bands: { edges_C: number[]; labels: string[]; air_min: number[]; core_min: number[] };
   outcome: Outcome;
   cautions: string[];
 }
@@ -97,23 +104,36 @@ export function runReview(input: ReviewInput): ReviewComputation {
 
   const airSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s]);
   const modelSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s + GAP_MEMORY_TAUS * tau]);
-  const modelled = (value_C: Float64Array): ChannelSeries => ({ t_s: series.t_s, value_C, uncertainSpans: modelSpans, modelUncertainty_K: 0 });
+  const t0 = series.t_s[0]!, t1 = series.t_s[series.t_s.length - 1]!;
+  const win = options.window;
+  if (win && !(win.start_s >= t0 && win.end_s <= t1 && win.end_s > win.start_s)) {
+    throw new RangeError(`the window ${iso(win.start_s)}/${iso(win.end_s)} is not inside the trace (${iso(t0)}/${iso(t1)})`);
+  }
+  const [a, b] = win ? [win.start_s, win.end_s] : [t0, t1];
+  const cut = (v: Float64Array) => (win ? clip(series.t_s, v, a, b) : { t_s: series.t_s, v });
+  const inWindow = (spans: Span[]) => spans.filter(([s0, s1]) => s1 > a && s0 < b);
+  const channel = (v: Float64Array, spans: Span[]): ChannelSeries => {
+    const c = cut(v);
+    return { t_s: c.t_s, value_C: c.v, uncertainSpans: inWindow(spans), modelUncertainty_K: 0 };
+  };
   const channels = {
-    air: { t_s: series.t_s, value_C: air, uncertainSpans: airSpans, modelUncertainty_K: 0 },
-    core: modelled(pred.core),
-    surface: modelled(pred.surface),
-    mean: modelled(pred.mean),
+    air: channel(air, airSpans),
+    core: channel(pred.core, modelSpans),
+    surface: channel(pred.surface, modelSpans),
+    mean: channel(pred.mean, modelSpans),
   };
   const findings = evaluateLimitSet(limits, channels);
 
   let longestAir = 0;
-  for (const f of findings) longestAir = Math.max(longestAir, timeBeyond(series.t_s, air, f.threshold_C, f.direction).longest_s);
+  for (const f of findings) longestAir = Math.max(longestAir, timeBeyond(channels.air.t_s, channels.air.value_C, f.threshold_C, f.direction).longest_s);
+  const edges = [...DEFAULT_BAND_EDGES_C];
+  const minutes = (ch: ChannelSeries) => timeInBands(ch.t_s, ch.value_C, edges).map((s) => round(s / 60, 3));
 
   const result: ReviewResult = {
     engine_version: ENGINE_VERSION,
     screening: { ...pred.screening, excursion_reading: excursionReading(tau, longestAir), lumped_vs_conduction_K: pred.lumped_vs_conduction_K },
     solver: pred.solver,
-    gaps: gaps.map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s })),
+    gaps: gaps.filter((g) => g.end_s > a && g.start_s < b).map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s })),
     rules: findings.map((f) => ({
       id: f.id,
       channel: f.channel,
@@ -134,9 +154,11 @@ export function runReview(input: ReviewInput): ReviewComputation {
       reason: f.reason,
     })),
     mkt_C: {
-      air: round(meanKineticTemperature_C(series.t_s, air), 3),
-      core: round(meanKineticTemperature_C(series.t_s, pred.core), 3),
+      air: round(meanKineticTemperature_C(channels.air.t_s, channels.air.value_C), 3),
+      core: round(meanKineticTemperature_C(channels.core.t_s, channels.core.value_C), 3),
     },
+    window: { start: iso(a), end: iso(b) },
+    bands: { edges_C: edges, labels: edges.map((_, k) => bandLabel(edges, k)).concat(bandLabel(edges, edges.length)), air_min: minutes(channels.air), core_min: minutes(channels.core) },
     outcome: overallOutcome(findings),
     cautions: [...CAUTIONS],
   };

@@ -1,26 +1,37 @@
 import { z } from "zod";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { limitSetSchema, type LimitSet } from "../exposure/limits";
-import { runReview, ENGINE_VERSION, resultHash, unsupportedRule } from "../review";
+import { runReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewOptions } from "../review";
+import { importCsv, sha256Hex } from "../trace";
 import { getTrace } from "../db/traces";
 import { getDefinition } from "../db/definitions";
-import { createReview } from "../db/reviews";
+import { createReview, getReview, signReview } from "../db/reviews";
 
-export const runReviewRequestSchema = z.object({
-  title: z.string().trim().min(1, { message: "give the review a title" }).max(160),
-  traceId: z.string().min(1, { message: "choose a trace" }),
-  productId: z.string().min(1, { message: "choose a product" }),
-  /** optional: without a pack the product's own surface coefficient is used */
-  packId: z.string().optional(),
-  limitsId: z.string().min(1, { message: "choose a limit set" }),
-  model: modelChoiceSchema.default("auto"),
-});
+const isoTime = z.iso.datetime({ offset: true, message: "must be an ISO 8601 date-time with Z or an offset" });
+
+export const runReviewRequestSchema = z
+  .object({
+    title: z.string().trim().min(1, { message: "give the review a title" }).max(160),
+    traceId: z.string().min(1, { message: "choose a trace" }),
+    productId: z.string().min(1, { message: "choose a product" }),
+    /** optional: without a pack the product's own surface coefficient is used */
+    packId: z.string().optional(),
+    limitsId: z.string().min(1, { message: "choose a limit set" }),
+    model: modelChoiceSchema.default("auto"),
+    windowStart: isoTime.optional(),
+    windowEnd: isoTime.optional(),
+    /** the signed review this run corrects */
+    correctsId: z.string().optional(),
+  })
+  .refine((r) => (r.windowStart === undefined) === (r.windowEnd === undefined), { message: "give both ends of the window, or neither", path: ["windowEnd"] })
+  .refine((r) => r.windowStart === undefined || Date.parse(r.windowEnd!) > Date.parse(r.windowStart), { message: "the window must end after it starts", path: ["windowEnd"] });
 export type RunReviewRequest = z.input<typeof runReviewRequestSchema>;
 
-export type RunReviewOutcome = { ok: true; reviewId: string } | { ok: false; field: keyof RunReviewRequest | "form"; message: string };
+type Field = "title" | "traceId" | "productId" | "packId" | "limitsId" | "model" | "windowStart" | "windowEnd" | "correctsId" | "form";
+export type RunReviewOutcome = { ok: true; reviewId: string } | { ok: false; field: Field; message: string };
 
 /** Loads the exact stored inputs, runs the engine and stores the review pointing at those versions. */
-export async function runAndStoreReview(request: RunReviewRequest): Promise<RunReviewOutcome> {
+export async function runAndStoreReview(request: RunReviewRequest, actor = "web"): Promise<RunReviewOutcome> {
   const req = runReviewRequestSchema.parse(request);
   const trace = await getTrace(req.traceId);
   if (!trace) return { ok: false, field: "traceId", message: "that trace does not exist" };
@@ -30,6 +41,11 @@ export async function runAndStoreReview(request: RunReviewRequest): Promise<RunR
   if (req.packId && (!packDef || packDef.kind !== "pack")) return { ok: false, field: "packId", message: "that pack does not exist" };
   const limitsDef = await getDefinition<LimitSet>(req.limitsId);
   if (!limitsDef || limitsDef.kind !== "limits") return { ok: false, field: "limitsId", message: "that limit set does not exist" };
+  if (req.correctsId) {
+    const old = await getReview(req.correctsId);
+    if (!old) return { ok: false, field: "correctsId", message: "the review to correct does not exist" };
+    if (old.status !== "signed") return { ok: false, field: "correctsId", message: "only a signed review is corrected by a new one; an open review can simply be re-run" };
+  }
   // Stored bodies were validated when saved; parse again so the engine never sees an unchecked value.
   const product = productSchema.parse(productDef.body);
   const pack = packDef ? packSchema.parse(packDef.body) : undefined;
@@ -40,7 +56,15 @@ export async function runAndStoreReview(request: RunReviewRequest): Promise<RunR
   if (req.model === "conduction" && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
     return { ok: false, field: "model", message: "the conduction model needs the product's shape and conductivity" };
   }
-  const options = { model: req.model };
+  const options: ReviewOptions = { model: req.model };
+  if (req.windowStart && req.windowEnd) {
+    const start_s = Date.parse(req.windowStart) / 1000, end_s = Date.parse(req.windowEnd) / 1000;
+    const t = trace.series.t_s;
+    if (start_s < t[0]! || end_s > t[t.length - 1]!) {
+      return { ok: false, field: "windowStart", message: `the window must lie inside the trace (${trace.meta.startAt.toISOString()} to ${trace.meta.endAt.toISOString()})` };
+    }
+    options.window = { start_s, end_s };
+  }
   const comp = runReview({ series: trace.series, product, pack, limits, options });
   const reviewId = await createReview({
     title: req.title,
@@ -48,10 +72,74 @@ export async function runAndStoreReview(request: RunReviewRequest): Promise<RunR
     productId: productDef.id,
     packId: packDef?.id,
     limitsId: limitsDef.id,
-    options,
+    options: options as unknown as Record<string, unknown>,
     engineVersion: ENGINE_VERSION,
     computation: comp,
     resultSha256: resultHash(comp.result, comp.core_C),
+    correctsId: req.correctsId,
+    actor,
   });
   return { ok: true, reviewId };
+}
+
+export const signOffSchema = z
+  .object({
+    reviewer: z.string().trim().min(2, { message: "give the reviewer's name" }).max(120),
+    decision: z.enum(["accept", "hold", "reject"], { error: "choose accept, hold or reject" }),
+    comment: z.string().trim().max(2000).optional(),
+    suggested: z.enum(["accept", "hold", "reject"]),
+  })
+  .refine((s) => s.decision === s.suggested || (s.comment ?? "").length >= 5, {
+    message: "a decision that differs from the suggested outcome needs a comment saying why",
+    path: ["comment"],
+  });
+
+export async function signOff(reviewId: string, input: z.input<typeof signOffSchema>) {
+  const s = signOffSchema.parse(input);
+  return signReview(reviewId, { reviewer: s.reviewer, decision: s.decision, comment: s.comment || undefined });
+}
+
+export interface ReproductionCheck {
+  id: string;
+  title: string;
+  reproduced: boolean;
+  problems: string[];
+}
+
+/**
+ * Re-runs a stored review from its stored inputs and checks every link: the trace's bytes still hash
+ * to the recorded SHA-256, re-importing them with the recorded settings gives the stored series bit
+ * for bit, each definition still hashes to its recorded hash, and the engine gives the recorded
+ * result hash.
+ */
+export async function verifyStoredReview(id: string): Promise<ReproductionCheck> {
+  const review = await getReview(id);
+  if (!review) return { id, title: "", reproduced: false, problems: ["no such review"] };
+  const problems: string[] = [];
+  const trace = (await getTrace(review.traceId))!;
+  if (sha256Hex(trace.original) !== trace.meta.sha256) problems.push("the trace's original bytes no longer match their SHA-256");
+  try {
+    const again = importCsv(trace.original, trace.meta.importSettings);
+    const same = (x: Float64Array, y: Float64Array) => x.length === y.length && Buffer.compare(Buffer.from(x.buffer, x.byteOffset, x.byteLength), Buffer.from(y.buffer, y.byteOffset, y.byteLength)) === 0;
+    if (!same(again.series.t_s, trace.series.t_s) || !same(again.series.air_C, trace.series.air_C)) problems.push("re-importing the original bytes with the recorded settings gives a different series");
+  } catch (e) {
+    problems.push(`re-importing the original bytes fails: ${(e as Error).message}`);
+  }
+  for (const def of [review.product, review.pack, review.limits]) {
+    if (def && sha256Hex(canonicalJson(def.body)) !== def.sha256) problems.push(`definition ${def.name} v${def.version} no longer matches its hash`);
+  }
+  if (review.engineVersion !== ENGINE_VERSION) problems.push(`recorded with engine ${review.engineVersion}; this is engine ${ENGINE_VERSION}`);
+  try {
+    const comp = runReview({
+      series: trace.series,
+      product: productSchema.parse(review.product.body),
+      pack: review.pack ? packSchema.parse(review.pack.body) : undefined,
+      limits: limitSetSchema.parse(review.limits.body),
+      options: review.options as unknown as ReviewOptions,
+    });
+    if (resultHash(comp.result, comp.core_C) !== review.resultSha256) problems.push("re-running the engine gives a different result hash");
+  } catch (e) {
+    problems.push(`re-running the engine fails: ${(e as Error).message}`);
+  }
+  return { id, title: review.title, reproduced: problems.length === 0, problems };
 }

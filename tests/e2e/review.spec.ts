@@ -122,3 +122,73 @@ test("a shaped product in a pack with coolant: the preview picks the model and t
   await expect(page.getByTestId("series-coolant-inner-air")).toBeVisible();
   await page.screenshot({ path: "test-results/review-conduction.png", fullPage: true });
 });
+
+test("sign off a review, open its printable report, export the findings, and correct it", async ({ page }) => {
+  // Inputs: the demo trace, a bare product and a template limit set.
+  await page.goto("/traces");
+  await page.getByLabel("Logger file (CSV)").setInputFiles(path.join(DEMO, "route7-tote3.csv"));
+  await page.getByRole("button", { name: "Upload and import" }).click();
+  await expect(page.getByTestId("trace-samples")).toHaveText("361");
+  await page.goto("/products");
+  await page.getByTestId("product-name").fill("Sandwich tray");
+  await page.getByTestId("initial_C").fill("3");
+  await page.getByTestId("mass_kg").fill("0.3");
+  await page.getByTestId("area_m2").fill("0.05");
+  await page.getByTestId("h_W_m2K").fill("3");
+  await page.getByTestId("cp_J_kgK").fill("3300");
+  await page.getByRole("button", { name: "Save product" }).click();
+  await expect(page.getByTestId("product-list")).toContainText("Sandwich tray");
+  await page.goto("/limits");
+  await page.getByTestId("template-select").selectOption("chilled-cold-holding-5C");
+  await page.getByRole("button", { name: "Save limit set" }).click();
+  await expect(page.getByTestId("limits-list")).toBeVisible();
+
+  await page.goto("/reviews/new");
+  await page.getByLabel("Title").fill("Sandwiches route 7");
+  await page.locator("#f-productId").selectOption({ label: "Sandwich tray v1" });
+  await page.locator("#f-limitsId").selectOption({ label: "Chilled food, 5 °C / 4 h (from template) v1" });
+  await page.getByRole("button", { name: "Run review" }).click();
+  await expect(page.getByTestId("review-status")).toHaveText("open: not yet signed off");
+  const suggested = (await page.getByTestId("outcome-value").textContent())!;
+
+  // A decision that differs from the suggestion needs a comment.
+  await page.getByLabel("Reviewer").fill("Dana Ruiz");
+  const other = suggested === "reject" ? "hold" : "reject";
+  await page.getByLabel("Decision").selectOption(other);
+  await page.getByRole("button", { name: "Sign off" }).click();
+  await expect(page.getByTestId("error-comment")).toHaveText("a decision that differs from the suggested outcome needs a comment saying why");
+  await page.getByLabel(/^Comment/).fill("Pallet probed at arrival: core 4.1 °C; decision per QA plan section 7.");
+  await page.getByRole("button", { name: "Sign off" }).click();
+  await expect(page.getByTestId("review-status")).toHaveText("signed off (final)");
+  await expect(page.getByTestId("decision")).toContainText("by Dana Ruiz");
+  await expect(page.getByRole("button", { name: "Sign off" })).toHaveCount(0);
+
+  // Printable report.
+  await page.getByTestId("report-link").click();
+  await expect(page.getByTestId("report")).toContainText("Corelag review report: Sandwiches route 7");
+  await expect(page.getByTestId("temperature-chart")).toBeVisible();
+  await page.emulateMedia({ media: "print" });
+  await page.screenshot({ path: "test-results/report-print.png", fullPage: true });
+  await page.emulateMedia({ media: "screen" });
+  await page.goBack();
+
+  // Export the findings as CSV.
+  const download = page.waitForEvent("download");
+  await page.getByTestId("export-findings").click();
+  const file = await (await download).path();
+  const csv = (await import("node:fs")).readFileSync(file, "utf8");
+  expect(csv).toContain("title,Sandwiches route 7");
+  expect(csv).toContain("signed_by,Dana Ruiz");
+  expect(csv).toMatch(/^core-above-5C,core,above,5,/m);
+
+  // A correction is a new review pointing back.
+  await page.getByTestId("start-correction").click();
+  await expect(page.getByTestId("correcting")).toBeVisible();
+  await page.getByRole("button", { name: "Run review" }).click();
+  await expect(page.getByText("Corrects")).toBeVisible();
+
+  // The audit log holds every step, chained.
+  await page.goto("/audit");
+  await expect(page.getByTestId("chain-status")).toHaveText(/Hash chain intact: \d+ entries\./);
+  await page.screenshot({ path: "test-results/audit.png", fullPage: true });
+});

@@ -22,18 +22,34 @@ function Select({ name, label, options, state, initial, blank }: { name: string;
   );
 }
 
-export function ReviewForm({ traces, products, packs, limits, initialTrace }: { traces: Option[]; products: Option[]; packs: Option[]; limits: Option[]; initialTrace?: string }) {
+export interface ReviewFormInitial {
+  trace?: string;
+  product?: string;
+  pack?: string;
+  limits?: string;
+  model?: string;
+  corrects?: { id: string; title: string };
+}
+
+export function ReviewForm({ traces, products, packs, limits, initial }: { traces: Option[]; products: Option[]; packs: Option[]; limits: Option[]; initial: ReviewFormInitial }) {
   const [state, action, pending] = useActionState<FormState, FormData>(startReview, {});
   return (
     <form action={action} className="stack" aria-label="Run a review">
-      <Field name="title" label="Title" hint="e.g. 'Route 7, 16 June, tote 3'" state={state} required />
-      <Select name="traceId" label="Trace" options={traces} state={state} initial={initialTrace} />
-      <Select name="productId" label="Product" options={products} state={state} />
-      <Select name="packId" label="Pack" options={packs} state={state} blank="(none: the product's own surface coefficient)" />
-      <Select name="limitsId" label="Limit set" options={limits} state={state} />
+      {initial.corrects && (
+        <p className="caution" data-testid="correcting">
+          Correcting the signed review “{initial.corrects.title}”. The new review will point back to it; the original stays as it was.
+          <input type="hidden" name="correctsId" value={initial.corrects.id} />
+        </p>
+      )}
+      <Field name="title" label="Title" hint="e.g. 'Route 7, 16 June, tote 3'" defaultValue={initial.corrects ? `${initial.corrects.title} (correction)` : undefined} state={state} required />
+      <Select name="traceId" label="Trace" options={traces} state={state} initial={initial.trace} />
+      <Select name="productId" label="Product" options={products} state={state} initial={initial.product} />
+      <Select name="packId" label="Pack" options={packs} state={state} initial={initial.pack} blank="(none: the product's own surface coefficient)" />
+      <Select name="limitsId" label="Limit set" options={limits} state={state} initial={initial.limits} />
       <Select
         name="model"
         label="Model"
+        initial={initial.model}
         options={[
           { id: "auto", label: "auto: lumped when Bi < 0.1, else 1-D conduction" },
           { id: "lumped", label: "lumped capacitance" },
@@ -41,6 +57,13 @@ export function ReviewForm({ traces, products, packs, limits, initialTrace }: { 
         ]}
         state={state}
       />
+      <details>
+        <summary>Judge only part of the trace (optional)</summary>
+        <p className="hint muted">Times in UTC. The model still runs from the first sample, so the product enters the window with its history.</p>
+        <Field name="windowStart" label="From (UTC)" type="datetime-local" step={60} state={state} />
+        <Field name="windowEnd" label="To (UTC)" type="datetime-local" step={60} state={state} />
+      </details>
+      {state.fieldErrors?.correctsId && <p className="field-error">{state.fieldErrors.correctsId}</p>}
       <FormMessage state={state} />
       <button type="submit" disabled={pending}>{pending ? "Running…" : "Run review"}</button>
     </form>

@@ -1,0 +1,29 @@
+import { notFound } from "next/navigation";
+import { getReview } from "@/lib/db/reviews";
+import { getTrace } from "@/lib/db/traces";
+import { HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "../parts";
+import { PrintButton } from "./PrintButton";
+
+export const dynamic = "force-dynamic";
+
+/** The review laid out for paper: print from the browser ("Save as PDF") for a clean document. */
+export default async function ReportPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const review = await getReview(id);
+  if (!review) notFound();
+  const trace = await getTrace(review.traceId);
+  if (!trace) notFound();
+  return (
+    <article className="report" data-testid="report">
+      <p className="no-print"><PrintButton /></p>
+      <h1>Corelag review report: {review.title}</h1>
+      <p className="muted">Report generated {new Date().toISOString().slice(0, 16).replace("T", " ")} UTC from review {review.id}.</p>
+      <ReviewHeader review={review} />
+      <ReviewChart review={review} series={trace.series} />
+      <ScreeningCard review={review} />
+      <RulesCard review={review} />
+      <HistoryCard review={review} />
+      {review.status !== "signed" && <p className="caution" data-testid="unsigned-note">Not signed off: this report shows a suggested outcome only.</p>}
+    </article>
+  );
+}

@@ -1,0 +1,41 @@
+import { csvRow } from "./csv";
+import type { ReviewResult } from "./runReview";
+
+const iso = (t_s: number) => new Date(Math.round(t_s * 1000)).toISOString();
+const fix = (x: number | undefined) => (x === undefined || !Number.isFinite(x) ? "" : x.toFixed(4));
+
+/** The predicted series as CSV: one row per trace sample, UTC times, °C. */
+export function seriesCsv(t_s: Float64Array, channels: Array<{ name: string; values: Float64Array | null }>): string {
+  const present = channels.filter((c) => c.values) as Array<{ name: string; values: Float64Array }>;
+  const lines = [csvRow(["time_utc", ...present.map((c) => c.name)])];
+  for (let i = 0; i < t_s.length; i++) lines.push(csvRow([iso(t_s[i]!), ...present.map((c) => fix(c.values[i]))]));
+  return lines.join("\r\n") + "\r\n";
+}
+
+/**
+ * The findings as CSV: a header block with the review's identity, then one row per rule and one per
+ * excursion. Text cells go through csvRow, which neutralises spreadsheet formulas (a rule id or title
+ * such as "=cmd|…" is written as text).
+ */
+export function findingsCsv(meta: { id: string; title: string; traceSha256: string; resultSha256: string; decision: string | null; signedBy: string | null }, r: ReviewResult): string {
+  const rows: Array<Array<string | number>> = [
+    ["review", meta.id],
+    ["title", meta.title],
+    ["trace_sha256", meta.traceSha256],
+    ["result_sha256", meta.resultSha256],
+    ["engine_version", r.engine_version],
+    ["window", `${r.window.start}/${r.window.end}`],
+    ["suggested_outcome", r.outcome],
+    ["decision", meta.decision ?? "not signed off"],
+    ["signed_by", meta.signedBy ?? ""],
+    [],
+    ["rule", "channel", "direction", "threshold_C", "cumulative_min", "longest_continuous_min", "extreme_C", "guard_K", "status", "reason"],
+    ...r.rules.map((x) => [x.id, x.channel, x.direction, x.threshold_C, x.cumulative_min, x.longest_continuous_min, x.extreme_C, x.guard_K, x.status, x.reason]),
+    [],
+    ["rule", "excursion_start_utc", "excursion_end_utc", "duration_min", "peak_C", "degree_min"],
+    ...r.rules.flatMap((x) => x.excursions.map((e) => [x.id, e.start, e.end, e.duration_min, e.peak_C, e.degree_min])),
+    [],
+    ...r.cautions.map((c) => ["caution", c]),
+  ];
+  return rows.map((row) => csvRow(row)).join("\r\n") + "\r\n";
+}

@@ -1,0 +1,110 @@
+import { describe, it, expect, beforeAll, afterAll } from "vitest";
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { spawnSync } from "node:child_process";
+
+// Review records on a real SQLite file: sign-off, immutability, the audit chain and reproduction.
+const dir = mkdtempSync(path.join(tmpdir(), "corelag-rec-"));
+const url = `file:${path.join(dir, "records.db")}`;
+process.env.DATABASE_URL = url;
+const ROOT = path.resolve(__dirname, "../..");
+const DEMO = path.join(ROOT, "public/demo");
+
+let reviewId = "";
+let ids: { traceId: string; productId: string; limitsId: string };
+
+beforeAll(async () => {
+  const { migrateDatabase } = await import("@/lib/db/migrate");
+  migrateDatabase(url);
+  const { importCsv } = await import("@/lib/trace");
+  const dbm = await import("@/lib/db");
+  const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
+  const traceId = await dbm.createTrace({ name: "rec", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
+  const p = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
+  const l = await dbm.createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
+  ids = { traceId, productId: p.id, limitsId: l.id };
+  const { runAndStoreReview } = await import("@/lib/services/reviews");
+  const res = await runAndStoreReview({ title: "records", ...ids });
+  if (!res.ok) throw new Error(res.message);
+  reviewId = res.reviewId;
+});
+
+afterAll(async () => {
+  const { db } = await import("@/lib/db/client");
+  await db.$disconnect();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+function verifyCli(...args: string[]) {
+  const r = spawnSync(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), path.join(ROOT, "lib/cli/main.ts"), "verify", ...args], {
+    cwd: ROOT,
+    encoding: "utf8",
+    env: { ...process.env, DATABASE_URL: url },
+  });
+  return { code: r.status, out: r.stdout ? JSON.parse(r.stdout) : null, stderr: r.stderr };
+}
+
+describe("review records", () => {
+  it("records every create, import and run in the audit chain", async () => {
+    const { listAudit } = await import("@/lib/db/audit");
+    const entries = await listAudit();
+    expect(entries.map((e) => `${e.action} ${e.entity}`)).toEqual(["import trace", "create definition", "create definition", "run review"]);
+    expect(entries[3]!.details).toMatchObject({ productId: ids.productId, limitsId: ids.limitsId, engineVersion: "0.2.0" });
+  });
+
+  it("a stored review reproduces bit for bit (verify --review)", () => {
+    const r = verifyCli("--review", reviewId);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatchObject({ ok: true, chain: { ok: true, entries: 4 }, reviews: [{ id: reviewId, reproduced: true, problems: [] }] });
+  });
+
+  it("sign-off needs a comment when the decision differs from the suggestion", async () => {
+    const { signOffSchema } = await import("@/lib/services/reviews");
+    const r = signOffSchema.safeParse({ reviewer: "Dana Ruiz", decision: "accept", suggested: "reject" });
+    expect(r.success).toBe(false);
+    expect(r.error!.issues[0]!.path).toEqual(["comment"]);
+  });
+
+  it("a signed review refuses edits, in the code and in the database", async () => {
+    const { signOff } = await import("@/lib/services/reviews");
+    const { renameReview } = await import("@/lib/db/reviews");
+    const { db } = await import("@/lib/db/client");
+    expect(await signOff(reviewId, { reviewer: "Dana Ruiz", decision: "hold", comment: "core estimate near the limit; probe the pallet", suggested: "reject" })).toEqual({ ok: true });
+    expect(await renameReview(reviewId, "changed")).toMatchObject({ ok: false, reason: "signed" });
+    expect(await signOff(reviewId, { reviewer: "Someone Else", decision: "accept", suggested: "accept" })).toMatchObject({ ok: false, reason: "signed" });
+    // The triggers abort the statement (the driver adapter reports a trigger abort as a constraint violation).
+    await expect(db.review.update({ where: { id: reviewId }, data: { title: "sneaky" } })).rejects.toThrow();
+    await expect(db.review.delete({ where: { id: reviewId } })).rejects.toThrow();
+    expect((await db.review.findUnique({ where: { id: reviewId } }))!.title).toBe("records");
+  });
+
+  it("a correction is a new review that points back at the signed one", async () => {
+    const { runAndStoreReview } = await import("@/lib/services/reviews");
+    const { getReview } = await import("@/lib/db/reviews");
+    const res = await runAndStoreReview({ title: "records (correction)", ...ids, model: "lumped", correctsId: reviewId });
+    expect(res.ok).toBe(true);
+    const original = await getReview(reviewId);
+    expect(original!.correctedBy.map((c) => c.title)).toEqual(["records (correction)"]);
+    expect(original!.status).toBe("signed");
+  });
+
+  it("the database refuses to change or delete audit entries", async () => {
+    const { db } = await import("@/lib/db/client");
+    await expect(db.auditEntry.update({ where: { seq: 1 }, data: { actor: "x" } })).rejects.toThrow();
+    await expect(db.auditEntry.delete({ where: { seq: 1 } })).rejects.toThrow();
+    expect((await db.auditEntry.findUnique({ where: { seq: 1 } }))!.actor).toBe("web");
+  });
+
+  it("verify detects an audit entry changed behind the database's back", async () => {
+    const { db } = await import("@/lib/db/client");
+    // Someone with direct access to the file drops the guard and edits an entry.
+    await db.$executeRawUnsafe(`DROP TRIGGER "AuditEntry_no_update"`);
+    await db.$executeRawUnsafe(`UPDATE "AuditEntry" SET "actor" = 'mallory' WHERE "seq" = 2`);
+    const r = verifyCli();
+    expect(r.code).toBe(1);
+    expect(r.out.ok).toBe(false);
+    expect(r.out.chain.problems).toHaveLength(1);
+    expect(r.out.chain.problems[0]).toMatch(/^entry 2 \(create definition \S+\): its content no longer matches its hash$/);
+  });
+});
