@@ -14,20 +14,37 @@ import { csvRow } from "../review/csv";
 class CliError extends Error {}
 
 const USAGE = `usage:
-  corelag import FILE [--time-col NAME] [--air-col NAME] [--unit C|F|K] [--tz ZONE] [--format json]
+  corelag import FILE [--time-col NAME] [--date-col NAME] [--air-col NAME] [--product-col NAME] [--unit C|F|K] [--tz ZONE]
+                      [--date-order dmy|mdy|ymd] [--time-format datetime|unix-s|unix-ms|elapsed-s|elapsed-min|elapsed-h] [--start ISO]
+                      [--decimal .|,] [--delimiter ,|;|tab||] [--missing CODE,CODE] [--plausible-min C] [--plausible-max C] [--gap-multiple N] [--format json]
   corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction] [--out FILE.csv] [import options] [--format json]
   corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction] [--window START/END] [import options] [--format json]
   corelag verify [--review ID]          (checks the audit chain and re-runs stored reviews; uses DATABASE_URL)`;
 
 const IMPORT_FLAGS = {
   "time-col": { type: "string" },
+  "date-col": { type: "string" },
   "air-col": { type: "string" },
   "product-col": { type: "string" },
   unit: { type: "string" },
   tz: { type: "string" },
   "date-order": { type: "string" },
+  "time-format": { type: "string" },
+  start: { type: "string" },
+  decimal: { type: "string" },
+  delimiter: { type: "string" },
+  missing: { type: "string" },
+  "plausible-min": { type: "string" },
+  "plausible-max": { type: "string" },
+  "gap-multiple": { type: "string" },
   format: { type: "string", default: "json" },
 } as const;
+
+const FLAG_OF: Record<string, string> = {
+  timeColumn: "--time-col", dateColumn: "--date-col", airColumn: "--air-col", productColumn: "--product-col", unit: "--unit", timeZone: "--tz",
+  dateOrder: "--date-order", timeFormat: "--time-format", startTime: "--start", decimal: "--decimal", delimiter: "--delimiter", missing: "--missing",
+  plausibleMin_C: "--plausible-min", plausibleMax_C: "--plausible-max", gapMultiple: "--gap-multiple",
+};
 
 function readBytes(file: string): Uint8Array {
   try {
@@ -59,18 +76,29 @@ type Values = Record<string, string | boolean | undefined>;
 /** Import flags, checked before any file is read so a bad flag is reported as such. */
 function importOptionsFrom(values: Values): ImportOptions {
   if (values.format !== undefined && values.format !== "json") throw new CliError(`--format: only 'json' is supported`);
-  if (values["product-col"] !== undefined) throw new CliError("--product-col: product-probe channels are not read yet; import the air channel only");
-  if (values["date-order"] !== undefined) throw new CliError("--date-order: only ISO 8601 dates (year first) are read yet");
+  const str = (k: string) => (values[k] === undefined ? undefined : String(values[k]));
+  const num = (k: string) => (values[k] === undefined ? undefined : Number(values[k]));
+  const delimiter = str("delimiter");
   const opts = importOptionsSchema.safeParse({
-    timeColumn: values["time-col"],
-    airColumn: values["air-col"],
-    unit: values.unit,
-    timeZone: values.tz,
+    timeColumn: str("time-col"),
+    dateColumn: str("date-col"),
+    airColumn: str("air-col"),
+    productColumn: str("product-col"),
+    unit: str("unit"),
+    timeZone: str("tz"),
+    dateOrder: str("date-order"),
+    timeFormat: str("time-format"),
+    startTime: str("start"),
+    decimal: str("decimal"),
+    delimiter: delimiter === "tab" ? "\t" : delimiter,
+    missing: str("missing")?.split(",").map((x) => x.trim()),
+    plausibleMin_C: num("plausible-min"),
+    plausibleMax_C: num("plausible-max"),
+    gapMultiple: num("gap-multiple"),
   });
   if (!opts.success) {
     const issue = opts.error.issues[0]!;
-    const flag = { timeColumn: "--time-col", airColumn: "--air-col", unit: "--unit", timeZone: "--tz" }[String(issue.path[0])] ?? "option";
-    throw new CliError(`${flag}: ${issue.message}`);
+    throw new CliError(`${FLAG_OF[String(issue.path[0])] ?? "option"}: ${issue.message}`);
   }
   return opts.data;
 }
@@ -92,16 +120,17 @@ function importCommand(argv: string[]): unknown {
   if (positionals.length !== 1) throw new CliError(`give exactly one FILE to import\n${USAGE}`);
   const file = positionals[0]!;
   const { imported } = importTrace(file, importOptionsFrom(values));
-  const { series, settings, warnings } = imported;
+  const { series, warnings } = imported;
   const n = series.t_s.length;
   return {
     samples: n,
-    channels: [{ name: settings.airColumn, role: "air", unit: settings.unit }],
+    channels: imported.channels,
     start: iso(series.t_s[0]!),
     end: iso(series.t_s[n - 1]!),
     median_interval_s: medianInterval_s(series.t_s),
-    gaps: findGaps(series).map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s })),
+    gaps: imported.gaps.map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s })),
     warnings,
+    settings: imported.settings,
   };
 }
 
@@ -131,7 +160,7 @@ function predictCommand(argv: string[]): unknown {
   const { series } = imported;
   const air = bridgeGaps(series);
   const p = predict(product, pack, series.t_s, air, { model });
-  const gaps = findGaps(series).map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s }));
+  const gaps = imported.gaps.map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s }));
   const screening = { ...p.screening, lumped_vs_conduction_K: p.lumped_vs_conduction_K };
   if (values.out) {
     const head = ["time_utc", "air_C", "core_C", "surface_C", "mean_C", ...(p.coolant ? ["coolant_C"] : [])];
@@ -174,15 +203,18 @@ function reviewCommand(argv: string[]): unknown {
   if (!values.limits) throw new CliError(`--limits is required\n${USAGE}`);
   const { product, pack, model } = modelInputs(values);
   const limits = readJsonFile(values.limits, limitSetSchema);
-  const bad = unsupportedRule(limits);
-  if (bad) throw new CliError(`${values.limits}: field 'rules.${bad.index}.channel': '${bad.channel}' is not produced by a review yet (air, core, surface and mean are)`);
   const window = values.window === undefined ? undefined : parseWindow(values.window);
   const { imported, bytes } = importTrace(String(values.trace), importOptions);
+  const bad = unsupportedRule(limits, imported.series.probe_C !== undefined);
+  if (bad) {
+    const why = bad.channel === "probe" ? "the trace has no product-probe column (--product-col)" : "a review does not produce it";
+    throw new CliError(`${values.limits}: field 'rules.${bad.index}.channel': '${bad.channel}' is not available: ${why}`);
+  }
   const t = imported.series.t_s;
   if (window && (window.start_s < t[0]! || window.end_s > t[t.length - 1]!)) {
     throw new CliError(`--window: ${values.window} is not inside the trace (${iso(t[0]!)}/${iso(t[t.length - 1]!)})`);
   }
-  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model, window } });
+  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model, window }, gapMultiple: imported.settings.gapMultiple });
   return {
     trace: { file: values.trace, sha256: sha256Hex(bytes), samples: imported.series.t_s.length, import_settings: imported.settings, warnings: imported.warnings },
     ...result,

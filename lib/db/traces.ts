@@ -14,6 +14,7 @@ export interface StoredTraceMeta {
   warnings: string[];
   importSettings: ResolvedImportSettings;
   createdAt: Date;
+  hasProbe: boolean;
 }
 
 /** Stores the original bytes, their hash, the resolved import settings and the parsed series, in one write. */
@@ -28,9 +29,10 @@ export async function createTrace(args: { name: string; fileName: string; bytes:
         fileName: args.fileName,
         sha256,
         original: new Uint8Array(args.bytes),
-        importSettings: settings,
+        importSettings: settings as unknown as object,
         timesS: float64ToBytes(series.t_s),
         airC: float64ToBytes(series.air_C),
+        probeC: series.probe_C ? float64ToBytes(series.probe_C) : null,
         sampleCount: n,
         startAt: new Date(series.t_s[0]! * 1000),
         endAt: new Date(series.t_s[n - 1]! * 1000),
@@ -43,7 +45,7 @@ export async function createTrace(args: { name: string; fileName: string; bytes:
       entity: "trace",
       entityId: row.id,
       actor: args.actor ?? "web",
-      details: { fileName: args.fileName, sha256, samples: n, settings, warnings: warnings.length },
+      details: { fileName: args.fileName, sha256, samples: n, settings: settings as unknown as object, warnings: warnings.length },
     });
     return row.id;
   });
@@ -54,8 +56,9 @@ const metaSelect = {
   warnings: true, importSettings: true, createdAt: true,
 } as const;
 
-function toMeta(row: { warnings: unknown; importSettings: unknown } & Omit<StoredTraceMeta, "warnings" | "importSettings">): StoredTraceMeta {
-  return { ...row, warnings: row.warnings as string[], importSettings: row.importSettings as ResolvedImportSettings };
+function toMeta(row: { warnings: unknown; importSettings: unknown } & Omit<StoredTraceMeta, "warnings" | "importSettings" | "hasProbe">): StoredTraceMeta {
+  const importSettings = row.importSettings as ResolvedImportSettings;
+  return { ...row, warnings: row.warnings as string[], importSettings, hasProbe: importSettings.productColumn !== undefined };
 }
 
 export async function listTraces(): Promise<StoredTraceMeta[]> {
@@ -64,11 +67,11 @@ export async function listTraces(): Promise<StoredTraceMeta[]> {
 }
 
 export async function getTrace(id: string): Promise<{ meta: StoredTraceMeta; series: TraceSeries; original: Uint8Array } | null> {
-  const row = await db.trace.findUnique({ where: { id }, select: { ...metaSelect, timesS: true, airC: true, original: true } });
+  const row = await db.trace.findUnique({ where: { id }, select: { ...metaSelect, timesS: true, airC: true, probeC: true, original: true } });
   if (!row) return null;
   return {
     meta: toMeta(row),
-    series: { t_s: bytesToFloat64(row.timesS), air_C: bytesToFloat64(row.airC) },
+    series: { t_s: bytesToFloat64(row.timesS), air_C: bytesToFloat64(row.airC), ...(row.probeC ? { probe_C: bytesToFloat64(row.probeC) } : {}) },
     original: row.original,
   };
 }

@@ -140,7 +140,7 @@ export function overallOutcome(findings: readonly RuleFinding[]): Outcome {
   return "hold";
 }
 
-export function evaluateLimitSet(limits: LimitSet, channels: Partial<Record<Rule["channel"], ChannelSeries>>): RuleFinding[] {
+export function evaluateLimitSet(limits: LimitSet, channels: Partial<Record<string, ChannelSeries>>): RuleFinding[] {
   return limits.rules.map((rule) => {
     const ch = channels[rule.channel];
     if (!ch) throw new Error(`rule '${rule.id}' needs the '${rule.channel}' channel, which this review does not have`);

@@ -13,7 +13,7 @@ import { CAUTIONS } from "./cautions";
 /** Bumped whenever a change to the engine could change a stored result. */
 export const ENGINE_VERSION = "0.2.0";
 
-/** Channels the models produce; "probe" needs a measured product channel, which a review does not have yet. */
+/** Channels every review has; "probe" exists when the trace has a product-probe column. */
 export const MODELLED_CHANNELS = ["air", "core", "surface", "mean"] as const;
 
 /**
@@ -34,6 +34,8 @@ export interface ReviewInput {
   pack?: Pack;
   limits: LimitSet;
   options?: ReviewOptions;
+  /** pauses longer than this many median intervals are gaps (the trace's import setting) */
+  gapMultiple?: number;
 }
 
 const iso = (t_s: number) => new Date(Math.round(t_s * 1000)).toISOString();
@@ -88,8 +90,9 @@ function excursionReading(tau_s: number, longestAirExcursion_s: number): string 
 }
 
 /** Checks that every rule's channel is one the review produces; returns the first offending rule. */
-export function unsupportedRule(limits: LimitSet): { index: number; id: string; channel: string } | null {
-  const i = limits.rules.findIndex((r) => !(MODELLED_CHANNELS as readonly string[]).includes(r.channel));
+export function unsupportedRule(limits: LimitSet, hasProbe = false): { index: number; id: string; channel: string } | null {
+  const available: readonly string[] = hasProbe ? [...MODELLED_CHANNELS, "probe"] : MODELLED_CHANNELS;
+  const i = limits.rules.findIndex((r) => !available.includes(r.channel));
   return i < 0 ? null : { index: i, id: limits.rules[i]!.id, channel: limits.rules[i]!.channel };
 }
 
@@ -97,7 +100,7 @@ export function unsupportedRule(limits: LimitSet): { index: number; id: string; 
 export function runReview(input: ReviewInput): ReviewComputation {
   const { series, product, pack, limits } = input;
   const options = input.options ?? { model: "auto" };
-  const gaps = findGaps(series);
+  const gaps = findGaps(series, input.gapMultiple);
   const air = bridgeGaps(series);
   const pred = predict(product, pack, series.t_s, air, { model: options.model });
   const tau = pred.screening.tau_s;
@@ -116,12 +119,25 @@ export function runReview(input: ReviewInput): ReviewComputation {
     const c = cut(v);
     return { t_s: c.t_s, value_C: c.v, uncertainSpans: inWindow(spans), modelUncertainty_K: 0 };
   };
-  const channels = {
+  const channels: Record<string, ChannelSeries> & { air: ChannelSeries; core: ChannelSeries } = {
     air: channel(air, airSpans),
     core: channel(pred.core, modelSpans),
     surface: channel(pred.surface, modelSpans),
     mean: channel(pred.mean, modelSpans),
   };
+  if (series.probe_C && series.probe_C.some((v) => !Number.isNaN(v))) {
+    // the probe is measured: its own gaps (including missing ends) are its uncertain spans
+    const probeSpans: Span[] = findGaps(series, input.gapMultiple, series.probe_C).map((g) => [g.start_s, g.end_s]);
+    const first = series.probe_C.findIndex((v) => !Number.isNaN(v));
+    let last = series.probe_C.length - 1;
+    while (Number.isNaN(series.probe_C[last]!)) last--;
+    const filled = Float64Array.from(series.probe_C);
+    for (let i = 0; i < first; i++) filled[i] = series.probe_C[first]!;
+    for (let i = last + 1; i < filled.length; i++) filled[i] = series.probe_C[last]!;
+    if (first > 0) probeSpans.push([series.t_s[0]!, series.t_s[first]!]);
+    if (last < filled.length - 1) probeSpans.push([series.t_s[last]!, series.t_s[filled.length - 1]!]);
+    channels.probe = channel(bridgeGaps(series, filled), probeSpans);
+  }
   const findings = evaluateLimitSet(limits, channels);
 
   let longestAir = 0;

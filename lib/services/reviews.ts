@@ -2,7 +2,7 @@ import { z } from "zod";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { limitSetSchema, type LimitSet } from "../exposure/limits";
 import { runReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewOptions } from "../review";
-import { importCsv, sha256Hex } from "../trace";
+import { importCsv, optionsFromSettings, sha256Hex } from "../trace";
 import { getTrace } from "../db/traces";
 import { getDefinition } from "../db/definitions";
 import { createReview, getReview, signReview } from "../db/reviews";
@@ -50,8 +50,11 @@ export async function runAndStoreReview(request: RunReviewRequest, actor = "web"
   const product = productSchema.parse(productDef.body);
   const pack = packDef ? packSchema.parse(packDef.body) : undefined;
   const limits = limitSetSchema.parse(limitsDef.body);
-  const bad = unsupportedRule(limits);
-  if (bad) return { ok: false, field: "limitsId", message: `rule '${bad.id}' is on the '${bad.channel}' channel, which a review does not produce yet` };
+  const bad = unsupportedRule(limits, trace.series.probe_C !== undefined);
+  if (bad) {
+    const why = bad.channel === "probe" ? "this trace has no product-probe column" : "a review does not produce it";
+    return { ok: false, field: "limitsId", message: `rule '${bad.id}' is on the '${bad.channel}' channel, but ${why}` };
+  }
   if (!pack && product.h_W_m2K === undefined) return { ok: false, field: "packId", message: "this product has no surface coefficient of its own: choose a pack" };
   if (req.model === "conduction" && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
     return { ok: false, field: "model", message: "the conduction model needs the product's shape and conductivity" };
@@ -65,7 +68,7 @@ export async function runAndStoreReview(request: RunReviewRequest, actor = "web"
     }
     options.window = { start_s, end_s };
   }
-  const comp = runReview({ series: trace.series, product, pack, limits, options });
+  const comp = runReview({ series: trace.series, product, pack, limits, options, gapMultiple: trace.meta.importSettings.gapMultiple });
   const reviewId = await createReview({
     title: req.title,
     traceId: trace.meta.id,
@@ -119,9 +122,10 @@ export async function verifyStoredReview(id: string): Promise<ReproductionCheck>
   const trace = (await getTrace(review.traceId))!;
   if (sha256Hex(trace.original) !== trace.meta.sha256) problems.push("the trace's original bytes no longer match their SHA-256");
   try {
-    const again = importCsv(trace.original, trace.meta.importSettings);
+    const again = importCsv(trace.original, optionsFromSettings(trace.meta.importSettings));
     const same = (x: Float64Array, y: Float64Array) => x.length === y.length && Buffer.compare(Buffer.from(x.buffer, x.byteOffset, x.byteLength), Buffer.from(y.buffer, y.byteOffset, y.byteLength)) === 0;
-    if (!same(again.series.t_s, trace.series.t_s) || !same(again.series.air_C, trace.series.air_C)) problems.push("re-importing the original bytes with the recorded settings gives a different series");
+    const probeSame = again.series.probe_C === undefined ? trace.series.probe_C === undefined : trace.series.probe_C !== undefined && same(again.series.probe_C, trace.series.probe_C);
+    if (!same(again.series.t_s, trace.series.t_s) || !same(again.series.air_C, trace.series.air_C) || !probeSame) problems.push("re-importing the original bytes with the recorded settings gives a different series");
   } catch (e) {
     problems.push(`re-importing the original bytes fails: ${(e as Error).message}`);
   }
@@ -136,6 +140,7 @@ export async function verifyStoredReview(id: string): Promise<ReproductionCheck>
       pack: review.pack ? packSchema.parse(review.pack.body) : undefined,
       limits: limitSetSchema.parse(review.limits.body),
       options: review.options as unknown as ReviewOptions,
+      gapMultiple: trace.meta.importSettings.gapMultiple,
     });
     if (resultHash(comp.result, comp.core_C) !== review.resultSha256) problems.push("re-running the engine gives a different result hash");
   } catch (e) {

@@ -1,152 +1,77 @@
 import Papa from "papaparse";
 import { decodeText } from "./decode";
 import { TraceImportError } from "./errors";
-import type { ImportOptions, ResolvedImportSettings } from "./settings";
-import type { TraceSeries } from "./series";
-import {
-  isMissingToken,
-  parseStrictNumber,
-  parseTimestamp_s,
-  toCelsius,
-  unitFromHeader,
-  type TemperatureUnit,
-} from "./values";
+import { DELIMITERS, type ImportOptions, type ResolvedImportSettings } from "./settings";
+import { DEFAULT_GAP_MULTIPLE, findGaps, type Gap, type TraceSeries } from "./series";
+import { parseTimeOfDay_s, parseWallClock, slashDateParts, wallAsUtcMs, ZoneResolver, type DateOrder } from "./timestamps";
+import { detectDecimal, isMissingToken, parseReading, toCelsius, unitFromHeader, type TemperatureUnit } from "./values";
 
-/** Readings outside this range are flagged and excluded, never clipped (common-practice default). */
+/** Readings outside this range are flagged and excluded, never clipped (common-practice default, °C). */
 export const PLAUSIBLE_RANGE_C = { min: -60, max: 80 } as const;
+
+export interface ImportedChannel {
+  name: string;
+  role: "air" | "product" | "ignore";
+  unit: TemperatureUnit;
+}
 
 export interface TraceImport {
   series: TraceSeries;
   settings: ResolvedImportSettings;
+  channels: ImportedChannel[];
+  gaps: Gap[];
   warnings: string[];
+  /** the header and the first rows as written, for a preview */
+  preview: { header: string[]; rows: string[][] };
 }
 
-const DELIMITERS = [",", ";", "\t", "|"] as const;
 type Delimiter = (typeof DELIMITERS)[number];
 const MAX_LISTED = 5;
+const HEAD_BYTES = 1 << 20;
+const TIME_HEADER = /time|date|stamp|zeit|heure|hora|datum|elapsed/i;
+const PRODUCT_HEADER = /product|probe|core|simulant|food|sample|item/i;
+const AIR_HEADER = /air|ambient|amb\b|room|reefer|temp|°|deg/i;
 
-function detectDelimiter(text: string): Delimiter {
-  // The delimiter that splits the most of the first lines into the same number (>1) of fields.
-  const lines = text.split(/\r?\n/, 40).filter((l) => l.trim() !== "");
+const fail = (message: string, row?: number, column?: string): never => {
+  throw new TraceImportError(message, row, column);
+};
+
+function detectDelimiter(head: string): Delimiter {
+  // The delimiter that splits the most lines into the same number (>1) of fields.
+  const lines = head.split(/\r?\n/, 200).filter((l) => l.trim() !== "");
   let best: Delimiter = ",";
   let bestScore = 0;
   for (const d of DELIMITERS) {
-    const counts = lines.map((l) => l.split(d).length).filter((n) => n > 1);
-    if (counts.length === 0) continue;
-    const last = counts[counts.length - 1]!;
-    const score = counts.filter((n) => n === last).length;
+    const counts = new Map<number, number>();
+    for (const l of lines) {
+      const n = l.split(d).length;
+      if (n > 1) counts.set(n, (counts.get(n) ?? 0) + 1);
+    }
+    const score = Math.max(0, ...counts.values());
     if (score > bestScore) [best, bestScore] = [d, score];
   }
   return best;
 }
 
-const TIME_HEADER = /time|date|stamp|zeit|heure/i;
-const AIR_HEADER = /air|temp|°|deg|ambient/i;
+const numberish = (c: string) => /^[+-]?[\d.,]+\s*(°?\s*[CFK])?$/i.test(c.trim()) && /\d/.test(c);
+const timeish = (c: string) => parseWallClock(c, "dmy") !== null || parseWallClock(c, "mdy") !== null || !Number.isNaN(parseTimeOfDay_s(c));
 
-/** Index of the header: the first row followed by a row with a timestamp and a number. */
-function findHeaderRow(rows: string[][], zone: string): number {
-  for (let i = 0; i + 1 < rows.length && i < 200; i++) {
+/** Index of the header: the first row of names followed by a row with a time-like cell and a number. */
+function findHeaderRow(rows: string[][]): number {
+  for (let i = 0; i + 1 < rows.length && i < 500; i++) {
     const head = rows[i]!;
     const next = rows[i + 1]!;
     if (head.length < 2 || next.length !== head.length) continue;
-    const hasTime = next.some((c) => Number.isFinite(parseTimestamp_s(c, zone)));
-    const hasNumber = next.some((c) => Number.isFinite(parseStrictNumber(c)));
-    const headIsText = head.every((c) => !Number.isFinite(parseStrictNumber(c)));
-    if (hasTime && hasNumber && headIsText) return i;
+    if (head.some((c) => c.trim() !== "" && numberish(c))) continue;
+    if (next.some(timeish) || next.filter(numberish).length >= 2) return i;
   }
-  throw new TraceImportError(
-    "no header row was found: expected a row of column names followed by rows with a timestamp and a temperature",
-  );
+  return fail("no header row was found: expected a row of column names followed by rows with a time and a temperature");
 }
 
-function pickColumn(header: string[], wanted: string | undefined, pattern: RegExp, exclude: number, role: string): number {
-  if (wanted !== undefined) {
-    const i = header.findIndex((h) => h.trim() === wanted);
-    if (i < 0) throw new TraceImportError(`there is no column named '${wanted}' (columns: ${header.map((h) => `'${h.trim()}'`).join(", ")})`);
-    return i;
-  }
-  const i = header.findIndex((h, j) => j !== exclude && pattern.test(h));
-  if (i >= 0) return i;
-  const fallback = header.findIndex((_, j) => j !== exclude);
-  if (fallback < 0) throw new TraceImportError(`no ${role} column was found`);
-  return fallback;
-}
-
-/**
- * Reads a delimited logger export (one timestamp column and one air-temperature column).
- * Refuses the whole file on the first unreadable cell, naming row (1-based, as in the file) and column.
- * Out-of-order rows are sorted and exact duplicates dropped, each with a warning; for a conflicting
- * duplicate (same time, other value) the first reading in file order is kept, with a warning.
- */
-export function importCsv(bytes: Uint8Array, options: ImportOptions = {}): TraceImport {
-  const text = decodeText(bytes);
-  if (text.trim() === "") throw new TraceImportError("the file holds no text");
-  const zone = options.timeZone ?? "UTC";
-  const delimiter = options.delimiter ?? detectDelimiter(text);
-  const parsed = Papa.parse<string[]>(text, { delimiter, skipEmptyLines: false });
-  const rows = parsed.data;
-  const headerIdx = findHeaderRow(rows, zone);
-  const header = rows[headerIdx]!.map((h) => h.trim());
-  const timeIdx = pickColumn(header, options.timeColumn, TIME_HEADER, -1, "timestamp");
-  const airIdx = pickColumn(header, options.airColumn, AIR_HEADER, timeIdx, "air temperature");
-  const timeName = header[timeIdx]!;
-  const airName = header[airIdx]!;
-  const unit: TemperatureUnit = options.unit ?? unitFromHeader(airName) ?? "C";
-
-  const warnings: string[] = [];
-  const implausible: number[] = [];
-  const times: number[] = [];
-  const values: number[] = [];
-  const fileRows: number[] = [];
-  for (let r = headerIdx + 1; r < rows.length; r++) {
-    const row = rows[r]!;
-    const rowNo = r + 1;
-    if (row.length === 1 && row[0]!.trim() === "") continue; // blank line
-    if (row.length !== header.length) {
-      throw new TraceImportError(`row ${rowNo}: expected ${header.length} fields but found ${row.length}`, rowNo);
-    }
-    const timeText = row[timeIdx]!;
-    const t = parseTimestamp_s(timeText, zone);
-    if (!Number.isFinite(t)) {
-      throw new TraceImportError(`row ${rowNo}, column '${timeName}': '${timeText}' is not a timestamp`, rowNo, timeName);
-    }
-    const airText = row[airIdx]!;
-    let v = Number.NaN;
-    if (!isMissingToken(airText)) {
-      const raw = parseStrictNumber(airText);
-      if (!Number.isFinite(raw)) {
-        throw new TraceImportError(`row ${rowNo}, column '${airName}': '${airText}' is not a number`, rowNo, airName);
-      }
-      v = toCelsius(raw, unit);
-      if (v < PLAUSIBLE_RANGE_C.min || v > PLAUSIBLE_RANGE_C.max) {
-        implausible.push(rowNo);
-        v = Number.NaN;
-      }
-    }
-    times.push(t);
-    values.push(v);
-    fileRows.push(rowNo);
-  }
-  if (times.length < 2) throw new TraceImportError("the file has fewer than two data rows");
-  if (implausible.length > 0) {
-    warnings.push(
-      `${implausible.length} reading(s) outside ${PLAUSIBLE_RANGE_C.min} to ${PLAUSIBLE_RANGE_C.max} °C were excluded as implausible (rows ${listRows(implausible)})`,
-    );
-  }
-
-  const series = orderAndDeduplicate(times, values, fileRows, warnings);
-  trimMissingEnds(series, warnings);
-  if (series.t_s.length < 2) throw new TraceImportError("fewer than two valid air readings remain after import");
-  const settings: ResolvedImportSettings = {
-    parser: "corelag-csv-1",
-    delimiter,
-    headerRow: headerIdx + 1,
-    timeColumn: timeName,
-    airColumn: airName,
-    unit,
-    timeZone: zone,
-  };
-  return { series, settings, warnings };
+function columnIndex(header: string[], name: string, what: string): number {
+  const i = header.findIndex((h) => h === name);
+  if (i < 0) fail(`there is no ${what} column named '${name}' (columns: ${header.map((h) => `'${h}'`).join(", ")})`);
+  return i;
 }
 
 function listRows(rows: number[]): string {
@@ -154,46 +79,341 @@ function listRows(rows: number[]): string {
   return rows.length > MAX_LISTED ? `${shown}, and ${rows.length - MAX_LISTED} more` : shown;
 }
 
-function orderAndDeduplicate(times: number[], values: number[], fileRows: number[], warnings: string[]): TraceSeries {
-  const order = times.map((_, i) => i);
+/** Start time written in the metadata lines above the header ("Start time: 2026-03-01 08:00"), if any. */
+function startFromMetadata(rows: string[][], headerIdx: number): string | undefined {
+  for (let i = 0; i < headerIdx; i++) {
+    const line = rows[i]!.join(" ");
+    if (!/start/i.test(line)) continue;
+    const m = /(\d{4}-\d{2}-\d{2}[T ]\d{1,2}:\d{2}(?::\d{2})?(?:Z|[+-]\d{2}:?\d{2})?)/.exec(line);
+    if (m) return m[1];
+  }
+  return undefined;
+}
+
+function elapsedUnit(header: string): "elapsed-s" | "elapsed-min" | "elapsed-h" | undefined {
+  const h = header.toLowerCase();
+  if (/\b(min|mins|minutes)\b/.test(h)) return "elapsed-min";
+  if (/\b(h|hr|hrs|hours)\b/.test(h)) return "elapsed-h";
+  if (/\b(s|sec|secs|seconds)\b/.test(h)) return "elapsed-s";
+  return undefined;
+}
+
+interface Plan {
+  settings: ResolvedImportSettings;
+  headerIdx: number;
+  header: string[];
+  timeIdx: number;
+  dateIdx: number;
+  airIdx: number;
+  productIdx: number;
+  channels: ImportedChannel[];
+}
+
+/** Works out every setting not given, from the first megabyte of the file. */
+function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedImportSettings["encoding"], delimiter: Delimiter): Plan {
+  const headerIdx = options.headerRow !== undefined ? options.headerRow - 1 : findHeaderRow(headRows);
+  if (headerIdx >= headRows.length) fail(`row ${headerIdx + 1} (the header row given) is past the end of the file`);
+  const header = headRows[headerIdx]!.map((h) => h.trim());
+  const sample = headRows.slice(headerIdx + 1).filter((r) => r.length === header.length).slice(0, 20000);
+  if (sample.length === 0) fail("the file has a header but no data rows");
+  const col = (i: number) => sample.map((r) => r[i]!);
+  const ignored = new Set(options.ignoreColumns ?? []);
+
+  // Time: a date-time column, or a date column plus a time column, or numbers (Unix or elapsed).
+  let timeIdx: number;
+  let dateIdx = -1;
+  if (options.dateColumn !== undefined) dateIdx = columnIndex(header, options.dateColumn, "date");
+  if (options.timeColumn !== undefined) timeIdx = columnIndex(header, options.timeColumn, "time");
+  else {
+    const candidates = header.map((h, i) => i).filter((i) => i !== dateIdx && !ignored.has(header[i]!));
+    timeIdx = candidates.find((i) => TIME_HEADER.test(header[i]!) && col(i).some(timeish)) ?? candidates.find((i) => TIME_HEADER.test(header[i]!)) ?? candidates.find((i) => col(i).some(timeish)) ?? fail("no time column was found; name it with the time-column setting");
+  }
+  if (dateIdx < 0 && options.dateColumn === undefined) {
+    // a time-of-day column next to a date-only column
+    const timeCells = col(timeIdx);
+    if (timeCells.every((c) => c.trim() === "" || !Number.isNaN(parseTimeOfDay_s(c)))) {
+      dateIdx = header.findIndex((h, i) => i !== timeIdx && /date|datum|fecha/i.test(h) && col(i).some((c) => timeish(c)));
+      if (dateIdx < 0) fail(`column '${header[timeIdx]}' holds clock times only; give the date column`);
+    }
+  }
+  const timeCells = col(timeIdx);
+  let timeFormat = options.timeFormat;
+  if (!timeFormat) {
+    if (dateIdx >= 0 || timeCells.some(timeish)) timeFormat = "datetime";
+    else {
+      const nums = timeCells.map((c) => Number(c.trim())).filter(Number.isFinite);
+      const first = nums[0] ?? Number.NaN;
+      const unit = elapsedUnit(header[timeIdx]!);
+      if (/elapsed|since|from start/i.test(header[timeIdx]!) || unit) timeFormat = unit ?? "elapsed-s";
+      else if (first >= 1e8 && first < 1e11) timeFormat = "unix-s";
+      else if (first >= 1e11 && first < 1e14) timeFormat = "unix-ms";
+      else timeFormat = fail(`column '${header[timeIdx]}': '${timeCells[0]}' is neither a date-time nor a Unix time; choose the time format`);
+    }
+  }
+  let startTime = options.startTime;
+  if (timeFormat.startsWith("elapsed") && !startTime) {
+    startTime = startFromMetadata(headRows, headerIdx) ?? fail(`column '${header[timeIdx]}' holds elapsed times: give the start time (ISO 8601 with an offset)`);
+    if (!/Z|[+-]\d{2}:?\d{2}$/.test(startTime) && !options.timeZone) startTime = `${startTime.replace(" ", "T")}Z`;
+  }
+
+  // Day-first or month-first, from dates such as 13/04 or 04/13 in the data.
+  let dateOrder: DateOrder | undefined = options.dateOrder;
+  if (!dateOrder) {
+    const dateCells = dateIdx >= 0 ? col(dateIdx) : timeCells;
+    let dayFirst = false, monthFirst = false, slashDates = false;
+    for (const c of dateCells) {
+      const p = slashDateParts(c);
+      if (!p) continue;
+      slashDates = true;
+      if (p[0] > 12) dayFirst = true;
+      if (p[1] > 12) monthFirst = true;
+    }
+    if (dayFirst && monthFirst) fail(`column '${header[dateIdx >= 0 ? dateIdx : timeIdx]}': the dates fit neither day-first nor month-first throughout`);
+    if (slashDates && !dayFirst && !monthFirst) {
+      fail(`column '${header[dateIdx >= 0 ? dateIdx : timeIdx]}': dates such as '${dateCells.find((c) => slashDateParts(c))}' could be day-first or month-first; choose the date order (dmy or mdy)`);
+    }
+    dateOrder = dayFirst ? "dmy" : monthFirst ? "mdy" : "ymd";
+  }
+
+  // Temperature channels: the other columns that hold numbers.
+  const numericCols = header
+    .map((h, i) => i)
+    .filter((i) => i !== timeIdx && i !== dateIdx && !ignored.has(header[i]!))
+    .filter((i) => {
+      const cells = col(i).filter((c) => c.trim() !== "");
+      return cells.length > 0 && cells.filter(numberish).length >= 0.8 * cells.length;
+    });
+  // With no column of numbers, the best-named remaining column is read, so its first bad cell is reported.
+  const others = header.map((h, i) => i).filter((i) => i !== timeIdx && i !== dateIdx && !ignored.has(header[i]!));
+  const airIdx =
+    options.airColumn !== undefined
+      ? columnIndex(header, options.airColumn, "air-temperature")
+      : numericCols.find((i) => AIR_HEADER.test(header[i]!) && !PRODUCT_HEADER.test(header[i]!)) ??
+        numericCols.find((i) => !PRODUCT_HEADER.test(header[i]!)) ??
+        numericCols[0] ??
+        others.find((i) => AIR_HEADER.test(header[i]!)) ??
+        others[0] ??
+        fail("no temperature column was found");
+  const productIdx =
+    options.productColumn !== undefined
+      ? columnIndex(header, options.productColumn, "product")
+      : numericCols.find((i) => i !== airIdx && PRODUCT_HEADER.test(header[i]!)) ?? -1;
+  if (productIdx === airIdx) fail(`column '${header[airIdx]}' cannot be both the air and the product channel`);
+
+  const decimal = options.decimal ?? detectDecimal([...(airIdx >= 0 ? col(airIdx) : []), ...(productIdx >= 0 ? col(productIdx) : [])]);
+  if (decimal === "," && delimiter === "," ) fail("a comma cannot be both the delimiter and the decimal separator");
+  const unitOf = (i: number): TemperatureUnit => options.unit ?? unitFromHeader(header[i]!) ?? "C";
+  const channels: ImportedChannel[] = numericCols.map((i) => ({ name: header[i]!, role: i === airIdx ? "air" : i === productIdx ? "product" : "ignore", unit: unitOf(i) }));
+  if (!numericCols.includes(airIdx)) channels.unshift({ name: header[airIdx]!, role: "air", unit: unitOf(airIdx) });
+  if (productIdx >= 0 && !numericCols.includes(productIdx)) channels.push({ name: header[productIdx]!, role: "product", unit: unitOf(productIdx) });
+
+  const settings: ResolvedImportSettings = {
+    parser: "corelag-csv-2",
+    encoding,
+    delimiter,
+    headerRow: headerIdx + 1,
+    timeColumn: header[timeIdx]!,
+    ...(dateIdx >= 0 ? { dateColumn: header[dateIdx]! } : {}),
+    timeFormat,
+    dateOrder,
+    timeZone: options.timeZone ?? "UTC",
+    ...(startTime ? { startTime } : {}),
+    airColumn: header[airIdx]!,
+    ...(productIdx >= 0 ? { productColumn: header[productIdx]!, productUnit: unitOf(productIdx) } : {}),
+    ignoreColumns: [...ignored],
+    airUnit: unitOf(airIdx),
+    ...(options.unit ? { unit: options.unit } : {}),
+    decimal,
+    missing: options.missing ?? [],
+    plausibleMin_C: options.plausibleMin_C ?? PLAUSIBLE_RANGE_C.min,
+    plausibleMax_C: options.plausibleMax_C ?? PLAUSIBLE_RANGE_C.max,
+    gapMultiple: options.gapMultiple ?? DEFAULT_GAP_MULTIPLE,
+  };
+  return { settings, headerIdx, header, timeIdx, dateIdx, airIdx, productIdx, channels };
+}
+
+/**
+ * Reads a delimited logger export. Settings not given are detected; the resolved settings come back
+ * with the series so the same import can be repeated exactly. The whole file is refused on the first
+ * unreadable cell, naming row (1-based, as in the file) and column. Out-of-order rows are sorted and
+ * exact duplicates dropped, each with a warning; for a conflicting duplicate (same time, other
+ * readings) the first in file order is kept, with a warning. Missing readings stay NaN (gaps).
+ */
+export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProgress?: (fraction: number) => void): TraceImport {
+  const { text, encoding } = decodeText(bytes, options.encoding);
+  if (text.trim() === "") fail("the file holds no text");
+  let head = text.length > HEAD_BYTES ? text.slice(0, HEAD_BYTES) : text;
+  if (head.length < text.length) head = head.slice(0, Math.max(head.lastIndexOf("\n"), 0));
+  const delimiter = options.delimiter ?? detectDelimiter(head);
+  const headRows = Papa.parse<string[]>(head, { delimiter, skipEmptyLines: false }).data;
+  const p = plan(headRows, options, encoding, delimiter);
+  const s = p.settings;
+  const extraMissing = new Set(s.missing);
+  const zone = new ZoneResolver(s.timeZone);
+  const startMs = s.startTime ? Date.parse(s.startTime) : Number.NaN;
+  const elapsedScale = s.timeFormat === "elapsed-min" ? 60_000 : s.timeFormat === "elapsed-h" ? 3_600_000 : 1000;
+  const cols: Array<{ idx: number; name: string; unit: TemperatureUnit; suffix?: TemperatureUnit }> = [{ idx: p.airIdx, name: s.airColumn, unit: s.airUnit }];
+  if (p.productIdx >= 0) cols.push({ idx: p.productIdx, name: s.productColumn!, unit: s.productUnit! });
+
+  let times = new Float64Array(1024);
+  let vals = new Float64Array(1024 * cols.length);
+  let rowsOf = new Int32Array(1024);
+  let n = 0;
+  const implausible: number[] = [];
+  let prevMs = -Infinity;
+  let rowNo = 0;
+  const headerLen = p.header.length;
+  const total = text.length;
+  const preview: string[][] = [];
+
+  const handle = (row: string[], cursor: number) => {
+    rowNo++;
+    if (rowNo <= p.headerIdx + 1) return;
+    if (row.length === 1 && row[0]!.trim() === "") return; // blank line
+    if (row.length !== headerLen) fail(`row ${rowNo}: expected ${headerLen} fields but found ${row.length}`, rowNo);
+    if (preview.length < 20) preview.push(row);
+    // time
+    const tText = row[p.timeIdx]!;
+    let ms: number;
+    if (s.timeFormat === "datetime") {
+      if (p.dateIdx >= 0) {
+        const dText = row[p.dateIdx]!;
+        const d = parseWallClock(dText, s.dateOrder);
+        if (!d || d.h !== 0 || d.mi !== 0 || d.s !== 0) fail(`row ${rowNo}, column '${s.dateColumn}': '${dText}' is not a date`, rowNo, s.dateColumn);
+        const sod = parseTimeOfDay_s(tText);
+        if (Number.isNaN(sod)) fail(`row ${rowNo}, column '${s.timeColumn}': '${tText}' is not a time of day`, rowNo, s.timeColumn);
+        const wallMs = wallAsUtcMs(d!) + sod * 1000;
+        const w = new Date(wallMs);
+        ms = zone.toEpochMs({ y: w.getUTCFullYear(), mo: w.getUTCMonth() + 1, d: w.getUTCDate(), h: w.getUTCHours(), mi: w.getUTCMinutes(), s: w.getUTCSeconds(), ms: w.getUTCMilliseconds() }, prevMs);
+      } else {
+        const w = parseWallClock(tText, s.dateOrder);
+        if (!w) fail(`row ${rowNo}, column '${s.timeColumn}': '${tText}' is not a date and time`, rowNo, s.timeColumn);
+        ms = zone.toEpochMs(w!, prevMs);
+      }
+    } else {
+      const x = Number(tText.trim());
+      if (tText.trim() === "" || !Number.isFinite(x)) fail(`row ${rowNo}, column '${s.timeColumn}': '${tText}' is not a number of ${s.timeFormat.replace("elapsed-", "").replace("unix-", "")}`, rowNo, s.timeColumn);
+      ms = s.timeFormat === "unix-s" ? x * 1000 : s.timeFormat === "unix-ms" ? x : startMs + x * elapsedScale;
+    }
+    prevMs = ms;
+    // readings
+    if (n === times.length) {
+      // grow the typed arrays by doubling: amortised O(1) per row, no per-row objects
+      const t2 = new Float64Array(times.length * 2);
+      t2.set(times);
+      times = t2;
+      const r2 = new Int32Array(rowsOf.length * 2);
+      r2.set(rowsOf);
+      rowsOf = r2;
+      const v2 = new Float64Array(vals.length * 2);
+      v2.set(vals);
+      vals = v2;
+    }
+    for (let c = 0; c < cols.length; c++) {
+      const ch = cols[c]!;
+      const cell = row[ch.idx]!;
+      let v = Number.NaN;
+      if (!isMissingToken(cell, extraMissing)) {
+        const r = parseReading(cell, s.decimal);
+        if (!Number.isFinite(r.value)) fail(`row ${rowNo}, column '${ch.name}': '${cell}' is not a number`, rowNo, ch.name);
+        if (r.suffix) {
+          if (ch.suffix === undefined) ch.suffix = r.suffix;
+          if (r.suffix !== ch.suffix || (unitFromHeader(ch.name) !== undefined && r.suffix !== ch.unit)) {
+            fail(`row ${rowNo}, column '${ch.name}': '${cell}' is in °${r.suffix}, but the column is in °${ch.suffix === r.suffix ? ch.unit : ch.suffix}`, rowNo, ch.name);
+          }
+        }
+        if (extraMissing.has(String(r.value))) v = Number.NaN;
+        else {
+          v = toCelsius(r.value, r.suffix ?? ch.unit);
+          if (v < s.plausibleMin_C || v > s.plausibleMax_C) {
+            implausible.push(rowNo);
+            v = Number.NaN;
+          }
+        }
+      }
+      vals[n * cols.length + c] = v;
+    }
+    times[n] = ms / 1000;
+    rowsOf[n] = rowNo;
+    n++;
+    if (onProgress && (n & 0xffff) === 0) onProgress(cursor / total);
+  };
+
+  let err: unknown = null;
+  Papa.parse<string[]>(text, {
+    delimiter,
+    skipEmptyLines: false,
+    step: (res, parser) => {
+      try {
+        handle(res.data, res.meta.cursor);
+      } catch (e) {
+        err = e;
+        parser.abort();
+      }
+    },
+  });
+  if (err) throw err;
+  onProgress?.(1);
+  if (n < 2) fail("the file has fewer than two data rows");
+
+  const warnings: string[] = [];
+  if (implausible.length > 0) {
+    warnings.push(`${implausible.length} reading(s) outside ${s.plausibleMin_C} to ${s.plausibleMax_C} °C were excluded as implausible (rows ${listRows(implausible)})`);
+  }
+  if (zone.ambiguous > 0) warnings.push(`${zone.ambiguous} row(s) fell in the repeated hour of a daylight-saving change in ${s.timeZone}; they were placed in time by their order in the file`);
+  if (zone.skipped > 0) warnings.push(`${zone.skipped} row(s) have local times that do not exist in ${s.timeZone} (the skipped hour of a daylight-saving change); they were read with the offset in force before the change`);
+  const series = orderAndDeduplicate(times.subarray(0, n), vals.subarray(0, n * cols.length), cols.length, rowsOf.subarray(0, n), warnings);
+  trimMissingEnds(series, warnings);
+  if (series.t_s.length < 2) fail("fewer than two valid air readings remain after import");
+  const gaps = findGaps(series, s.gapMultiple);
+  if (gaps.length > 0) warnings.push(`${gaps.length} gap(s) in the air readings (missing values, or pauses over ${s.gapMultiple} median intervals); the models bridge them linearly and rules across them are at best inconclusive`);
+  return { series, settings: s, channels: p.channels, gaps, warnings, preview: { header: p.header, rows: preview } };
+}
+
+function orderAndDeduplicate(times: Float64Array, vals: Float64Array, k: number, rows: Int32Array, warnings: string[]): TraceSeries {
+  const n = times.length;
   let sorted = true;
-  for (let i = 1; i < times.length; i++) if (times[i]! < times[i - 1]!) sorted = false;
+  for (let i = 1; i < n; i++) if (times[i]! < times[i - 1]!) { sorted = false; break; }
+  let order: Int32Array | null = null;
   if (!sorted) {
-    order.sort((a, b) => times[a]! - times[b]! || a - b); // stable: file order breaks ties
+    order = Int32Array.from({ length: n }, (_, i) => i).sort((a, b) => times[a]! - times[b]! || a - b); // stable: file order breaks ties
     warnings.push("rows were not in time order and have been sorted by timestamp");
   }
-  const t: number[] = [];
-  const v: number[] = [];
+  const t = new Float64Array(n);
+  const v = new Float64Array(n * k);
   const exact: number[] = [];
   const conflicting: number[] = [];
-  for (const i of order) {
-    const last = t.length - 1;
-    if (last >= 0 && t[last] === times[i]) {
-      const same = Object.is(v[last], values[i]) || v[last] === values[i];
-      (same ? exact : conflicting).push(fileRows[i]!);
+  let m = 0;
+  const same = (a: number, b: number) => a === b || (Number.isNaN(a) && Number.isNaN(b));
+  for (let j = 0; j < n; j++) {
+    const i = order ? order[j]! : j;
+    if (m > 0 && t[m - 1] === times[i]) {
+      let eq = true;
+      for (let c = 0; c < k; c++) if (!same(v[(m - 1) * k + c]!, vals[i * k + c]!)) eq = false;
+      (eq ? exact : conflicting).push(rows[i]!);
       continue;
     }
-    t.push(times[i]!);
-    v.push(values[i]!);
+    t[m] = times[i]!;
+    for (let c = 0; c < k; c++) v[m * k + c] = vals[i * k + c]!;
+    m++;
   }
   if (exact.length) warnings.push(`${exact.length} exact duplicate row(s) dropped (rows ${listRows(exact)})`);
   if (conflicting.length) {
-    warnings.push(
-      `${conflicting.length} row(s) repeat an earlier timestamp with a different reading; the first reading in file order was kept (rows ${listRows(conflicting)})`,
-    );
+    warnings.push(`${conflicting.length} row(s) repeat an earlier timestamp with different readings; the first reading in file order was kept (rows ${listRows(conflicting)})`);
   }
-  return { t_s: Float64Array.from(t), air_C: Float64Array.from(v) };
+  const channel = (c: number) => Float64Array.from({ length: m }, (_, i) => v[i * k + c]!);
+  return { t_s: t.slice(0, m), air_C: channel(0), ...(k > 1 ? { probe_C: channel(1) } : {}) };
 }
 
-/** Leading and trailing missing readings cannot be bridged; they are removed, with a warning. */
+/** Leading and trailing samples without an air reading cannot be bridged; they are left out, with a warning. */
 function trimMissingEnds(series: TraceSeries, warnings: string[]): void {
   let a = 0;
   let b = series.t_s.length;
   while (a < b && Number.isNaN(series.air_C[a]!)) a++;
   while (b > a && Number.isNaN(series.air_C[b - 1]!)) b--;
   if (a === 0 && b === series.t_s.length) return;
-  const removed = a + (series.t_s.length - b);
-  warnings.push(`${removed} sample(s) without a valid reading at the start or end of the trace were left out`);
+  warnings.push(`${a + (series.t_s.length - b)} sample(s) without an air reading at the start or end of the trace were left out`);
   series.t_s = series.t_s.slice(a, b);
   series.air_C = series.air_C.slice(a, b);
+  if (series.probe_C) series.probe_C = series.probe_C.slice(a, b);
 }

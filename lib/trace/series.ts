@@ -4,14 +4,19 @@ export interface TraceSeries {
   t_s: Float64Array;
   /** air temperature at each sample, °C; NaN marks a missing value (a gap) */
   air_C: Float64Array;
+  /** product-probe (or product-simulant) temperature, °C, when the file has one; NaN marks a gap */
+  probe_C?: Float64Array;
 }
 
-/** A span of the trace with no valid air reading, bridged linearly by the models. */
+/** A span of the trace with no valid reading, bridged linearly by the models. */
 export interface Gap {
   start_s: number;
   end_s: number;
   duration_s: number;
 }
+
+/** Default: a pause longer than 3 median intervals is a gap (a user setting of the import). */
+export const DEFAULT_GAP_MULTIPLE = 3;
 
 /** Median spacing of the sample times, s (0 for fewer than two samples). */
 export function medianInterval_s(t_s: Float64Array): number {
@@ -24,19 +29,21 @@ export function medianInterval_s(t_s: Float64Array): number {
 }
 
 /**
- * Runs of missing values (NaN) between two valid readings. Each gap spans from the last valid sample
- * before it to the first valid one after it: the interval over which the models must bridge.
+ * Spans without a valid reading of one channel: runs of missing values between two valid readings,
+ * and pauses between consecutive valid readings longer than `gapMultiple` median intervals. Each gap
+ * runs from the last valid sample before it to the first valid one after it.
  */
-export function findGaps(series: TraceSeries): Gap[] {
-  const { t_s, air_C } = series;
+export function findGaps(series: TraceSeries, gapMultiple = DEFAULT_GAP_MULTIPLE, values: Float64Array = series.air_C): Gap[] {
+  const { t_s } = series;
+  const limit = gapMultiple * medianInterval_s(t_s);
   const gaps: Gap[] = [];
   let lastValid = -1;
   for (let i = 0; i < t_s.length; i++) {
-    if (Number.isNaN(air_C[i]!)) continue;
-    if (lastValid >= 0 && i - lastValid > 1) {
+    if (Number.isNaN(values[i]!)) continue;
+    if (lastValid >= 0) {
       const start_s = t_s[lastValid]!;
       const end_s = t_s[i]!;
-      gaps.push({ start_s, end_s, duration_s: end_s - start_s });
+      if (i - lastValid > 1 || (limit > 0 && end_s - start_s > limit)) gaps.push({ start_s, end_s, duration_s: end_s - start_s });
     }
     lastValid = i;
   }
@@ -45,11 +52,11 @@ export function findGaps(series: TraceSeries): Gap[] {
 
 /**
  * Fills NaN runs by linear interpolation in time between the neighbouring valid readings (the stated
- * bridging rule). Leading or trailing NaN cannot be bridged and are an error: the caller trims them.
+ * bridging rule). Leading or trailing NaN cannot be bridged and are an error: the importer trims them.
  */
-export function bridgeGaps(series: TraceSeries): Float64Array {
-  const { t_s, air_C } = series;
-  const out = Float64Array.from(air_C);
+export function bridgeGaps(series: TraceSeries, values: Float64Array = series.air_C): Float64Array {
+  const { t_s } = series;
+  const out = Float64Array.from(values);
   let lastValid = -1;
   for (let i = 0; i < out.length; i++) {
     if (Number.isNaN(out[i]!)) continue;
@@ -59,8 +66,8 @@ export function bridgeGaps(series: TraceSeries): Float64Array {
     }
     lastValid = i;
   }
-  if (Number.isNaN(out[0]!) || Number.isNaN(out[out.length - 1]!)) {
-    throw new Error("the trace starts or ends with missing air readings, which cannot be bridged");
+  if (lastValid < 0 || Number.isNaN(out[0]!) || Number.isNaN(out[out.length - 1]!)) {
+    throw new Error("the channel starts or ends without a valid reading, which cannot be bridged");
   }
   return out;
 }

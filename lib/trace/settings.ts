@@ -1,36 +1,77 @@
 import { z } from "zod";
 import { IANAZone } from "luxon";
 
+const zone = z.string().refine((v) => IANAZone.isValidZone(v), { message: "is not a known IANA time zone (e.g. Europe/Berlin)" });
+export const DELIMITERS = [",", ";", "\t", "|"] as const;
+export const TIME_FORMATS = ["datetime", "unix-s", "unix-ms", "elapsed-s", "elapsed-min", "elapsed-h"] as const;
+
 /**
  * Import settings as a user (form, CLI flag) gives them. Everything left out is detected from the file;
- * the import then returns the *resolved* settings, which are stored with the trace so that a re-import
- * of the same bytes yields the identical series.
+ * the import returns the *resolved* settings (every field filled), which are stored with the trace so
+ * that importing the same bytes with them again yields the identical series.
  */
 export const importOptionsSchema = z.object({
-  /** header name of the timestamp column */
+  encoding: z.enum(["utf-8", "utf-16le", "utf-16be", "windows-1252"]).optional(),
+  delimiter: z.enum(DELIMITERS, { error: "delimiter must be one of , ; tab |" }).optional(),
+  /** 1-based row of the column names */
+  headerRow: z.number().int().positive().optional(),
+  /** the timestamp column; with dateColumn, the clock-time column */
   timeColumn: z.string().min(1).optional(),
-  /** header name of the air-temperature column */
+  /** a separate date column */
+  dateColumn: z.string().min(1).optional(),
+  timeFormat: z.enum(TIME_FORMATS).optional(),
+  dateOrder: z.enum(["ymd", "dmy", "mdy"], { error: "date order must be dmy, mdy or ymd" }).optional(),
+  /** IANA zone for times written without an offset */
+  timeZone: zone.optional(),
+  /** start of an elapsed-time column, ISO 8601 with offset or Z */
+  startTime: z.iso.datetime({ offset: true, message: "must be an ISO 8601 date-time with Z or an offset" }).optional(),
   airColumn: z.string().min(1).optional(),
-  /** temperature unit of the air column; detected from the header when absent, else °C */
-  unit: z.enum(["C", "F", "K"]).optional(),
-  /** IANA zone for timestamps written without an offset */
-  timeZone: z
-    .string()
-    .refine((z) => IANAZone.isValidZone(z), { message: "is not a known IANA time zone (e.g. Europe/Berlin)" })
-    .optional(),
-  /** field delimiter; detected when absent */
-  delimiter: z.enum([",", ";", "\t", "|"]).optional(),
+  /** a product-probe (or product-simulant) channel */
+  productColumn: z.string().min(1).optional(),
+  /** columns to leave out (neither air nor product) */
+  ignoreColumns: z.array(z.string()).optional(),
+  /** unit of the temperature columns; detected from the headers when absent, else °C */
+  unit: z.enum(["C", "F", "K"], { error: "unit must be C, F or K" }).optional(),
+  decimal: z.enum([".", ","], { error: "decimal separator must be . or ," }).optional(),
+  /** extra codes that mean "no reading", e.g. "-999" (blank, NA, N/A, NaN, -, -- always do) */
+  missing: z.array(z.string().trim().min(1)).max(20).optional(),
+  /** readings outside this range are flagged and excluded, °C (defaults −60 and +80) */
+  plausibleMin_C: z.number().finite().optional(),
+  plausibleMax_C: z.number().finite().optional(),
+  /** a pause longer than this multiple of the median interval counts as a gap (default 3) */
+  gapMultiple: z.number().finite().min(1.5, { message: "gap multiple must be at least 1.5" }).max(1000).optional(),
 });
 export type ImportOptions = z.infer<typeof importOptionsSchema>;
 
 /** The settings an import actually used: complete, stored beside the trace. */
-export const resolvedImportSettingsSchema = z.object({
-  parser: z.literal("corelag-csv-1"),
-  delimiter: z.enum([",", ";", "\t", "|"]),
-  headerRow: z.number().int().positive(),
-  timeColumn: z.string(),
-  airColumn: z.string(),
-  unit: z.enum(["C", "F", "K"]),
-  timeZone: z.string(),
-});
-export type ResolvedImportSettings = z.infer<typeof resolvedImportSettingsSchema>;
+export interface ResolvedImportSettings {
+  parser: "corelag-csv-2";
+  encoding: "utf-8" | "utf-16le" | "utf-16be" | "windows-1252";
+  delimiter: (typeof DELIMITERS)[number];
+  headerRow: number;
+  timeColumn: string;
+  dateColumn?: string;
+  timeFormat: (typeof TIME_FORMATS)[number];
+  dateOrder: "ymd" | "dmy" | "mdy";
+  timeZone: string;
+  startTime?: string;
+  airColumn: string;
+  productColumn?: string;
+  ignoreColumns: string[];
+  airUnit: "C" | "F" | "K";
+  productUnit?: "C" | "F" | "K";
+  unit?: "C" | "F" | "K";
+  decimal: "." | ",";
+  missing: string[];
+  plausibleMin_C: number;
+  plausibleMax_C: number;
+  gapMultiple: number;
+}
+
+/** Stored settings back into options: importing with them repeats the import exactly. */
+export function optionsFromSettings(s: ResolvedImportSettings): ImportOptions {
+  const { parser: _p, airUnit, productUnit, ...rest } = s;
+  void _p;
+  // each column's resolved unit is kept by passing the air unit as the shared unit when they agree
+  return { ...rest, unit: s.unit ?? (productUnit === undefined || productUnit === airUnit ? airUnit : undefined) };
+}

@@ -1,31 +1,48 @@
-import { DateTime } from "luxon";
-
 /** Tokens that loggers write for "no reading". They become gaps (NaN), never zeros. */
-const MISSING = new Set(["", "na", "n/a", "nan", "-", "--", "null"]);
+const MISSING = new Set(["", "na", "n/a", "nan", "-", "--", "null", "none"]);
 
-export function isMissingToken(text: string): boolean {
-  return MISSING.has(text.trim().toLowerCase());
-}
-
-const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
-
-/** Strict decimal number (point as decimal separator); NaN when the text is not exactly a number. */
-export function parseStrictNumber(text: string): number {
+export function isMissingToken(text: string, extra: ReadonlySet<string>): boolean {
   const s = text.trim();
-  return NUMBER.test(s) ? Number(s) : Number.NaN;
+  return MISSING.has(s.toLowerCase()) || extra.has(s);
 }
+
+const POINT = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
+const POINT_THOUSANDS = /^[+-]?\d{1,3}(,\d{3})+(\.\d+)?$/;
+const COMMA = /^[+-]?(\d+(,\d*)?|,\d+)$/;
+const COMMA_THOUSANDS = /^[+-]?\d{1,3}(\.\d{3})+(,\d+)?$/;
+const UNIT_SUFFIX = /\s*(°\s*[CFK]|deg\s*[CFK]|[CFK])$/i;
 
 /**
- * A timestamp to epoch seconds. ISO 8601 with an offset or Z keeps its offset; a local date-time
- * ("2026-03-14T08:00:00" or "2026-03-14 08:00:00") is read in `zone` by luxon, which resolves the
- * daylight-saving changes. NaN when the text is not a timestamp.
+ * A reading as a number, with "." or "," as the decimal separator and the other one allowed as a
+ * thousands separator in groups of three. A unit suffix ("4.5 °C") is split off and returned.
+ * NaN when the text is not exactly a number.
  */
-export function parseTimestamp_s(text: string, zone: string): number {
-  const s = text.trim();
-  if (s === "") return Number.NaN;
-  let dt = DateTime.fromISO(s, { zone });
-  if (!dt.isValid) dt = DateTime.fromSQL(s, { zone });
-  return dt.isValid ? dt.toMillis() / 1000 : Number.NaN;
+export function parseReading(text: string, decimal: "." | ","): { value: number; suffix?: "C" | "F" | "K" } {
+  let s = text.trim().replace(/\u00a0|\u202f/g, "");
+  let suffix: "C" | "F" | "K" | undefined;
+  const u = UNIT_SUFFIX.exec(s);
+  if (u && u.index > 0) {
+    suffix = u[1]!.slice(-1).toUpperCase() as "C" | "F" | "K";
+    s = s.slice(0, u.index);
+  }
+  let value = Number.NaN;
+  if (decimal === ".") {
+    if (POINT.test(s)) value = Number(s);
+    else if (POINT_THOUSANDS.test(s)) value = Number(s.replace(/,/g, ""));
+  } else if (COMMA.test(s)) value = Number(s.replace(",", "."));
+  else if (COMMA_THOUSANDS.test(s)) value = Number(s.replace(/\./g, "").replace(",", "."));
+  return suffix ? { value, suffix } : { value };
+}
+
+/** Which decimal separator the sample cells use: "," when comma-decimals outnumber point-decimals. */
+export function detectDecimal(cells: readonly string[]): "." | "," {
+  let comma = 0, point = 0;
+  for (const c of cells) {
+    const s = c.trim();
+    if (/^[+-]?\d+,\d+$/.test(s) && !/^[+-]?\d{1,3},\d{3}$/.test(s)) comma++;
+    else if (/^[+-]?\d*\.\d+$/.test(s)) point++;
+  }
+  return comma > point ? "," : ".";
 }
 
 export type TemperatureUnit = "C" | "F" | "K";
@@ -33,9 +50,9 @@ export type TemperatureUnit = "C" | "F" | "K";
 /** Unit written in a column header, e.g. "Temp (°F)", "Air [K]", "temp_degC"; undefined when none. */
 export function unitFromHeader(header: string): TemperatureUnit | undefined {
   const h = header.toLowerCase();
-  if (/°\s*f\b|\(f\)|\[f\]|degf\b|fahrenheit/.test(h)) return "F";
-  if (/°\s*c\b|\(c\)|\[c\]|degc\b|celsius/.test(h)) return "C";
-  if (/\(k\)|\[k\]|kelvin/.test(h)) return "K";
+  if (/°\s*f\b|\(f\)|\[f\]|degf\b|fahrenheit|_f$/.test(h)) return "F";
+  if (/°\s*c\b|\(c\)|\[c\]|degc\b|celsius|_c$/.test(h)) return "C";
+  if (/\(k\)|\[k\]|kelvin|_k$/.test(h)) return "K";
   return undefined;
 }
 

@@ -96,14 +96,14 @@ describe("corelag predict and import (CLI)", () => {
     writeFileSync(trace, "Time,Air (°F)\n2026-01-01T00:00:00Z,41\n2026-01-01T00:05:00Z,NA\n2026-01-01T00:10:00Z,\n2026-01-01T00:15:00Z,42\n2026-01-01T00:20:00Z,43\n");
     const r = corelag("import", trace, "--format", "json");
     expect(r.code).toBe(0);
-    expect(JSON.parse(r.stdout)).toEqual({
+    expect(JSON.parse(r.stdout)).toMatchObject({
       samples: 5,
       channels: [{ name: "Air (°F)", role: "air", unit: "F" }],
       start: "2026-01-01T00:00:00.000Z",
       end: "2026-01-01T00:20:00.000Z",
       median_interval_s: 300,
       gaps: [{ start: "2026-01-01T00:00:00.000Z", end: "2026-01-01T00:15:00.000Z", duration_s: 900 }],
-      warnings: [],
+      warnings: ["1 gap(s) in the air readings (missing values, or pauses over 3 median intervals); the models bridge them linearly and rules across them are at best inconclusive"],
     });
   });
 });

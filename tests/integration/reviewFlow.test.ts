@@ -32,7 +32,7 @@ afterAll(async () => {
 
 describe("upload → store → review → read back (SQLite)", () => {
   it("stores the original bytes unchanged, and they re-hash to the stored SHA-256", async () => {
-    const { importCsv } = await import("@/lib/trace");
+    const { importCsv, optionsFromSettings } = await import("@/lib/trace");
     const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
     const id = await dbm.createTrace({ name: "it", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
     const stored = await dbm.getTrace(id);
@@ -40,7 +40,7 @@ describe("upload → store → review → read back (SQLite)", () => {
     expect(Buffer.compare(Buffer.from(stored!.original), bytes)).toBe(0);
     expect(createHash("sha256").update(stored!.original).digest("hex")).toBe(stored!.meta.sha256);
     // the stored series reads back identical to a fresh import of the stored bytes with the stored settings
-    const again = importCsv(stored!.original, stored!.meta.importSettings);
+    const again = importCsv(stored!.original, optionsFromSettings(stored!.meta.importSettings));
     expect(Buffer.compare(Buffer.from(stored!.series.t_s.buffer), Buffer.from(again.series.t_s.buffer))).toBe(0);
     expect(Buffer.compare(Buffer.from(stored!.series.air_C.buffer), Buffer.from(again.series.air_C.buffer))).toBe(0);
   });
@@ -87,7 +87,7 @@ describe("upload → store → review → read back (SQLite)", () => {
     const l = await dbm.createDefinition("limits", { name: "probe", rules: [{ id: "probe-5", channel: "probe", above_C: 5 }] });
     const traces = await dbm.listTraces();
     const res = await services.runAndStoreReview({ title: "x", traceId: traces[0]!.id, productId: p.id, limitsId: l.id });
-    expect(res).toEqual({ ok: false, field: "limitsId", message: "rule 'probe-5' is on the 'probe' channel, which a review does not produce yet" });
+    expect(res).toEqual({ ok: false, field: "limitsId", message: "rule 'probe-5' is on the 'probe' channel, but this trace has no product-probe column" });
     expect(await (await import("@/lib/db/client")).db.review.count()).toBe(before);
   });
 });

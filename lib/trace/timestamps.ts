@@ -1,0 +1,141 @@
+import { IANAZone } from "luxon";
+
+/** A calendar date and clock time as written, before any zone is applied. */
+export interface WallClock {
+  y: number;
+  mo: number;
+  d: number;
+  h: number;
+  mi: number;
+  s: number;
+  ms: number;
+  /** explicit UTC offset in minutes when the text carries one (Z = 0) */
+  offsetMin?: number;
+}
+
+export type DateOrder = "ymd" | "dmy" | "mdy";
+
+const ISO = /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?)?\s*(Z|[+-]\d{2}(?::?\d{2})?)?$/;
+const YMD_SLASH = /^(\d{4})[/.](\d{1,2})[/.](\d{1,2})(?:[ T,]+(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?\s*([AaPp][Mm])?)?$/;
+const DMY_OR_MDY = /^(\d{1,2})[/.-](\d{1,2})[/.-](\d{4})(?:[ T,]+(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?\s*([AaPp][Mm])?)?$/;
+const TIME_ONLY = /^(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?\s*([AaPp][Mm])?$/;
+
+const daysIn = (y: number, m: number) => new Date(Date.UTC(y, m, 0)).getUTCDate();
+const frac = (s: string | undefined) => (s ? Math.round(Number(`0.${s}`) * 1000) : 0);
+
+function hour12(h: number, ampm: string | undefined): number {
+  if (!ampm) return h;
+  if (h < 1 || h > 12) return Number.NaN;
+  const pm = ampm.toLowerCase() === "pm";
+  return (h % 12) + (pm ? 12 : 0);
+}
+
+function valid(w: WallClock): WallClock | null {
+  if (!(w.mo >= 1 && w.mo <= 12 && w.d >= 1 && w.d <= daysIn(w.y, w.mo))) return null;
+  if (!(w.h >= 0 && w.h <= 23 && w.mi >= 0 && w.mi <= 59 && w.s >= 0 && w.s <= 59)) return null;
+  return w;
+}
+
+function parseOffset(z: string): number {
+  if (z === "Z") return 0;
+  const sign = z[0] === "-" ? -1 : 1;
+  const digits = z.slice(1).replace(":", "");
+  return sign * (Number(digits.slice(0, 2)) * 60 + Number(digits.slice(2, 4) || "0"));
+}
+
+/** The first and second numbers of a d/m or m/d date, for working out the order. */
+export function slashDateParts(text: string): [number, number] | null {
+  const m = DMY_OR_MDY.exec(text.trim());
+  return m ? [Number(m[1]), Number(m[2])] : null;
+}
+
+/** Reads a date-time in the given order (ISO and year-first dates are read whatever the order). Null when it is not one. */
+export function parseWallClock(text: string, order: DateOrder): WallClock | null {
+  const s = text.trim();
+  let m = ISO.exec(s);
+  if (m) {
+    return valid({
+      y: Number(m[1]), mo: Number(m[2]), d: Number(m[3]), h: Number(m[4] ?? 0), mi: Number(m[5] ?? 0), s: Number(m[6] ?? 0), ms: frac(m[7]),
+      ...(m[8] ? { offsetMin: parseOffset(m[8]) } : {}),
+    });
+  }
+  m = YMD_SLASH.exec(s);
+  if (m) return valid({ y: Number(m[1]), mo: Number(m[2]), d: Number(m[3]), h: hour12(Number(m[4] ?? 0), m[8]), mi: Number(m[5] ?? 0), s: Number(m[6] ?? 0), ms: frac(m[7]) });
+  m = DMY_OR_MDY.exec(s);
+  if (m) {
+    if (order === "ymd") return null;
+    const [a, b] = [Number(m[1]), Number(m[2])];
+    const [d, mo] = order === "dmy" ? [a, b] : [b, a];
+    return valid({ y: Number(m[3]), mo, d, h: hour12(Number(m[4] ?? 0), m[8]), mi: Number(m[5] ?? 0), s: Number(m[6] ?? 0), ms: frac(m[7]) });
+  }
+  return null;
+}
+
+/** A clock time alone ("14:05", "2:05:30 PM"), as seconds after midnight; NaN when it is not one. */
+export function parseTimeOfDay_s(text: string): number {
+  const m = TIME_ONLY.exec(text.trim());
+  if (!m) return Number.NaN;
+  const h = hour12(Number(m[1]), m[5]), mi = Number(m[2]), s = Number(m[3] ?? 0);
+  if (!(h >= 0 && h <= 23 && mi <= 59 && s <= 59)) return Number.NaN;
+  return h * 3600 + mi * 60 + s + frac(m[4]) / 1000;
+}
+
+/** Wall clock read as if it were UTC, ms. */
+export function wallAsUtcMs(w: WallClock): number {
+  return Date.UTC(w.y, w.mo - 1, w.d, w.h, w.mi, w.s, w.ms);
+}
+
+/**
+ * Places wall-clock times of one IANA zone on the time line, using luxon's zone data for the offsets.
+ * At a daylight-saving change a wall time can have two instants (the repeated hour) or none (the
+ * skipped hour). Repeated times are resolved by order: the earliest instant not before the previous
+ * row's. Skipped times are read with the offset in force just before the change (as if the clock had
+ * not been moved yet). Both are counted so the import can report them.
+ */
+export class ZoneResolver {
+  private readonly zone: IANAZone;
+  private readonly cache = new Map<number, { offs: number[]; skipped: boolean }>();
+  ambiguous = 0;
+  skipped = 0;
+
+  constructor(zoneName: string) {
+    const z = IANAZone.create(zoneName);
+    if (!z.isValid) throw new Error(`'${zoneName}' is not a known IANA time zone`);
+    this.zone = z;
+  }
+
+  /**
+   * UTC offsets (minutes) that put this wall time on the time line, earliest instant first; for a
+   * skipped wall time, the offset in force before the change (the smaller one). Cached per 15-minute
+   * slot of wall time, so a long trace asks the zone data once per slot.
+   */
+  private offsets(wallMs: number): { offs: number[]; skipped: boolean } {
+    const slot = Math.floor(wallMs / 900_000);
+    const hit = this.cache.get(slot);
+    if (hit) return hit;
+    const z = this.zone;
+    const cands = [...new Set([z.offset(wallMs - 86_400_000), z.offset(wallMs), z.offset(wallMs + 86_400_000)])];
+    const ok = cands.filter((o) => z.offset(wallMs - o * 60_000) === o).sort((a, b) => b - a);
+    const entry = ok.length > 0 ? { offs: ok, skipped: false } : { offs: [Math.min(...cands)], skipped: true };
+    this.cache.set(slot, entry);
+    return entry;
+  }
+
+  /** Epoch ms for a wall time, given the previous row's epoch ms (for ordering in the repeated hour). */
+  toEpochMs(w: WallClock, previousMs: number): number {
+    const wall = wallAsUtcMs(w);
+    if (w.offsetMin !== undefined) return wall - w.offsetMin * 60_000;
+    const { offs, skipped } = this.offsets(wall);
+    if (skipped) {
+      this.skipped++;
+      return wall - offs[0]! * 60_000;
+    }
+    if (offs.length === 1) return wall - offs[0]! * 60_000;
+    this.ambiguous++;
+    for (const o of offs) {
+      const t = wall - o * 60_000;
+      if (t >= previousMs) return t;
+    }
+    return wall - offs[offs.length - 1]! * 60_000;
+  }
+}

@@ -1,0 +1,3 @@
+-- AlterTable
+ALTER TABLE "Trace" ADD COLUMN "probeC" BLOB;
+
