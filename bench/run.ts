@@ -5,6 +5,7 @@ import { timeBeyond } from "../lib/exposure/timeAbove";
 import { predict } from "../lib/thermal/predict";
 import type { Product } from "../lib/thermal/definitions";
 import { centreTheta } from "../tests/helpers/series";
+import { benchImport } from "./import";
 
 function mulberry32(seed: number): () => number {
   let a = seed >>> 0;
@@ -78,6 +79,7 @@ function benchSphere(): void {
   );
 }
 
+benchImport();
 benchLumped();
 benchTimeBeyond();
 benchSphere();

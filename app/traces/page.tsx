@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { listTraces } from "@/lib/db/traces";
-import { UploadForm } from "./UploadForm";
+import { TraceUploader } from "./TraceUploader";
 
 export const dynamic = "force-dynamic";
 
@@ -11,7 +11,7 @@ export default async function TracesPage() {
       <h1>Traces</h1>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>Upload a logger file</h2>
-        <UploadForm />
+        <TraceUploader />
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>Stored traces</h2>

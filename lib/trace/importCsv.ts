@@ -3,7 +3,7 @@ import { decodeText } from "./decode";
 import { TraceImportError } from "./errors";
 import { DELIMITERS, type ImportOptions, type ResolvedImportSettings } from "./settings";
 import { DEFAULT_GAP_MULTIPLE, findGaps, type Gap, type TraceSeries } from "./series";
-import { parseTimeOfDay_s, parseWallClock, slashDateParts, wallAsUtcMs, ZoneResolver, type DateOrder } from "./timestamps";
+import { parseTimeOfDay_s, parseWallClock, slashDateParts, wallAsUtcMs, YEAR_RANGE, ZoneResolver, type DateOrder } from "./timestamps";
 import { detectDecimal, isMissingToken, parseReading, toCelsius, unitFromHeader, type TemperatureUnit } from "./values";
 
 /** Readings outside this range are flagged and excluded, never clipped (common-practice default, °C). */
@@ -28,13 +28,19 @@ export interface TraceImport {
 type Delimiter = (typeof DELIMITERS)[number];
 const MAX_LISTED = 5;
 const HEAD_BYTES = 1 << 20;
-const TIME_HEADER = /time|date|stamp|zeit|heure|hora|datum|elapsed/i;
+const TIME_HEADER = /time|date|stamp|zeit|heure|hora|datum|elapsed|epoch|unix/i;
 const PRODUCT_HEADER = /product|probe|core|simulant|food|sample|item/i;
 const AIR_HEADER = /air|ambient|amb\b|room|reefer|temp|°|deg/i;
 
 const fail = (message: string, row?: number, column?: string): never => {
   throw new TraceImportError(message, row, column);
 };
+
+/** A cell as quoted in a message: control characters made visible, long text cut. */
+function show(cell: string): string {
+  const visible = cell.replace(/[\u0000-\u001f\u007f]/g, (c) => (c === "\n" ? "\\n" : c === "\r" ? "\\r" : c === "\t" ? "\\t" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`));
+  return visible.length > 40 ? `${visible.slice(0, 40)}…` : visible;
+}
 
 function detectDelimiter(head: string): Delimiter {
   // The delimiter that splits the most lines into the same number (>1) of fields.
@@ -119,22 +125,33 @@ function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedIm
   const col = (i: number) => sample.map((r) => r[i]!);
   const ignored = new Set(options.ignoreColumns ?? []);
 
-  // Time: a date-time column, or a date column plus a time column, or numbers (Unix or elapsed).
+  // Time: a date-time column, or a date column plus a time-of-day column, or numbers (Unix or elapsed).
   let timeIdx: number;
   let dateIdx = -1;
+  const candidates = header.map((_, i) => i).filter((i) => !ignored.has(header[i]!));
+  const hasClock = (c: string) => /\d:\d\d/.test(c);
+  const isDateTime = (i: number) => col(i).some((c) => hasClock(c) && (parseWallClock(c, "dmy") !== null || parseWallClock(c, "mdy") !== null));
+  const isDateOnly = (i: number) => col(i).some((c) => !hasClock(c) && (parseWallClock(c, "dmy") !== null || parseWallClock(c, "mdy") !== null));
+  const isClockOnly = (i: number) => col(i).every((c) => c.trim() === "" || !Number.isNaN(parseTimeOfDay_s(c))) && col(i).some((c) => c.trim() !== "");
   if (options.dateColumn !== undefined) dateIdx = columnIndex(header, options.dateColumn, "date");
   if (options.timeColumn !== undefined) timeIdx = columnIndex(header, options.timeColumn, "time");
   else {
-    const candidates = header.map((h, i) => i).filter((i) => i !== dateIdx && !ignored.has(header[i]!));
-    timeIdx = candidates.find((i) => TIME_HEADER.test(header[i]!) && col(i).some(timeish)) ?? candidates.find((i) => TIME_HEADER.test(header[i]!)) ?? candidates.find((i) => col(i).some(timeish)) ?? fail("no time column was found; name it with the time-column setting");
-  }
-  if (dateIdx < 0 && options.dateColumn === undefined) {
-    // a time-of-day column next to a date-only column
-    const timeCells = col(timeIdx);
-    if (timeCells.every((c) => c.trim() === "" || !Number.isNaN(parseTimeOfDay_s(c)))) {
-      dateIdx = header.findIndex((h, i) => i !== timeIdx && /date|datum|fecha/i.test(h) && col(i).some((c) => timeish(c)));
-      if (dateIdx < 0) fail(`column '${header[timeIdx]}' holds clock times only; give the date column`);
+    const dt = candidates.filter((i) => i !== dateIdx && isDateTime(i));
+    const clock = candidates.filter((i) => i !== dateIdx && isClockOnly(i));
+    const dateOnly = candidates.filter((i) => isDateOnly(i));
+    if (dt.length > 0) timeIdx = dt.find((i) => TIME_HEADER.test(header[i]!)) ?? dt[0]!;
+    else if (clock.length > 0 && (dateIdx >= 0 || dateOnly.length > 0)) {
+      timeIdx = clock[0]!;
+      if (dateIdx < 0) dateIdx = dateOnly[0]!;
+    } else {
+      timeIdx =
+        candidates.find((i) => i !== dateIdx && TIME_HEADER.test(header[i]!)) ??
+        candidates.find((i) => i !== dateIdx && col(i).every((c) => /^\d{9,13}(\.\d+)?$/.test(c.trim()))) ??
+        fail("no time column was found; name it with the time-column setting");
     }
+  }
+  if (dateIdx < 0 && options.dateColumn === undefined && isClockOnly(timeIdx)) {
+    dateIdx = candidates.find((i) => i !== timeIdx && isDateOnly(i)) ?? fail(`column '${header[timeIdx]}' holds clock times only; give the date column`);
   }
   const timeCells = col(timeIdx);
   let timeFormat = options.timeFormat;
@@ -279,20 +296,24 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
       if (p.dateIdx >= 0) {
         const dText = row[p.dateIdx]!;
         const d = parseWallClock(dText, s.dateOrder);
-        if (!d || d.h !== 0 || d.mi !== 0 || d.s !== 0) fail(`row ${rowNo}, column '${s.dateColumn}': '${dText}' is not a date`, rowNo, s.dateColumn);
+        if (!d || d.h !== 0 || d.mi !== 0 || d.s !== 0) fail(`row ${rowNo}, column '${s.dateColumn}': '${show(dText)}' is not a date`, rowNo, s.dateColumn);
+        if (d!.y < YEAR_RANGE.min || d!.y > YEAR_RANGE.max) fail(`row ${rowNo}, column '${s.dateColumn}': '${show(dText)}' is outside the years ${YEAR_RANGE.min}–${YEAR_RANGE.max}; was the logger's clock set?`, rowNo, s.dateColumn);
         const sod = parseTimeOfDay_s(tText);
-        if (Number.isNaN(sod)) fail(`row ${rowNo}, column '${s.timeColumn}': '${tText}' is not a time of day`, rowNo, s.timeColumn);
+        if (Number.isNaN(sod)) fail(`row ${rowNo}, column '${s.timeColumn}': '${show(tText)}' is not a time of day`, rowNo, s.timeColumn);
         const wallMs = wallAsUtcMs(d!) + sod * 1000;
         const w = new Date(wallMs);
         ms = zone.toEpochMs({ y: w.getUTCFullYear(), mo: w.getUTCMonth() + 1, d: w.getUTCDate(), h: w.getUTCHours(), mi: w.getUTCMinutes(), s: w.getUTCSeconds(), ms: w.getUTCMilliseconds() }, prevMs);
       } else {
         const w = parseWallClock(tText, s.dateOrder);
-        if (!w) fail(`row ${rowNo}, column '${s.timeColumn}': '${tText}' is not a date and time`, rowNo, s.timeColumn);
+        if (!w) fail(`row ${rowNo}, column '${s.timeColumn}': '${show(tText)}' is not a date and time`, rowNo, s.timeColumn);
+        if (w!.y < YEAR_RANGE.min || w!.y > YEAR_RANGE.max) {
+          fail(`row ${rowNo}, column '${s.timeColumn}': '${show(tText)}' is outside the years ${YEAR_RANGE.min}–${YEAR_RANGE.max}; was the logger's clock set?`, rowNo, s.timeColumn);
+        }
         ms = zone.toEpochMs(w!, prevMs);
       }
     } else {
       const x = Number(tText.trim());
-      if (tText.trim() === "" || !Number.isFinite(x)) fail(`row ${rowNo}, column '${s.timeColumn}': '${tText}' is not a number of ${s.timeFormat.replace("elapsed-", "").replace("unix-", "")}`, rowNo, s.timeColumn);
+      if (tText.trim() === "" || !Number.isFinite(x)) fail(`row ${rowNo}, column '${s.timeColumn}': '${show(tText)}' is not a number of ${s.timeFormat.replace("elapsed-", "").replace("unix-", "")}`, rowNo, s.timeColumn);
       ms = s.timeFormat === "unix-s" ? x * 1000 : s.timeFormat === "unix-ms" ? x : startMs + x * elapsedScale;
     }
     prevMs = ms;
@@ -315,11 +336,11 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
       let v = Number.NaN;
       if (!isMissingToken(cell, extraMissing)) {
         const r = parseReading(cell, s.decimal);
-        if (!Number.isFinite(r.value)) fail(`row ${rowNo}, column '${ch.name}': '${cell}' is not a number`, rowNo, ch.name);
+        if (!Number.isFinite(r.value)) fail(`row ${rowNo}, column '${ch.name}': '${show(cell)}' is not a number`, rowNo, ch.name);
         if (r.suffix) {
           if (ch.suffix === undefined) ch.suffix = r.suffix;
           if (r.suffix !== ch.suffix || (unitFromHeader(ch.name) !== undefined && r.suffix !== ch.unit)) {
-            fail(`row ${rowNo}, column '${ch.name}': '${cell}' is in °${r.suffix}, but the column is in °${ch.suffix === r.suffix ? ch.unit : ch.suffix}`, rowNo, ch.name);
+            fail(`row ${rowNo}, column '${ch.name}': '${show(cell)}' is in °${r.suffix}, but the column is in °${ch.suffix === r.suffix ? ch.unit : ch.suffix}`, rowNo, ch.name);
           }
         }
         if (extraMissing.has(String(r.value))) v = Number.NaN;
@@ -345,6 +366,7 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
     skipEmptyLines: false,
     step: (res, parser) => {
       try {
+        if (res.errors.length > 0) fail(`row ${rowNo + 1}: ${res.errors[0]!.message.toLowerCase()} (a quote opened but not closed?)`, rowNo + 1);
         handle(res.data, res.meta.cursor);
       } catch (e) {
         err = e;

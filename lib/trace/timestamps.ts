@@ -30,7 +30,11 @@ function hour12(h: number, ampm: string | undefined): number {
   return (h % 12) + (pm ? 12 : 0);
 }
 
+/** Years a logger record can plausibly carry; outside them the clock was most likely never set. */
+export const YEAR_RANGE = { min: 1990, max: 2100 } as const;
+
 function valid(w: WallClock): WallClock | null {
+  if (w.offsetMin !== undefined && Math.abs(w.offsetMin) > 14 * 60) return null; // real offsets lie within ±14 h
   if (!(w.mo >= 1 && w.mo <= 12 && w.d >= 1 && w.d <= daysIn(w.y, w.mo))) return null;
   if (!(w.h >= 0 && w.h <= 23 && w.mi >= 0 && w.mi <= 59 && w.s >= 0 && w.s <= 59)) return null;
   return w;
@@ -49,8 +53,37 @@ export function slashDateParts(text: string): [number, number] | null {
   return m ? [Number(m[1]), Number(m[2])] : null;
 }
 
+const d2 = (s: string, i: number) => (s.charCodeAt(i) - 48) * 10 + (s.charCodeAt(i + 1) - 48);
+const isDigit = (s: string, i: number) => {
+  const c = s.charCodeAt(i);
+  return c >= 48 && c <= 57;
+};
+
+/** Fast path for the most common logger layout, "YYYY-MM-DDTHH:MM:SS" with optional ".fff" and "Z" (or space for T). */
+function fastIso(s: string): WallClock | null {
+  const n = s.length;
+  if (n < 19 || s[4] !== "-" || s[7] !== "-" || (s[10] !== "T" && s[10] !== " ") || s[13] !== ":" || s[16] !== ":") return null;
+  for (const i of [0, 1, 2, 3, 5, 6, 8, 9, 11, 12, 14, 15, 17, 18]) if (!isDigit(s, i)) return null;
+  let ms = 0;
+  let i = 19;
+  if (s[i] === ".") {
+    let j = i + 1;
+    while (j < n && isDigit(s, j)) j++;
+    if (j === i + 1) return null;
+    ms = Math.round(Number(`0${s.slice(i, j)}`) * 1000);
+    i = j;
+  }
+  const utc = i === n - 1 && s[i] === "Z";
+  if (i !== n && !utc) return null;
+  const w: WallClock = { y: d2(s, 0) * 100 + d2(s, 2), mo: d2(s, 5), d: d2(s, 8), h: d2(s, 11), mi: d2(s, 14), s: d2(s, 17), ms };
+  if (utc) w.offsetMin = 0;
+  return valid(w);
+}
+
 /** Reads a date-time in the given order (ISO and year-first dates are read whatever the order). Null when it is not one. */
 export function parseWallClock(text: string, order: DateOrder): WallClock | null {
+  const fast = fastIso(text);
+  if (fast) return fast;
   const s = text.trim();
   let m = ISO.exec(s);
   if (m) {

@@ -17,7 +17,11 @@ const UNIT_SUFFIX = /\s*(°\s*[CFK]|deg\s*[CFK]|[CFK])$/i;
  * thousands separator in groups of three. A unit suffix ("4.5 °C") is split off and returned.
  * NaN when the text is not exactly a number.
  */
+const PLAIN = /^-?\d{1,4}\.\d{1,6}$/;
+
 export function parseReading(text: string, decimal: "." | ","): { value: number; suffix?: "C" | "F" | "K" } {
+  // fast path for the common cell, e.g. "4.25" or "-18.3"
+  if (decimal === "." && PLAIN.test(text)) return { value: +text };
   let s = text.trim().replace(/\u00a0|\u202f/g, "");
   let suffix: "C" | "F" | "K" | undefined;
   const u = UNIT_SUFFIX.exec(s);
@@ -38,7 +42,7 @@ export function parseReading(text: string, decimal: "." | ","): { value: number;
 export function detectDecimal(cells: readonly string[]): "." | "," {
   let comma = 0, point = 0;
   for (const c of cells) {
-    const s = c.trim();
+    const s = c.trim().replace(UNIT_SUFFIX, "");
     if (/^[+-]?\d+,\d+$/.test(s) && !/^[+-]?\d{1,3},\d{3}$/.test(s)) comma++;
     else if (/^[+-]?\d*\.\d+$/.test(s)) point++;
   }

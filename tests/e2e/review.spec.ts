@@ -7,7 +7,11 @@ test("upload the demo trace, define a product and a limit set, run a review, see
   // 1. Upload a logger file: stored with its SHA-256.
   await page.goto("/traces");
   await page.getByLabel("Logger file (CSV)").setInputFiles(path.join(DEMO, "route7-tote3.csv"));
-  await page.getByLabel("Name", { exact: false }).first().fill("Route 7 tote 3");
+  await page.locator("#f-name").fill("Route 7 tote 3");
+  // preview before commit: detected settings, first rows, chart
+  await expect(page.getByTestId("preview-summary")).toContainText("361 samples from 2026-06-16T03:00:00Z to 2026-06-16T15:00:00Z");
+  await expect(page.getByTestId("preview-summary")).toContainText("header on row 5");
+  await expect(page.getByTestId("preview-parsed")).toContainText("2026-06-16T03:00:00Z");
   await page.getByRole("button", { name: "Upload and import" }).click();
   await expect(page.getByTestId("trace-samples")).toHaveText("361");
   await expect(page.getByTestId("trace-sha256")).toHaveText(/^[0-9a-f]{64}$/);
@@ -51,17 +55,30 @@ test("upload the demo trace, define a product and a limit set, run a review, see
   await page.screenshot({ path: "test-results/review.png", fullPage: true });
 });
 
-test("a file that cannot be imported is refused with row and column, and nothing is stored", async ({ page }) => {
+test("a file that cannot be imported is refused with row and column, and nothing is stored", async ({ page, request }) => {
   await page.goto("/traces");
-  await page.getByLabel("Logger file (CSV)").setInputFiles({
-    name: "broken.csv",
-    mimeType: "text/csv",
-    buffer: Buffer.from("Time,Temp\n2026-01-01T00:00:00Z,4.1\n2026-01-01T00:01:00Z,warm\n"),
-  });
-  await page.getByRole("button", { name: "Upload and import" }).click();
-  await expect(page.getByTestId("form-error")).toHaveText("broken.csv: row 3, column 'Temp': 'warm' is not a number. Nothing was stored.");
+  const broken = Buffer.from("Time,Temp\n2026-01-01T00:00:00Z,4.1\n2026-01-01T00:01:00Z,warm\n");
+  await page.getByLabel("Logger file (CSV)").setInputFiles({ name: "broken.csv", mimeType: "text/csv", buffer: broken });
+  await expect(page.getByTestId("form-error")).toContainText("broken.csv: row 3, column 'Temp': 'warm' is not a number");
+  await expect(page.getByRole("button", { name: "Upload and import" })).toBeDisabled();
+  // the server refuses it too, whatever the browser did
+  const res = await request.post("/api/traces", { multipart: { file: { name: "broken.csv", mimeType: "text/csv", buffer: broken }, options: "{}" } });
+  expect(res.status()).toBe(422);
+  expect(await res.json()).toEqual({ error: "broken.csv: row 3, column 'Temp': 'warm' is not a number. Nothing was stored." });
   await page.goto("/traces");
   await expect(page.getByText("broken.csv")).toHaveCount(0);
+});
+
+test("an ambiguous date order is asked for, and a second channel can be taken as the product probe", async ({ page }) => {
+  await page.goto("/traces");
+  const csv = "Serial: QX-1\nTime;Air (°C);Product simulant (°C)\n03/04/2026 06:00;3,1;2,0\n03/04/2026 06:30;3,4;2,1\n03/04/2026 07:00;3,9;2,3\n";
+  await page.getByLabel("Logger file (CSV)").setInputFiles({ name: "dock.csv", mimeType: "text/csv", buffer: Buffer.from(csv) });
+  await expect(page.getByTestId("form-error")).toContainText("could be day-first or month-first; choose the date order");
+  await page.getByTestId("opt-date-order").selectOption("dmy");
+  await expect(page.getByTestId("preview-summary")).toContainText("3 samples from 2026-04-03T06:00:00Z");
+  await expect(page.getByTestId("preview-summary")).toContainText("product probe from 'Product simulant (°C)'");
+  await page.getByRole("button", { name: "Upload and import" }).click();
+  await expect(page.getByTestId("trace-settings")).toContainText("product probe ‘Product simulant (°C)’");
 });
 
 test("a shaped product in a pack with coolant: the preview picks the model and the review charts surface, mean and coolant", async ({ page }) => {
@@ -102,6 +119,7 @@ test("a shaped product in a pack with coolant: the preview picks the model and t
 
   await page.goto("/traces");
   await page.getByLabel("Logger file (CSV)").setInputFiles(path.join(DEMO, "route7-tote3.csv"));
+  await expect(page.getByTestId("preview")).toBeVisible();
   await page.getByRole("button", { name: "Upload and import" }).click();
   await expect(page.getByTestId("trace-samples")).toHaveText("361");
 
@@ -127,6 +145,7 @@ test("sign off a review, open its printable report, export the findings, and cor
   // Inputs: the demo trace, a bare product and a template limit set.
   await page.goto("/traces");
   await page.getByLabel("Logger file (CSV)").setInputFiles(path.join(DEMO, "route7-tote3.csv"));
+  await expect(page.getByTestId("preview")).toBeVisible();
   await page.getByRole("button", { name: "Upload and import" }).click();
   await expect(page.getByTestId("trace-samples")).toHaveText("361");
   await page.goto("/products");

@@ -69,9 +69,10 @@ export function ReviewChart({ review, series }: { review: StoredReview; series: 
               ]
             : []),
           ...(review.coolant_C ? [{ label: "Coolant / inner air", color: "#7a4fa3", values: Array.from(review.coolant_C), dashed: true }] : []),
+          ...(series.probe_C ? [{ label: "Product probe (measured)", color: "#b8860b", values: Array.from(series.probe_C) }] : []),
         ]}
         thresholds={thresholds}
-        gaps={findGaps(series).map((g) => [g.start_s * 1000, g.end_s * 1000])}
+        gaps={findGaps(series, (review.trace.importSettings as { gapMultiple?: number } | null)?.gapMultiple).map((g) => [g.start_s * 1000, g.end_s * 1000])}
       />
     </section>
   );

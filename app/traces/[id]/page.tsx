@@ -12,7 +12,7 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
   const trace = await getTrace(id);
   if (!trace) notFound();
   const { meta, series } = trace;
-  const gaps = findGaps(series);
+  const gaps = findGaps(series, meta.importSettings.gapMultiple);
   const s = meta.importSettings;
   return (
     <>
@@ -25,7 +25,12 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
           <dt>From – to (UTC)</dt><dd>{meta.startAt.toISOString()} – {meta.endAt.toISOString()}</dd>
           <dt>Median interval</dt><dd>{readableDuration(medianInterval_s(series.t_s))}</dd>
           <dt>Import settings</dt>
-          <dd>header on row {s.headerRow}; delimiter {JSON.stringify(s.delimiter)}; time column ‘{s.timeColumn}’ read in {s.timeZone}; air column ‘{s.airColumn}’ in {s.unit === "K" ? "K" : `°${s.unit}`}</dd>
+          <dd data-testid="trace-settings">
+            {s.encoding}; header on row {s.headerRow}; delimiter {JSON.stringify(s.delimiter)}; decimal {JSON.stringify(s.decimal)}; time {s.dateColumn ? `‘${s.dateColumn}’ + ` : ""}‘{s.timeColumn}’ ({s.timeFormat}
+            {s.timeFormat === "datetime" ? `, ${s.dateOrder}, ${s.timeZone}` : s.startTime ? `, from ${s.startTime}` : ""}); air ‘{s.airColumn}’ in {s.airUnit === "K" ? "K" : `°${s.airUnit}`}
+            {s.productColumn ? `; product probe ‘${s.productColumn}’` : ""}; gaps over {s.gapMultiple} median intervals; plausible {s.plausibleMin_C} to {s.plausibleMax_C} °C
+            {s.missing.length ? `; “no reading” codes ${s.missing.join(", ")}` : ""}
+          </dd>
           <dt>Gaps</dt><dd>{gaps.length === 0 ? "none" : `${gaps.length} (bridged linearly by the models)`}</dd>
         </dl>
         {meta.warnings.length > 0 && (
@@ -40,7 +45,10 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
         <TemperatureChart
           title={`Air temperature, ${meta.name}`}
           times_ms={Array.from(series.t_s, (t) => t * 1000)}
-          lines={[{ label: "Air", color: "var(--air)", values: Array.from(series.air_C) }]}
+          lines={[
+            { label: "Air", color: "var(--air)", values: Array.from(series.air_C) },
+            ...(series.probe_C ? [{ label: "Product probe", color: "#2b8a7e", values: Array.from(series.probe_C) }] : []),
+          ]}
           gaps={gaps.map((g) => [g.start_s * 1000, g.end_s * 1000])}
         />
       </section>
