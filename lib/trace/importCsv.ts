@@ -27,6 +27,7 @@ export interface TraceImport {
 
 type Delimiter = (typeof DELIMITERS)[number];
 const MAX_LISTED = 5;
+const PLAIN_READING = /^-?\d{1,4}\.\d{1,6}$/;
 const HEAD_BYTES = 1 << 20;
 const TIME_HEADER = /time|date|stamp|zeit|heure|hora|datum|elapsed|epoch|unix/i;
 const PRODUCT_HEADER = /product|probe|core|simulant|food|sample|item/i;
@@ -334,7 +335,15 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
       const ch = cols[c]!;
       const cell = row[ch.idx]!;
       let v = Number.NaN;
-      if (!isMissingToken(cell, extraMissing)) {
+      const quick = s.decimal === "." && !extraMissing.size && PLAIN_READING.test(cell) ? +cell : Number.NaN;
+      if (quick === quick) {
+        // the common plain cell ("4.25"): no missing-code, suffix or separator handling needed
+        v = toCelsius(quick, ch.unit);
+        if (v < s.plausibleMin_C || v > s.plausibleMax_C) {
+          implausible.push(rowNo);
+          v = Number.NaN;
+        }
+      } else if (!isMissingToken(cell, extraMissing)) {
         const r = parseReading(cell, s.decimal);
         if (!Number.isFinite(r.value)) fail(`row ${rowNo}, column '${ch.name}': '${show(cell)}' is not a number`, rowNo, ch.name);
         if (r.suffix) {

@@ -20,7 +20,9 @@ const YMD_SLASH = /^(\d{4})[/.](\d{1,2})[/.](\d{1,2})(?:[ T,]+(\d{1,2}):(\d{2})(
 const DMY_OR_MDY = /^(\d{1,2})[/.-](\d{1,2})[/.-](\d{4})(?:[ T,]+(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?\s*([AaPp][Mm])?)?$/;
 const TIME_ONLY = /^(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?\s*([AaPp][Mm])?$/;
 
-const daysIn = (y: number, m: number) => new Date(Date.UTC(y, m, 0)).getUTCDate();
+const MONTH_DAYS = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+/** Days in month m (1–12) of year y, Gregorian leap years. */
+const daysIn = (y: number, m: number) => (m === 2 && ((y % 4 === 0 && y % 100 !== 0) || y % 400 === 0) ? 29 : MONTH_DAYS[m - 1]!);
 const frac = (s: string | undefined) => (s ? Math.round(Number(`0.${s}`) * 1000) : 0);
 
 function hour12(h: number, ampm: string | undefined): number {
@@ -59,18 +61,20 @@ const isDigit = (s: string, i: number) => {
   return c >= 48 && c <= 57;
 };
 
+const ISO_DIGITS = [0, 1, 2, 3, 5, 6, 8, 9, 11, 12, 14, 15, 17, 18] as const;
+
 /** Fast path for the most common logger layout, "YYYY-MM-DDTHH:MM:SS" with optional ".fff" and "Z" (or space for T). */
 function fastIso(s: string): WallClock | null {
   const n = s.length;
   if (n < 19 || s[4] !== "-" || s[7] !== "-" || (s[10] !== "T" && s[10] !== " ") || s[13] !== ":" || s[16] !== ":") return null;
-  for (const i of [0, 1, 2, 3, 5, 6, 8, 9, 11, 12, 14, 15, 17, 18]) if (!isDigit(s, i)) return null;
+  for (const i of ISO_DIGITS) if (!isDigit(s, i)) return null;
   let ms = 0;
   let i = 19;
   if (s[i] === ".") {
     let j = i + 1;
     while (j < n && isDigit(s, j)) j++;
     if (j === i + 1) return null;
-    ms = Math.round(Number(`0${s.slice(i, j)}`) * 1000);
+    ms = Math.round(+s.slice(i, j) * 1000); // ".123" reads as 0.123
     i = j;
   }
   const utc = i === n - 1 && s[i] === "Z";

@@ -76,3 +76,30 @@ describe("importCsv", () => {
     expect(() => importCsv(Uint8Array.from([0x50, 0x4b, 0x03, 0x04, 0x14, 0x00, 0x06, 0x00]))).toThrow(/not text/);
   });
 });
+
+describe("parseReading and ZoneResolver", () => {
+  it("parseReading takes a decimal comma, thousands separators in groups of three, and a unit suffix", async () => {
+    const { parseReading } = await import("@/lib/trace/values");
+    expect(parseReading("3,25", ",")).toEqual({ value: 3.25 });
+    expect(parseReading("1.234,5", ",")).toEqual({ value: 1234.5 });
+    expect(parseReading("1,234.5", ".")).toEqual({ value: 1234.5 });
+    expect(parseReading("-4.5 °C", ".")).toEqual({ value: -4.5, suffix: "C" });
+    expect(parseReading("1,23.5", ".").value).toBeNaN(); // not a group of three
+    expect(parseReading("12,4,1", ",").value).toBeNaN();
+  });
+
+  it("ZoneResolver places the repeated autumn hour by order and counts it (Europe/Berlin, 25 October 2026)", async () => {
+    const { ZoneResolver, parseWallClock } = await import("@/lib/trace/timestamps");
+    const z = new ZoneResolver("Europe/Berlin");
+    // 02:30 occurs twice: first at 00:30 UTC (CEST, UTC+2), then at 01:30 UTC (CET, UTC+1)
+    const first = z.toEpochMs(parseWallClock("2026-10-25 02:30", "ymd")!, Date.UTC(2026, 9, 25, 0, 15));
+    const second = z.toEpochMs(parseWallClock("2026-10-25 02:30", "ymd")!, first + 1);
+    expect(new Date(first).toISOString()).toBe("2026-10-25T00:30:00.000Z");
+    expect(new Date(second).toISOString()).toBe("2026-10-25T01:30:00.000Z");
+    expect(z.ambiguous).toBe(2);
+    // 02:30 on 29 March 2026 does not exist (clocks jump 02:00 → 03:00); read with the winter offset
+    const skipped = z.toEpochMs(parseWallClock("2026-03-29 02:30", "ymd")!, 0);
+    expect(new Date(skipped).toISOString()).toBe("2026-03-29T01:30:00.000Z");
+    expect(z.skipped).toBe(1);
+  });
+});
