@@ -26,6 +26,8 @@ export interface ReviewOptions {
   model: ModelChoice;
   /** judge only this part of the trace (the model still runs from the first sample), epoch s */
   window?: { start_s: number; end_s: number };
+  /** model uncertainty of the predicted channels, K (e.g. the half-width of a Monte Carlo band); widens their guard band */
+  model_uncertainty_K?: number;
 }
 
 export interface ReviewInput {
@@ -115,15 +117,15 @@ export function runReview(input: ReviewInput): ReviewComputation {
   const [a, b] = win ? [win.start_s, win.end_s] : [t0, t1];
   const cut = (v: Float64Array) => (win ? clip(series.t_s, v, a, b) : { t_s: series.t_s, v });
   const inWindow = (spans: Span[]) => spans.filter(([s0, s1]) => s1 > a && s0 < b);
-  const channel = (v: Float64Array, spans: Span[]): ChannelSeries => {
+  const channel = (v: Float64Array, spans: Span[], modelled: boolean): ChannelSeries => {
     const c = cut(v);
-    return { t_s: c.t_s, value_C: c.v, uncertainSpans: inWindow(spans), modelUncertainty_K: 0 };
+    return { t_s: c.t_s, value_C: c.v, uncertainSpans: inWindow(spans), modelUncertainty_K: modelled ? (options.model_uncertainty_K ?? 0) : 0 };
   };
   const channels: Record<string, ChannelSeries> & { air: ChannelSeries; core: ChannelSeries } = {
-    air: channel(air, airSpans),
-    core: channel(pred.core, modelSpans),
-    surface: channel(pred.surface, modelSpans),
-    mean: channel(pred.mean, modelSpans),
+    air: channel(air, airSpans, false),
+    core: channel(pred.core, modelSpans, true),
+    surface: channel(pred.surface, modelSpans, true),
+    mean: channel(pred.mean, modelSpans, true),
   };
   if (series.probe_C && series.probe_C.some((v) => !Number.isNaN(v))) {
     // the probe is measured: its own gaps (including missing ends) are its uncertain spans
@@ -136,7 +138,7 @@ export function runReview(input: ReviewInput): ReviewComputation {
     for (let i = last + 1; i < filled.length; i++) filled[i] = series.probe_C[last]!;
     if (first > 0) probeSpans.push([series.t_s[0]!, series.t_s[first]!]);
     if (last < filled.length - 1) probeSpans.push([series.t_s[last]!, series.t_s[filled.length - 1]!]);
-    channels.probe = channel(bridgeGaps(series, filled), probeSpans);
+    channels.probe = channel(bridgeGaps(series, filled), probeSpans, false);
   }
   const findings = evaluateLimitSet(limits, channels);
 

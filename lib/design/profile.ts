@@ -1,0 +1,108 @@
+import { z } from "zod";
+import type { TraceSeries } from "../trace/series";
+
+const minutes = z.number({ error: "duration must be a number of minutes" }).finite().positive({ message: "duration must be greater than zero" }).max(60 * 24 * 60);
+const celsius = z.number({ error: "must be a temperature in °C" }).finite().min(-60).max(80);
+
+export type Segment =
+  | { kind: "hold"; C: number; duration_min: number }
+  | { kind: "ramp"; to_C: number; duration_min: number }
+  | { kind: "repeat"; count: number; segments: Segment[] };
+
+export const segmentSchema: z.ZodType<Segment> = z.lazy(() =>
+  z.discriminatedUnion("kind", [
+    z.object({ kind: z.literal("hold"), C: celsius, duration_min: minutes }),
+    z.object({ kind: z.literal("ramp"), to_C: celsius, duration_min: minutes }),
+    z.object({ kind: z.literal("repeat"), count: z.number().int().min(1).max(1000), segments: z.array(segmentSchema).min(1) }),
+  ]),
+);
+
+/**
+ * A design ambient profile built from segments: hold at a temperature, ramp to one, or repeat a
+ * block. Sampled every interval_s from start. A hold jumps to its temperature at its start.
+ */
+export const profileSchema = z.object({
+  name: z.string().trim().min(1).max(120),
+  start: z.iso.datetime({ offset: true }).default("2026-07-01T00:00:00Z"),
+  interval_s: z.number().int().min(10).max(3600).default(60),
+  initial_C: celsius,
+  segments: z.array(segmentSchema).min(1, { message: "a profile needs at least one segment" }),
+});
+export type Profile = z.infer<typeof profileSchema>;
+
+const MAX_SAMPLES = 2_000_000;
+
+/** The profile as a trace: piecewise-linear air temperature at the profile's sampling interval. */
+export function profileSeries(p: Profile): TraceSeries {
+  // Break points (time from start in s, temperature), then sampled.
+  const pts: Array<[number, number]> = [[0, p.initial_C]];
+  let t = 0;
+  let cur = p.initial_C;
+  const walk = (segs: Segment[]) => {
+    for (const s of segs) {
+      if (s.kind === "repeat") {
+        for (let i = 0; i < s.count; i++) walk(s.segments);
+      } else if (s.kind === "hold") {
+        if (s.C !== cur) pts.push([t, s.C]); // a step: two points at one time
+        cur = s.C;
+        t += s.duration_min * 60;
+        pts.push([t, cur]);
+      } else {
+        t += s.duration_min * 60;
+        cur = s.to_C;
+        pts.push([t, cur]);
+      }
+      if (t / p.interval_s > MAX_SAMPLES) throw new Error(`the profile is longer than ${MAX_SAMPLES.toLocaleString("en")} samples`);
+    }
+  };
+  walk(p.segments);
+  const start_s = Date.parse(p.start) / 1000;
+  const n = Math.floor(t / p.interval_s) + 1;
+  const t_s = new Float64Array(n);
+  const air = new Float64Array(n);
+  let k = 0;
+  for (let i = 0; i < n; i++) {
+    const ti = i * p.interval_s;
+    // the last break point at or before ti, taking the later of two points at the same time (a step)
+    while (k + 1 < pts.length && pts[k + 1]![0] <= ti) k++;
+    const [t0, v0] = pts[k]!;
+    const next = pts[k + 1];
+    air[i] = next && next[0] > t0 ? v0 + ((next[1] - v0) * (ti - t0)) / (next[0] - t0) : v0;
+    t_s[i] = start_s + ti;
+  }
+  return { t_s, air_C: air };
+}
+
+/** Example profiles of our own (not standards): a hot-weather and a cold-weather route for a chilled tote. */
+export const EXAMPLE_PROFILES: readonly Profile[] = [
+  {
+    name: "Example: summer multi-drop route, 2 days",
+    start: "2026-07-01T04:00:00Z",
+    interval_s: 60,
+    initial_C: 4,
+    segments: [
+      { kind: "repeat", count: 2, segments: [
+        { kind: "hold", C: 4, duration_min: 120 },
+        { kind: "ramp", to_C: 28, duration_min: 20 },
+        { kind: "hold", C: 28, duration_min: 90 },
+        { kind: "ramp", to_C: 6, duration_min: 30 },
+        { kind: "repeat", count: 4, segments: [{ kind: "hold", C: 5, duration_min: 75 }, { kind: "hold", C: 18, duration_min: 10 }] },
+        { kind: "hold", C: 4, duration_min: 540 },
+      ] },
+    ],
+  },
+  {
+    name: "Example: winter route with a cold dock, 1 day",
+    start: "2026-01-15T05:00:00Z",
+    interval_s: 60,
+    initial_C: 3,
+    segments: [
+      { kind: "hold", C: 3, duration_min: 90 },
+      { kind: "ramp", to_C: -8, duration_min: 15 },
+      { kind: "hold", C: -8, duration_min: 120 },
+      { kind: "ramp", to_C: 3, duration_min: 30 },
+      { kind: "repeat", count: 3, segments: [{ kind: "hold", C: 3, duration_min: 120 }, { kind: "hold", C: -2, duration_min: 15 }] },
+      { kind: "hold", C: 3, duration_min: 720 },
+    ],
+  },
+];

@@ -1,0 +1,89 @@
+import type { TraceSeries } from "../trace/series";
+import type { ModelChoice, Pack, Product } from "../thermal/definitions";
+import type { LimitSet } from "../exposure/limits";
+import { runReview } from "../review/runReview";
+import { describeVariable, largerIsBetter, precisionOf, withValue, type DesignVariable } from "./vary";
+
+export interface SizingInput {
+  series: TraceSeries;
+  product: Product;
+  pack?: Pack;
+  limits: LimitSet;
+  variable: DesignVariable;
+  min: number;
+  max: number;
+  model?: ModelChoice;
+  /** points on the metric curve, evenly spaced from min to max */
+  curvePoints?: number;
+  onProgress?: (fraction: number) => void;
+}
+
+export interface SizingResult {
+  variable: string;
+  /** the boundary value: the smallest feasible thickness or coolant mass, or the warmest feasible initial temperature */
+  value: number | null;
+  feasible: boolean;
+  /** peak predicted core temperature at the value, °C (lowest, for a limit set of "below" rules only) */
+  metric_at_value: number | null;
+  metric: string;
+  curve: Array<{ x: number; metric: number; feasible: boolean }>;
+  core_at_value: Float64Array | null;
+  precision: number;
+  reason: string;
+  runs: number;
+}
+
+/**
+ * Finds the boundary of the feasible range of one design variable by bisection, which relies on the
+ * outcome being monotone in the variable (more insulation or coolant never warms the product; a colder
+ * start never does either). Reports when no value in [min, max] is feasible.
+ */
+export function size(input: SizingInput): SizingResult {
+  const { series, limits, variable, min, max } = input;
+  if (!(max > min)) throw new RangeError("max must be greater than min");
+  const below = limits.rules.every((r) => r.below_C !== undefined);
+  const metricName = below ? "lowest core temperature, °C" : "peak core temperature, °C";
+  const precision = precisionOf(variable);
+  let runs = 0;
+  const evaluate = (x: number) => {
+    runs++;
+    const d = withValue(input.product, input.pack, variable, x);
+    const comp = runReview({ series, product: d.product, pack: d.pack, limits, options: { model: input.model ?? "auto" } });
+    let m = below ? Infinity : -Infinity;
+    for (const v of comp.core_C) m = below ? Math.min(m, v) : Math.max(m, v);
+    return { feasible: comp.result.rules.every((r) => r.status === "pass"), metric: m, core: comp.core_C };
+  };
+  const points = input.curvePoints ?? 21;
+  const curve: SizingResult["curve"] = [];
+  for (let i = 0; i < points; i++) {
+    const x = min + ((max - min) * i) / (points - 1);
+    const e = evaluate(x);
+    curve.push({ x, metric: e.metric, feasible: e.feasible });
+    input.onProgress?.((i + 1) / (points + 20));
+  }
+  const up = largerIsBetter(variable);
+  const good = up ? max : min;
+  const bad = up ? min : max;
+  const atGood = evaluate(good);
+  const atBad = evaluate(bad);
+  const name = describeVariable(variable);
+  const result = (value: number | null, e: ReturnType<typeof evaluate> | null, reason: string): SizingResult => ({
+    variable: name, value, feasible: value !== null, metric_at_value: e ? e.metric : null, metric: metricName, curve, core_at_value: e ? e.core : null, precision, reason, runs,
+  });
+  if (!atGood.feasible) return result(null, null, `no value of ${name} between ${min} and ${max} passes every rule`);
+  if (atBad.feasible) return result(bad, atBad, `every value in the range passes; ${bad} is the ${up ? "smallest" : "largest"}`);
+  // feasible at `good`, not at `bad`: bisect to within the precision, keeping the feasible side
+  let f = good, g = bad;
+  let fe = atGood;
+  while (Math.abs(f - g) > precision) {
+    const mid = (f + g) / 2;
+    const e = evaluate(mid);
+    if (e.feasible) {
+      f = mid;
+      fe = e;
+    } else g = mid;
+    input.onProgress?.(Math.min(0.99, (points + runs - points) / (points + 20)));
+  }
+  input.onProgress?.(1);
+  return result(f, fe, `${up ? "smallest" : "largest"} feasible value, to within ${precision}`);
+}
