@@ -6,6 +6,7 @@ import { predict } from "../lib/thermal/predict";
 import type { Product } from "../lib/thermal/definitions";
 import { centreTheta } from "../tests/helpers/series";
 import { benchImport } from "./import";
+import { benchDesign } from "./design";
 
 function mulberry32(seed: number): () => number {
   let a = seed >>> 0;
@@ -83,3 +84,4 @@ benchImport();
 benchLumped();
 benchTimeBeyond();
 benchSphere();
+benchDesign();

@@ -3,6 +3,8 @@
 // five-drop regional route; at the third drop the tote waits on a warm loading dock for an hour.
 import { writeFileSync, mkdirSync } from "node:fs";
 import path from "node:path";
+import { lumpedResponse } from "../lib/thermal/lumped";
+import { EXAMPLE_PROFILES } from "../lib/design/profile";
 
 /** mulberry32: a small seeded generator, so the demo noise is the same on every machine. */
 function mulberry32(seed: number): () => number {
@@ -76,6 +78,38 @@ function main(): void {
     ],
   };
   writeFileSync(path.join(OUT, "ready-meal.limits.json"), JSON.stringify(limits, null, 2) + "\n");
+
+  // A test shipment with a product simulant probe beside the air probe, for calibration: the simulant
+  // follows a lumped body with tau = 2.5 h (invented), read to 0.1 K like a logger.
+  const probeRand = mulberry32(42);
+  const tTest = Float64Array.from({ length: 16 * 30 + 1 }, (_, i) => i * 120);
+  const airTest = Float64Array.from(tTest, (t) => airAt((t / 60) % (HOURS * 60)) + (probeRand() - 0.5) * 0.3);
+  const simulant = lumpedResponse(tTest, airTest, 3.2, 2.5 * 3600);
+  const probeLines = ["Logger serial: HX-20988 (two probes)", "Time,Air (°C),Product simulant (°C)"];
+  tTest.forEach((t, i) => probeLines.push(`${new Date(START_UTC_MS + t * 1000).toISOString().slice(0, 19)}Z,${airTest[i]!.toFixed(1)},${simulant[i]!.toFixed(1)}`));
+  writeFileSync(path.join(OUT, "probe-test.csv"), probeLines.join("\n") + "\n");
+
+  const pack = {
+    name: "EPS tote, 25 mm, with one gel pack (share per tray)",
+    h_outside_W_m2K: 8,
+    h_inside_W_m2K: 4,
+    emissivity: 0.9,
+    area_m2: 0.08,
+    layers: [{ name: "EPS wall", thickness_m: 0.025, k_W_mK: 0.035 }],
+    coolants: [{ name: "gel pack", mass_kg: 0.15, melt_C: 0, latent_J_kg: 330000, cp_solid_J_kgK: 2000, cp_liquid_J_kgK: 3800, initial_C: -12 }],
+  };
+  writeFileSync(path.join(OUT, "tote.pack.json"), JSON.stringify(pack, null, 2) + "\n");
+  const shaped = {
+    name: "Ready meal tray 450 g (shaped)",
+    shape: { kind: "box", x_m: 0.17, y_m: 0.12, z_m: 0.03 },
+    mass_kg: 0.45,
+    composition: { water: 0.72, protein: 0.08, fat: 0.06, carbohydrate: 0.12, fiber: 0.01, ash: 0.01 },
+    initial_C: 3.2,
+  };
+  writeFileSync(path.join(OUT, "ready-meal-shaped.product.json"), JSON.stringify(shaped, null, 2) + "\n");
+  for (const [i, p] of EXAMPLE_PROFILES.entries()) {
+    writeFileSync(path.join(OUT, i === 0 ? "summer-route.profile.json" : "winter-route.profile.json"), JSON.stringify(p, null, 2) + "\n");
+  }
 }
 
 main();

@@ -10,6 +10,11 @@ import { limitSetSchema } from "../exposure/limits";
 import { runReview, unsupportedRule } from "../review";
 import { CAUTIONS } from "../review/cautions";
 import { csvRow } from "../review/csv";
+import { calibrateLumped } from "../design/calibrate";
+import { profileSchema, profileSeries } from "../design/profile";
+import { parseVariable } from "../design/vary";
+import { size } from "../design/sizing";
+import { monteCarlo, uncertaintySpecSchema, type UncertaintyResult } from "../design/uncertainty";
 
 class CliError extends Error {}
 
@@ -19,7 +24,10 @@ const USAGE = `usage:
                       [--decimal .|,] [--delimiter ,|;|tab||] [--missing CODE,CODE] [--plausible-min C] [--plausible-max C] [--gap-multiple N] [--format json]
   corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction] [--out FILE.csv] [import options] [--format json]
   corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction] [--window START/END] [import options] [--format json]
-  corelag verify [--review ID]          (checks the audit chain and re-runs stored reviews; uses DATABASE_URL)`;
+  corelag calibrate --trace FILE [--air-col NAME] [--product-col NAME] [--product P.json] [--pack K.json] [--fit-initial] [--fit-offset] [--mismatch-factor F] [import options] --format json
+  corelag size --profile FILE(.csv|.json) --product P.json --pack K.json --limits L.json --vary layer:N:thickness_m|coolant:N:mass_kg|product:initial_C --min X --max Y [--model M] --format json
+  corelag verify [--review ID]          (checks the audit chain and re-runs stored reviews; uses DATABASE_URL)
+  review also takes --uncertainty U.json (Monte Carlo: inputs, samples, seed, use_in_guard_band)`;
 
 const IMPORT_FLAGS = {
   "time-col": { type: "string" },
@@ -196,7 +204,7 @@ function predictCommand(argv: string[]): unknown {
 function reviewCommand(argv: string[]): unknown {
   const { values } = parseArgs({
     args: argv,
-    options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, limits: { type: "string" }, model: { type: "string" }, window: { type: "string" } },
+    options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, limits: { type: "string" }, model: { type: "string" }, window: { type: "string" }, uncertainty: { type: "string" } },
     strict: true,
   });
   const importOptions = importOptionsFrom(values);
@@ -214,10 +222,97 @@ function reviewCommand(argv: string[]): unknown {
   if (window && (window.start_s < t[0]! || window.end_s > t[t.length - 1]!)) {
     throw new CliError(`--window: ${values.window} is not inside the trace (${iso(t[0]!)}/${iso(t[t.length - 1]!)})`);
   }
-  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model, window }, gapMultiple: imported.settings.gapMultiple });
+  const spec = values.uncertainty ? readJsonFile(values.uncertainty, uncertaintySpecSchema) : undefined;
+  const mc = spec ? monteCarlo(imported.series, product, pack, limits, spec, model) : undefined;
+  const modelUncertainty = mc && spec!.use_in_guard_band ? mc.half_width_K : undefined;
+  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model, window, model_uncertainty_K: modelUncertainty }, gapMultiple: imported.settings.gapMultiple });
   return {
+    ...(mc ? { uncertainty: uncertaintySummary(mc, spec!.use_in_guard_band) } : {}),
     trace: { file: values.trace, sha256: sha256Hex(bytes), samples: imported.series.t_s.length, import_settings: imported.settings, warnings: imported.warnings },
     ...result,
+  };
+}
+
+function uncertaintySummary(mc: UncertaintyResult, used: boolean) {
+  const r = (a: Float64Array) => Array.from(a, (x) => Number(x.toFixed(4)));
+  return { samples: mc.samples, seed: mc.seed, half_width_K: Number(mc.half_width_K.toFixed(4)), used_in_guard_band: used, fail_fraction: mc.fail_fraction, redraws: mc.redraws, band: { p05: r(mc.p05), p50: r(mc.p50), p95: r(mc.p95) } };
+}
+
+function calibrateCommand(argv: string[]): unknown {
+  const { values } = parseArgs({
+    args: argv,
+    options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, "fit-initial": { type: "boolean" }, "fit-offset": { type: "boolean" }, "mismatch-factor": { type: "string" } },
+    strict: true,
+  });
+  const importOptions = importOptionsFrom(values);
+  if (!values.trace) throw new CliError(`--trace is required\n${USAGE}`);
+  const factor = values["mismatch-factor"] === undefined ? 2 : Number(values["mismatch-factor"]);
+  if (!(factor > 1)) throw new CliError("--mismatch-factor: must be a number greater than 1");
+  const product = values.product ? readJsonFile(values.product, productSchema) : undefined;
+  const pack = values.pack ? readJsonFile(values.pack, packSchema) : undefined;
+  if (pack && !product) throw new CliError("--pack: give the --product too");
+  if (product && !pack && product.h_W_m2K === undefined) throw new CliError(`${values.product}: field 'h_W_m2K': give the product's surface coefficient, or a --pack`);
+  const { imported } = importTrace(values.trace, importOptions);
+  const probe = imported.series.probe_C;
+  if (!probe) throw new CliError(`${values.trace}: no product-probe column was found; name it with --product-col`);
+  let r;
+  try {
+    r = calibrateLumped(imported.series.t_s, bridgeGaps(imported.series), probe, { fitInitial: values["fit-initial"] ?? false, fitOffset: values["fit-offset"] ?? false, mismatchFactor: factor }, product ? { product, pack } : undefined);
+  } catch (e) {
+    throw new CliError(`${values.trace}: ${(e as Error).message}`);
+  }
+  return {
+    tau_s: r.tau_s,
+    tau_ci95_s: r.tau_ci95_s,
+    ...(r.offset_K !== undefined ? { offset_K: r.offset_K, offset_ci95_K: r.offset_ci95_K } : {}),
+    initial_C: r.initial_C,
+    ...(r.initial_ci95_C ? { initial_ci95_C: r.initial_ci95_C } : {}),
+    rmse_K: r.rmse_K,
+    samples: r.samples,
+    residual_lag1: r.residual_lag1,
+    ...(r.r_total_K_W !== undefined ? { r_total_K_W: r.r_total_K_W, h_eff_W_m2K: r.h_eff_W_m2K, r_total_from_definition_K_W: r.r_total_from_definition_K_W } : {}),
+    warnings: [...imported.warnings, ...r.warnings],
+  };
+}
+
+function sizeCommand(argv: string[]): unknown {
+  const { values } = parseArgs({
+    args: argv,
+    options: { ...IMPORT_FLAGS, profile: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, limits: { type: "string" }, vary: { type: "string" }, min: { type: "string" }, max: { type: "string" }, model: { type: "string" } },
+    strict: true,
+  });
+  const importOptions = importOptionsFrom(values);
+  for (const k of ["profile", "product", "limits", "vary", "min", "max"] as const) if (values[k] === undefined) throw new CliError(`--${k} is required\n${USAGE}`);
+  const variable = parseVariable(values.vary!);
+  if (!variable) throw new CliError(`--vary: '${values.vary}' is not layer:N:thickness_m, coolant:N:mass_kg or product:initial_C (N counts from 1)`);
+  const min = Number(values.min), max = Number(values.max);
+  if (!Number.isFinite(min)) throw new CliError(`--min: '${values.min}' is not a number`);
+  if (!Number.isFinite(max) || !(max > min)) throw new CliError(`--max: must be a number greater than --min`);
+  const product = readJsonFile(values.product!, productSchema);
+  const pack = values.pack ? readJsonFile(values.pack, packSchema) : undefined;
+  const limits = readJsonFile(values.limits!, limitSetSchema);
+  const model = modelChoiceSchema.safeParse(values.model ?? "auto");
+  if (!model.success) throw new CliError(`--model: ${model.error.issues[0]!.message}`);
+  const bad = unsupportedRule(limits);
+  if (bad) throw new CliError(`${values.limits}: field 'rules.${bad.index}.channel': '${bad.channel}' is not available in a design study`);
+  const profileFile = values.profile!;
+  const series = /\.json$/i.test(profileFile) ? profileSeries(readJsonFile(profileFile, profileSchema)) : importTrace(profileFile, importOptions).imported.series;
+  let r;
+  try {
+    r = size({ series, product, pack, limits, variable, min, max, model: model.data });
+  } catch (e) {
+    throw new CliError(`--vary: ${(e as Error).message}`);
+  }
+  return {
+    variable: r.variable,
+    value: r.value,
+    feasible: r.feasible,
+    metric_at_value: r.metric_at_value,
+    metric: r.metric,
+    precision: r.precision,
+    reason: r.reason,
+    curve: r.curve.map((c) => ({ x: c.x, metric: c.metric, feasible: c.feasible })),
+    cautions: CAUTIONS,
   };
 }
 
@@ -247,7 +342,13 @@ async function verifyCommand(argv: string[]): Promise<{ output: unknown; ok: boo
   return { output: { ok, chain, reviews }, ok };
 }
 
-const COMMANDS: Record<string, (argv: string[]) => unknown> = { import: importCommand, predict: predictCommand, review: reviewCommand };
+const COMMANDS: Record<string, (argv: string[]) => unknown> = {
+  import: importCommand,
+  predict: predictCommand,
+  review: reviewCommand,
+  calibrate: calibrateCommand,
+  size: sizeCommand,
+};
 
 async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;

@@ -89,7 +89,7 @@ export function evaluateRule(rule: Rule, ch: ChannelSeries, sensorAccuracy_K: nu
   const strictExceeds = exceeded(rule, strict, dir, u);
 
   // Lenient measure on measured data only: each part outside the bridged spans on its own.
-  const parts = partsOutside(ch.t_s, ch.value_C, ch.uncertainSpans);
+  const parts = ch.uncertainSpans.length === 0 ? [{ t_s: ch.t_s, v: ch.value_C }] : partsOutside(ch.t_s, ch.value_C, ch.uncertainSpans);
   const lenient: Measure = { cumulative_s: 0, longest_s: 0, extreme_C: dir === "above" ? -Infinity : Infinity };
   for (const p of parts) {
     const m = measure(p.t_s, p.v, threshold_C - against, dir);

@@ -107,3 +107,40 @@ describe("corelag predict and import (CLI)", () => {
     });
   });
 });
+
+describe("corelag calibrate and size (CLI)", () => {
+  it("calibrate fits tau to the demo probe test (simulant made with tau = 2.5 h)", () => {
+    const r = corelag("calibrate", "--trace", path.join(DEMO, "probe-test.csv"), "--product", path.join(DEMO, "ready-meal.product.json"), "--format", "json");
+    expect(r.stderr).toBe("");
+    const out = JSON.parse(r.stdout);
+    expect(Object.keys(out)).toEqual(expect.arrayContaining(["tau_s", "tau_ci95_s", "rmse_K", "samples", "r_total_K_W", "h_eff_W_m2K", "warnings"]));
+    // readings rounded to 0.1 K move the estimate by well under 1 %
+    expect(Math.abs(out.tau_s / 9000 - 1)).toBeLessThan(0.01);
+    expect(out.samples).toBe(481);
+  });
+
+  it("calibrate refuses a trace without a product-probe channel", () => {
+    const r = corelag("calibrate", "--trace", path.join(DEMO, "route7-tote3.csv"));
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/no product-probe column was found; name it with --product-col/);
+  });
+
+  it("size prints the boundary value and the metric curve for a JSON profile", () => {
+    const limits = path.join(tmp, "size.limits.json");
+    writeFileSync(limits, JSON.stringify({ name: "chilled", rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] }));
+    const r = corelag("size", "--profile", path.join(DEMO, "summer-route.profile.json"), "--product", path.join(DEMO, "ready-meal-shaped.product.json"), "--pack", path.join(DEMO, "tote.pack.json"), "--limits", limits, "--vary", "layer:1:thickness_m", "--min", "0.005", "--max", "0.1", "--format", "json");
+    expect(r.stderr).toBe("");
+    const out = JSON.parse(r.stdout);
+    expect(out).toMatchObject({ variable: "layer:1:thickness_m", feasible: true });
+    expect(out.curve).toHaveLength(21);
+    expect(out.value).toBeGreaterThan(0.005);
+    // just below the boundary the rule fails: the curve's last infeasible point lies below the value
+    expect(out.curve.filter((c: { feasible: boolean; x: number }) => !c.feasible).every((c: { x: number }) => c.x < out.value)).toBe(true);
+  });
+
+  it("size names a bad --vary", () => {
+    const r = corelag("size", "--profile", "p.json", "--product", "x", "--limits", "y", "--vary", "layer:one", "--min", "0", "--max", "1");
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/--vary: 'layer:one' is not layer:N:thickness_m/);
+  });
+});
