@@ -19,6 +19,7 @@ export default function RootLayout({ children }: { children: React.ReactNode }) 
             <Link href="/products">Products</Link>
             <Link href="/packs">Packs</Link>
             <Link href="/limits">Limit sets</Link>
+            <Link href="/design">Design</Link>
             <Link href="/audit">Audit log</Link>
           </nav>
         </header>

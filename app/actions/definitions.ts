@@ -4,6 +4,7 @@ import { redirect } from "next/navigation";
 import type { z } from "zod";
 import { packSchema, productSchema } from "@/lib/thermal/definitions";
 import { limitSetSchema } from "@/lib/exposure/limits";
+import { profileSchema } from "@/lib/design/profile";
 import { createDefinition, getDefinition, reviseDefinition, type DefinitionKind } from "@/lib/db/definitions";
 import { fieldErrors, formValues, type FormState } from "@/lib/validation";
 
@@ -43,4 +44,8 @@ export async function savePack(_prev: FormState, form: FormData): Promise<FormSt
 
 export async function saveLimitSet(_prev: FormState, form: FormData): Promise<FormState> {
   return save("limits", limitSetSchema, form, "/limits");
+}
+
+export async function saveProfile(_prev: FormState, form: FormData): Promise<FormState> {
+  return save("profile", profileSchema, form, "/design/profiles");
 }

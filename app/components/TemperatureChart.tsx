@@ -24,13 +24,15 @@ interface Props {
   gaps?: Array<[number, number]>;
   height?: number;
   title: string;
+  /** axis unit label */
+  unit?: string;
 }
 
 const WIDTH = 960;
 const M = { top: 12, right: 110, bottom: 32, left: 48 };
 
 /** Temperature against time for one or more channels, with threshold lines and a hover readout (UTC). */
-export function TemperatureChart({ times_ms, lines, thresholds = [], gaps = [], height = 340, title }: Props) {
+export function TemperatureChart({ times_ms, lines, thresholds = [], gaps = [], height = 340, title, unit = "°C" }: Props) {
   const [hover, setHover] = useState<number | null>(null);
   const { x, y, paths, xTicks, yTicks } = useMemo(() => {
     const x = d3.scaleUtc().domain(d3.extent(times_ms) as [number, number]).range([M.left, WIDTH - M.right]);
@@ -80,7 +82,7 @@ export function TemperatureChart({ times_ms, lines, thresholds = [], gaps = [], 
             {fmtTick(t)}
           </text>
         ))}
-        <text x={14} y={M.top + (height - M.top - M.bottom) / 2} transform={`rotate(-90 14 ${M.top + (height - M.top - M.bottom) / 2})`} textAnchor="middle" fontSize={11} fill="#5b6575">°C</text>
+        <text x={14} y={M.top + (height - M.top - M.bottom) / 2} transform={`rotate(-90 14 ${M.top + (height - M.top - M.bottom) / 2})`} textAnchor="middle" fontSize={11} fill="#5b6575">{unit}</text>
         <line x1={M.left} x2={WIDTH - M.right} y1={height - M.bottom} y2={height - M.bottom} stroke="#aab3bf" />
         {thresholds.map((t) => (
           <g key={`th${t.label}`} data-testid="limit-line">
@@ -106,7 +108,7 @@ export function TemperatureChart({ times_ms, lines, thresholds = [], gaps = [], 
           <span key={l.label}>
             <span className="swatch" style={{ background: l.color }} />
             {l.label}
-            {hover !== null && Number.isFinite(l.values[hover]) ? `: ${l.values[hover]!.toFixed(2)} °C` : ""}
+            {hover !== null && Number.isFinite(l.values[hover]) ? `: ${l.values[hover]!.toFixed(2)} ${unit}` : ""}
           </span>
         ))}
         <span className="muted">{hover !== null ? fmtHover(new Date(times_ms[hover]!)) : "times in UTC; hover for values"}</span>

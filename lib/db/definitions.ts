@@ -4,7 +4,7 @@ import { appendAudit } from "./audit";
 import { canonicalJson } from "../review/canonical";
 import { sha256Hex } from "../trace/hash";
 
-export type DefinitionKind = "product" | "pack" | "limits";
+export type DefinitionKind = "product" | "pack" | "limits" | "profile";
 
 export interface StoredDefinition<T = unknown> {
   id: string;

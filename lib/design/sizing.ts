@@ -34,9 +34,12 @@ export interface SizingResult {
 }
 
 /**
- * Finds the boundary of the feasible range of one design variable by bisection, which relies on the
- * outcome being monotone in the variable (more insulation or coolant never warms the product; a colder
- * start never does either). Reports when no value in [min, max] is feasible.
+ * Finds the boundary of the feasible range of one design variable: the metric curve brackets it, then
+ * bisection narrows it to the stated precision. This relies on feasibility being monotone in the
+ * variable (more insulation or coolant never warms the product's peak; a colder start never does
+ * either). Some rules are not monotone (a longest-continuous-time rule can pass with a thin wall and
+ * fail with a thicker one); the curve reveals that, and the result says so. Reports when no value in
+ * [min, max] is feasible.
  */
 export function size(input: SizingInput): SizingResult {
   const { series, limits, variable, min, max } = input;
@@ -62,19 +65,28 @@ export function size(input: SizingInput): SizingResult {
     input.onProgress?.((i + 1) / (points + 20));
   }
   const up = largerIsBetter(variable);
-  const good = up ? max : min;
-  const bad = up ? min : max;
-  const atGood = evaluate(good);
-  const atBad = evaluate(bad);
   const name = describeVariable(variable);
+  const warnings: string[] = [];
   const result = (value: number | null, e: ReturnType<typeof evaluate> | null, reason: string): SizingResult => ({
-    variable: name, value, feasible: value !== null, metric_at_value: e ? e.metric : null, metric: metricName, curve, core_at_value: e ? e.core : null, precision, reason, runs,
+    variable: name, value, feasible: value !== null, metric_at_value: e ? e.metric : null, metric: metricName, curve, core_at_value: e ? e.core : null, precision, reason: [reason, ...warnings].join("; "), runs,
   });
-  if (!atGood.feasible) return result(null, null, `no value of ${name} between ${min} and ${max} passes every rule`);
-  if (atBad.feasible) return result(bad, atBad, `every value in the range passes; ${bad} is the ${up ? "smallest" : "largest"}`);
-  // feasible at `good`, not at `bad`: bisect to within the precision, keeping the feasible side
-  let f = good, g = bad;
-  let fe = atGood;
+  // Order the curve from the worst end to the best; the feasible region must be a tail of it.
+  const ordered = up ? curve : [...curve].reverse();
+  let k = ordered.length;
+  while (k > 0 && ordered[k - 1]!.feasible) k--;
+  if (k === ordered.length) return result(null, null, `no value of ${name} between ${min} and ${max} passes every rule`);
+  const strays = ordered.slice(0, k).filter((c) => c.feasible);
+  if (strays.length > 0) {
+    // e.g. a "longest continuous time" rule: a thin wall gives short, hot excursions that pass
+    warnings.push(`feasibility is not monotone in ${name} here: ${strays.map((c) => Number(c.x.toPrecision(4))).join(", ")} also pass; the value given is where passing holds for every ${up ? "larger" : "smaller"} value on the curve`);
+  }
+  if (k === 0) {
+    const e = evaluate(ordered[0]!.x);
+    return result(ordered[0]!.x, e, `every value in the range passes; ${ordered[0]!.x} is the ${up ? "smallest" : "largest"}`);
+  }
+  // feasible at ordered[k], not at ordered[k − 1]: bisect between them to within the precision
+  let f = ordered[k]!.x, g = ordered[k - 1]!.x;
+  let fe = evaluate(f);
   while (Math.abs(f - g) > precision) {
     const mid = (f + g) / 2;
     const e = evaluate(mid);
@@ -82,7 +94,7 @@ export function size(input: SizingInput): SizingResult {
       f = mid;
       fe = e;
     } else g = mid;
-    input.onProgress?.(Math.min(0.99, (points + runs - points) / (points + 20)));
+    input.onProgress?.(Math.min(0.99, runs / (points + 20)));
   }
   input.onProgress?.(1);
   return result(f, fe, `${up ? "smallest" : "largest"} feasible value, to within ${precision}`);

@@ -1,7 +1,8 @@
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import { importCsv } from "../trace";
-import { productSchema } from "../thermal/definitions";
+import { packSchema, productSchema } from "../thermal/definitions";
+import { EXAMPLE_PROFILES } from "../design/profile";
 import { limitSetSchema } from "../exposure/limits";
 import { createTrace } from "../db/traces";
 import { createDefinition } from "../db/definitions";
@@ -22,5 +23,11 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   const l = await createDefinition("limits", limits);
   const res = await runAndStoreReview({ title: "Route 7, 16 June: tote 3 after the dock delay (demo)", traceId, productId: p.id, limitsId: l.id });
   if (!res.ok) throw new Error(`demo review failed: ${res.message}`);
+  // For the design pages: a probe test, a shaped product in a tote with a gel pack, and example profiles.
+  const probeBytes = readFileSync(path.join(DEMO, "probe-test.csv"));
+  await createTrace({ name: "Probe test, tray with simulant (demo)", fileName: "probe-test.csv", bytes: probeBytes, imported: importCsv(probeBytes) });
+  await createDefinition("product", productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal-shaped.product.json"), "utf8"))));
+  await createDefinition("pack", packSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "tote.pack.json"), "utf8"))));
+  for (const profile of EXAMPLE_PROFILES) await createDefinition("profile", profile);
   return "loaded";
 }

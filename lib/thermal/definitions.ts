@@ -108,6 +108,19 @@ export const packSchema = z
     /** area the layers are spread over, m²; plane walls are assumed when given */
     area_m2: pos("area").optional(),
     coolants: z.array(coolantSchema).default([]),
+    /** where an effective pack came from (a calibration), kept with the definition */
+    provenance: z
+      .object({
+        method: z.literal("calibration"),
+        trace_sha256: z.string(),
+        product_id: z.string(),
+        tau_s: z.number(),
+        tau_ci95_s: z.tuple([z.number(), z.number()]),
+        rmse_K: z.number(),
+        fitted_at: z.string(),
+        engine_version: z.string(),
+      })
+      .optional(),
   })
   .superRefine((p, ctx) => {
     if (p.coolants.some((c) => c.mass_kg > 0) && p.h_inside_W_m2K === undefined) {

@@ -211,3 +211,64 @@ test("sign off a review, open its printable report, export the findings, and cor
   await expect(page.getByTestId("chain-status")).toHaveText(/Hash chain intact: \d+ entries\./);
   await page.screenshot({ path: "test-results/audit.png", fullPage: true });
 });
+
+test("design studies: calibrate a probe test, then size the insulation with progress, and run Monte Carlo", async ({ page }) => {
+  // a probe test and the definitions
+  await page.goto("/traces");
+  await page.getByLabel("Logger file (CSV)").setInputFiles(path.join(DEMO, "probe-test.csv"));
+  await expect(page.getByTestId("preview-summary")).toContainText("product probe from 'Product simulant (°C)'");
+  await page.locator("#f-name").fill("Probe test");
+  await page.getByRole("button", { name: "Upload and import" }).click();
+  await expect(page.getByTestId("trace-settings")).toContainText("product probe");
+  await page.goto("/products");
+  await page.getByTestId("product-name").fill("Tray for calibration");
+  await page.getByTestId("initial_C").fill("3.2");
+  await page.getByTestId("mass_kg").fill("0.45");
+  await page.getByTestId("area_m2").fill("0.062");
+  await page.getByTestId("h_W_m2K").fill("2.5");
+  await page.getByTestId("cp_J_kgK").fill("3600");
+  await page.getByRole("button", { name: "Save product" }).click();
+  await expect(page.getByTestId("product-list")).toContainText("Tray for calibration");
+
+  await page.goto("/design/calibrate");
+  await page.getByTestId("cal-trace").selectOption({ label: "Probe test" });
+  await page.locator("select[name=product]").selectOption({ label: "Tray for calibration v1" });
+  await page.getByRole("button", { name: "Fit" }).click();
+  // the demo simulant was generated with tau = 2.5 h (9000 s)
+  await expect(page.getByTestId("cal-tau")).toContainText("2 h 30 min");
+  await page.getByRole("button", { name: "Save as effective pack" }).click();
+  await expect(page.getByTestId("pack-list")).toContainText("Effective pack for Tray for calibration (calibrated)");
+
+  // a profile from an example, and a limit set
+  await page.goto("/design/profiles");
+  await page.getByTestId("profile-example").selectOption({ index: 1 });
+  await page.getByRole("button", { name: "Save profile" }).click();
+  await expect(page.getByTestId("profile-list")).toContainText("Example: summer multi-drop route");
+  await page.goto("/limits");
+  await page.getByTestId("template-select").selectOption("chilled-8C-uk");
+  await page.getByRole("button", { name: "Save limit set" }).click();
+
+  // a pack with an insulation layer to size
+  await page.goto("/packs");
+  await page.getByTestId("pack-name").fill("Foam box");
+  await page.getByLabel("Wall area (m²), optional").fill("0.1");
+  await page.getByRole("button", { name: "Add a layer" }).click();
+  await page.getByTestId("layer-0").getByLabel("thickness m").fill("0.01");
+  await page.getByTestId("layer-0").getByLabel("k W/m·K").fill("0.035");
+  await page.getByRole("button", { name: "Save pack" }).click();
+
+  await page.goto("/design/size");
+  await page.getByTestId("size-source").selectOption({ label: "profile: Example: summer multi-drop route, 2 days v1" });
+  await page.getByTestId("size-product").selectOption({ label: "Tray for calibration v1" });
+  await page.getByTestId("size-pack").selectOption({ label: "Foam box v1" });
+  await page.getByTestId("size-limits").selectOption({ label: "Chilled food, 8 °C (from template) v1" });
+  await page.getByRole("button", { name: "Use these" }).click();
+  await page.getByRole("button", { name: "Find the boundary" }).click();
+  await expect(page.getByTestId("size-result")).toContainText("layer:1:thickness_m");
+  await expect(page.getByTestId("curve-chart")).toBeVisible();
+
+  await page.getByTestId("mc-samples").fill("200");
+  await page.getByRole("button", { name: "Run" }).click();
+  await expect(page.getByTestId("mc-result")).toContainText("200 samples (seed 1)");
+  await page.screenshot({ path: "test-results/design.png", fullPage: true });
+});

@@ -1,0 +1,156 @@
+"use client";
+
+import { useEffect, useRef, useState } from "react";
+import type { Pack, Product } from "@/lib/thermal/definitions";
+import type { LimitSet } from "@/lib/exposure/limits";
+import type { DesignVariable } from "@/lib/design/vary";
+import { num } from "@/app/components/NumberField";
+import { CurveChart } from "@/app/components/CurveChart";
+import { TemperatureChart } from "@/app/components/TemperatureChart";
+import { Caution } from "@/app/components/Caution";
+
+interface Props { t_s: number[]; air_C: number[]; product: Product; pack?: Pack; limits: LimitSet }
+type Run = { kind: "idle" } | { kind: "running"; what: string; fraction: number; started: number } | { kind: "error"; message: string };
+interface SizeResult { variable: string; value: number | null; feasible: boolean; metric_at_value: number | null; metric: string; curve: Array<{ x: number; metric: number; feasible: boolean }>; core_at_value: number[] | null; reason: string; precision: number }
+interface McResult { samples: number; seed: number; p05: number[]; p50: number[]; p95: number[]; half_width_K: number; fail_fraction: Record<string, number>; redraws: number }
+interface InputRow { path: string; plusminus: string; percent: boolean; distribution: "normal" | "uniform" }
+
+/** The numeric fields of the product and pack that can carry an uncertainty, as paths. */
+function numericPaths(product: Product, pack?: Pack): string[] {
+  const out: string[] = [];
+  const walk = (o: unknown, prefix: string) => {
+    if (typeof o === "number") out.push(prefix);
+    else if (Array.isArray(o)) o.forEach((v, i) => walk(v, `${prefix}.${i}`));
+    else if (o && typeof o === "object") for (const [k, v] of Object.entries(o)) if (k !== "provenance") walk(v, `${prefix}.${k}`);
+  };
+  walk(product, "product");
+  if (pack) walk(pack, "pack");
+  return out;
+}
+
+export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
+  const variables: Array<{ key: string; label: string; v: DesignVariable; min: number; max: number }> = [
+    ...(pack?.layers ?? []).map((l, i) => ({ key: `layer:${i + 1}:thickness_m`, label: `${l.name} thickness (m)`, v: { kind: "layer" as const, index: i, field: "thickness_m" as const }, min: 0.001, max: 0.15 })),
+    ...(pack?.coolants ?? []).map((c, i) => ({ key: `coolant:${i + 1}:mass_kg`, label: `${c.name} mass (kg)`, v: { kind: "coolant" as const, index: i, field: "mass_kg" as const }, min: 0, max: 5 })),
+    { key: "product:initial_C", label: "product initial temperature (°C)", v: { kind: "product" as const, field: "initial_C" as const }, min: -10, max: 10 },
+  ];
+  const [varKey, setVarKey] = useState(variables[0]!.key);
+  const chosen = variables.find((v) => v.key === varKey)!;
+  const [min, setMin] = useState(String(chosen.min));
+  const [max, setMax] = useState(String(chosen.max));
+  const [run, setRun] = useState<Run>({ kind: "idle" });
+  const [sizeResult, setSizeResult] = useState<SizeResult | null>(null);
+  const [mc, setMc] = useState<McResult | null>(null);
+  const paths = numericPaths(product, pack);
+  const [inputs, setInputs] = useState<InputRow[]>([{ path: paths.find((p) => /k_W_mK|h_outside/.test(p)) ?? paths[0]!, plusminus: "10", percent: true, distribution: "normal" }]);
+  const [samples, setSamples] = useState("500");
+  const [seed, setSeed] = useState("1");
+  const worker = useRef<Worker | null>(null);
+  useEffect(() => () => worker.current?.terminate(), []);
+
+  const start = (what: string, job: object, onDone: (r: unknown) => void) => {
+    worker.current?.terminate();
+    const w = new Worker(new URL("./designWorker.ts", import.meta.url));
+    worker.current = w;
+    const started = Date.now();
+    setRun({ kind: "running", what, fraction: 0, started });
+    w.onmessage = (e: MessageEvent) => {
+      const m = e.data as { type: "progress"; fraction: number } | { type: "done"; result: unknown } | { type: "error"; message: string };
+      if (m.type === "progress") setRun({ kind: "running", what, fraction: m.fraction, started });
+      else if (m.type === "done") {
+        onDone(m.result);
+        setRun({ kind: "idle" });
+        w.terminate();
+      } else setRun({ kind: "error", message: m.message });
+    };
+    w.postMessage({ ...job, t_s, air_C, product, pack, limits, model: "auto" });
+  };
+  const cancel = () => {
+    worker.current?.terminate();
+    worker.current = null;
+    setRun({ kind: "error", message: "cancelled" });
+  };
+  const runSize = () => {
+    const lo = num(min), hi = num(max);
+    if (lo === undefined || hi === undefined || !(hi > lo)) return setRun({ kind: "error", message: "give a range with max greater than min" });
+    start("Sizing", { type: "size", variable: chosen.v, min: lo, max: hi }, (r) => setSizeResult(r as SizeResult));
+  };
+  const runMc = () => {
+    const n = num(samples), s = num(seed);
+    if (n === undefined || !(n >= 10 && n <= 20000) || s === undefined || !Number.isInteger(s)) return setRun({ kind: "error", message: "samples must be 10 to 20,000 and the seed a whole number" });
+    const spec = { inputs: inputs.map((r) => ({ path: r.path, plusminus: num(r.plusminus) ?? 0, percent: r.percent, distribution: r.distribution })), samples: n, seed: s, use_in_guard_band: false };
+    start("Monte Carlo", { type: "mc", spec }, (r) => setMc(r as McResult));
+  };
+  const busy = run.kind === "running";
+
+  return (
+    <>
+      <section className="card">
+        <h2 style={{ marginTop: 0 }}>Size one design variable</h2>
+        <div style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end" }}>
+          <label>Variable
+            <select value={varKey} onChange={(e) => { const v = variables.find((x) => x.key === e.target.value)!; setVarKey(v.key); setMin(String(v.min)); setMax(String(v.max)); }} data-testid="size-variable">
+              {variables.map((v) => <option key={v.key} value={v.key}>{v.label} [{v.key}]</option>)}
+            </select>
+          </label>
+          <label>min<input value={min} onChange={(e) => setMin(e.target.value)} size={7} data-testid="size-min" /></label>
+          <label>max<input value={max} onChange={(e) => setMax(e.target.value)} size={7} data-testid="size-max" /></label>
+          <button type="button" onClick={runSize} disabled={busy}>Find the boundary</button>
+        </div>
+        {sizeResult && (
+          <div data-testid="size-result" style={{ marginTop: "0.8rem" }}>
+            <p><strong>{sizeResult.feasible ? `${sizeResult.variable} = ${sizeResult.value}` : "No feasible value in this range"}</strong> — {sizeResult.reason}{sizeResult.metric_at_value !== null ? `; ${sizeResult.metric} there: ${sizeResult.metric_at_value.toFixed(2)}` : ""}.</p>
+            <CurveChart points={sizeResult.curve} xLabel={sizeResult.variable} yLabel={sizeResult.metric} chosen={sizeResult.value} />
+            {sizeResult.core_at_value && (
+              <TemperatureChart title="Air and predicted core at the boundary value" height={240} times_ms={t_s.map((t) => t * 1000)}
+                lines={[{ label: "Air (profile)", color: "var(--air)", values: air_C }, { label: "Core at the boundary", color: "var(--core)", values: sizeResult.core_at_value }]}
+                thresholds={[...new Set(limits.rules.map((r) => (r.above_C ?? r.below_C)!))].map((v) => ({ label: `${v} °C`, value_C: v }))} />
+            )}
+          </div>
+        )}
+      </section>
+
+      <section className="card">
+        <h2 style={{ marginTop: 0 }}>Prediction uncertainty (Monte Carlo)</h2>
+        <p className="muted">Each uncertain input is ± a half-width (uniform) or one standard deviation (normal), absolute or in percent. The generator is seeded: the same seed gives the same band.</p>
+        <table>
+          <thead><tr><th>Input</th><th>±</th><th>%</th><th>Distribution</th><th /></tr></thead>
+          <tbody>
+            {inputs.map((r, i) => (
+              <tr key={i}>
+                <td><select aria-label={`uncertain input ${i + 1}`} value={r.path} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, path: e.target.value } : x)))}>{paths.map((p) => <option key={p} value={p}>{p}</option>)}</select></td>
+                <td><input aria-label={`uncertainty ${i + 1}`} value={r.plusminus} size={6} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, plusminus: e.target.value } : x)))} /></td>
+                <td><input type="checkbox" aria-label={`in percent ${i + 1}`} checked={r.percent} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, percent: e.target.checked } : x)))} /></td>
+                <td><select value={r.distribution} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, distribution: e.target.value as InputRow["distribution"] } : x)))}><option value="normal">normal</option><option value="uniform">uniform</option></select></td>
+                <td><button type="button" className="secondary" onClick={() => setInputs(inputs.filter((_, j) => j !== i))} disabled={inputs.length === 1}>Remove</button></td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        <div style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end", marginTop: "0.6rem" }}>
+          <button type="button" className="secondary" onClick={() => setInputs([...inputs, { path: paths[0]!, plusminus: "5", percent: true, distribution: "normal" }])}>Add an input</button>
+          <label>Samples<input value={samples} onChange={(e) => setSamples(e.target.value)} size={6} data-testid="mc-samples" /></label>
+          <label>Seed<input value={seed} onChange={(e) => setSeed(e.target.value)} size={6} /></label>
+          <button type="button" onClick={runMc} disabled={busy}>Run</button>
+        </div>
+        {mc && (
+          <div data-testid="mc-result" style={{ marginTop: "0.8rem" }}>
+            <p>{mc.samples} samples (seed {mc.seed}); the 5–95 % band of the core is at most ±{mc.half_width_K.toFixed(2)} K wide{mc.redraws ? `; ${mc.redraws} non-physical draws were repeated` : ""}.</p>
+            <ul>{Object.entries(mc.fail_fraction).map(([id, f]) => <li key={id}>rule {id} fails in {(f * 100).toFixed(1)} % of samples</li>)}</ul>
+            <TemperatureChart title="Core temperature band" height={240} times_ms={t_s.map((t) => t * 1000)}
+              lines={[{ label: "Air", color: "var(--air)", values: air_C }, { label: "Core 95th percentile", color: "#9b1f2e", values: mc.p95, dashed: true }, { label: "Core median", color: "var(--core)", values: mc.p50 }, { label: "Core 5th percentile", color: "#2b8a7e", values: mc.p05, dashed: true }]} />
+          </div>
+        )}
+      </section>
+
+      {run.kind === "running" && (
+        <div className="card" data-testid="design-progress" style={{ position: "sticky", bottom: 0 }}>
+          <progress max={1} value={run.fraction} style={{ width: "70%" }} /> {run.what}: {Math.round(run.fraction * 100)} %
+          {" "}<button type="button" className="secondary" onClick={cancel} data-testid="cancel">Cancel</button>
+        </div>
+      )}
+      {run.kind === "error" && <p className="form-error" data-testid="design-error">{run.message}</p>}
+      <Caution />
+    </>
+  );
+}

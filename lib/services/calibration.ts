@@ -1,0 +1,70 @@
+import { z } from "zod";
+import { calibrateLumped, type CalibrationResult } from "../design/calibrate";
+import { packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
+import { bridgeGaps } from "../trace/series";
+import { getTrace } from "../db/traces";
+import { createDefinition, getDefinition, type StoredDefinition } from "../db/definitions";
+import { ENGINE_VERSION } from "../review/runReview";
+
+export const calibrationRequestSchema = z.object({
+  traceId: z.string().min(1, { message: "choose a trace with a product probe" }),
+  productId: z.string().optional(),
+  packId: z.string().optional(),
+  fitInitial: z.boolean().default(false),
+  fitOffset: z.boolean().default(false),
+  mismatchFactor: z.number().finite().gt(1, { message: "the factor must be greater than 1" }).default(2),
+});
+export type CalibrationRequest = z.input<typeof calibrationRequestSchema>;
+
+export type CalibrationOutcome =
+  | { ok: true; result: CalibrationResult; t_s: Float64Array; air_C: Float64Array; probe_C: Float64Array; traceSha256: string; product?: StoredDefinition<Product>; pack?: StoredDefinition<Pack> }
+  | { ok: false; message: string };
+
+export async function runCalibration(request: CalibrationRequest): Promise<CalibrationOutcome> {
+  const req = calibrationRequestSchema.parse(request);
+  const trace = await getTrace(req.traceId);
+  if (!trace) return { ok: false, message: "that trace does not exist" };
+  if (!trace.series.probe_C) return { ok: false, message: "this trace has no product-probe channel; import it with one" };
+  const product = req.productId ? await getDefinition<Product>(req.productId) : null;
+  const pack = req.packId ? await getDefinition<Pack>(req.packId) : null;
+  if (pack && !product) return { ok: false, message: "choose the product too when comparing with a pack" };
+  const p = product ? productSchema.parse(product.body) : undefined;
+  const k = pack ? packSchema.parse(pack.body) : undefined;
+  if (p && !k && p.h_W_m2K === undefined) return { ok: false, message: "this product has no surface coefficient of its own: choose its pack" };
+  const air = bridgeGaps(trace.series);
+  try {
+    const result = calibrateLumped(trace.series.t_s, air, trace.series.probe_C, { fitInitial: req.fitInitial, fitOffset: req.fitOffset, mismatchFactor: req.mismatchFactor }, p ? { product: p, pack: k } : undefined);
+    return { ok: true, result, t_s: trace.series.t_s, air_C: air, probe_C: trace.series.probe_C, traceSha256: trace.meta.sha256, product: product ?? undefined, pack: pack ?? undefined };
+  } catch (e) {
+    return { ok: false, message: (e as Error).message };
+  }
+}
+
+/**
+ * Saves a calibration as an "effective" pack: one outside film whose coefficient gives the fitted
+ * R_total for this product's area, no layers, and the calibration's provenance. Later reviews of the
+ * same product in the same packaging can use it.
+ */
+export async function saveEffectivePack(request: CalibrationRequest & { name: string }): Promise<{ ok: true; packId: string } | { ok: false; message: string }> {
+  const out = await runCalibration(request);
+  if (!out.ok) return out;
+  if (!out.product || out.result.h_eff_W_m2K === undefined) return { ok: false, message: "choose the product: the effective coefficient is referred to its surface" };
+  const body = packSchema.parse({
+    name: request.name,
+    h_outside_W_m2K: out.result.h_eff_W_m2K,
+    layers: [],
+    coolants: [],
+    provenance: {
+      method: "calibration",
+      trace_sha256: out.traceSha256,
+      product_id: out.product.id,
+      tau_s: out.result.tau_s,
+      tau_ci95_s: out.result.tau_ci95_s,
+      rmse_K: out.result.rmse_K,
+      fitted_at: new Date().toISOString(),
+      engine_version: ENGINE_VERSION,
+    },
+  });
+  const saved = await createDefinition("pack", body);
+  return { ok: true, packId: saved.id };
+}
