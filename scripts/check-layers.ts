@@ -4,7 +4,7 @@ import { readdirSync, readFileSync, statSync } from "node:fs";
 import path from "node:path";
 
 const ROOT = path.resolve(__dirname, "..");
-const ENGINE = ["lib/trace", "lib/thermal", "lib/exposure", "lib/review"];
+const ENGINE = ["lib/trace", "lib/thermal", "lib/exposure", "lib/review", "lib/design"];
 const FRAMEWORK = /from\s+["'](next(\/[^"']*)?|react(-dom)?(\/[^"']*)?|@prisma\/[^"']+|[./]*generated\/prisma[^"']*|server-only)["']/;
 const PRISMA = /from\s+["']([./@]*generated\/prisma[^"']*|@prisma\/client[^"']*)["']|new PrismaClient/;
 

@@ -12,7 +12,17 @@ const utc = (v: string | undefined) => (v ? (v.length === 16 ? `${v}:00Z` : `${v
 
 export async function startReview(_prev: FormState, form: FormData): Promise<FormState> {
   const values = formValues(form);
+  let uncertainty: unknown = undefined;
+  const rawU = (textField(form, "uncertainty") ?? "").trim();
+  if (rawU) {
+    try {
+      uncertainty = JSON.parse(rawU);
+    } catch (e) {
+      return { fieldErrors: { uncertainty: `not valid JSON (${(e as Error).message})` }, values };
+    }
+  }
   const parsed = runReviewRequestSchema.safeParse({
+    uncertainty,
     title: textField(form, "title") ?? "",
     traceId: textField(form, "traceId") ?? "",
     productId: textField(form, "productId") ?? "",

@@ -14,7 +14,7 @@ import { calibrateLumped } from "../design/calibrate";
 import { profileSchema, profileSeries } from "../design/profile";
 import { parseVariable } from "../design/vary";
 import { size } from "../design/sizing";
-import { monteCarlo, uncertaintySpecSchema, type UncertaintyResult } from "../design/uncertainty";
+import { uncertaintySpecSchema } from "../design/uncertainty";
 
 class CliError extends Error {}
 
@@ -222,20 +222,12 @@ function reviewCommand(argv: string[]): unknown {
   if (window && (window.start_s < t[0]! || window.end_s > t[t.length - 1]!)) {
     throw new CliError(`--window: ${values.window} is not inside the trace (${iso(t[0]!)}/${iso(t[t.length - 1]!)})`);
   }
-  const spec = values.uncertainty ? readJsonFile(values.uncertainty, uncertaintySpecSchema) : undefined;
-  const mc = spec ? monteCarlo(imported.series, product, pack, limits, spec, model) : undefined;
-  const modelUncertainty = mc && spec!.use_in_guard_band ? mc.half_width_K : undefined;
-  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model, window, model_uncertainty_K: modelUncertainty }, gapMultiple: imported.settings.gapMultiple });
+  const uncertainty = values.uncertainty ? readJsonFile(values.uncertainty, uncertaintySpecSchema) : undefined;
+  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model, window, uncertainty }, gapMultiple: imported.settings.gapMultiple });
   return {
-    ...(mc ? { uncertainty: uncertaintySummary(mc, spec!.use_in_guard_band) } : {}),
     trace: { file: values.trace, sha256: sha256Hex(bytes), samples: imported.series.t_s.length, import_settings: imported.settings, warnings: imported.warnings },
     ...result,
   };
-}
-
-function uncertaintySummary(mc: UncertaintyResult, used: boolean) {
-  const r = (a: Float64Array) => Array.from(a, (x) => Number(x.toFixed(4)));
-  return { samples: mc.samples, seed: mc.seed, half_width_K: Number(mc.half_width_K.toFixed(4)), used_in_guard_band: used, fail_fraction: mc.fail_fraction, redraws: mc.redraws, band: { p05: r(mc.p05), p50: r(mc.p50), p95: r(mc.p95) } };
 }
 
 function calibrateCommand(argv: string[]): unknown {

@@ -9,6 +9,7 @@ import { timeBeyond } from "../exposure/timeAbove";
 import { clip, type Span } from "../exposure/window";
 import { bandLabel, DEFAULT_BAND_EDGES_C, timeInBands } from "../exposure/bands";
 import { CAUTIONS } from "./cautions";
+import { monteCarlo, type UncertaintySpec } from "../design/uncertainty";
 
 /** Bumped whenever a change to the engine could change a stored result. */
 export const ENGINE_VERSION = "0.2.0";
@@ -28,6 +29,8 @@ export interface ReviewOptions {
   window?: { start_s: number; end_s: number };
   /** model uncertainty of the predicted channels, K (e.g. the half-width of a Monte Carlo band); widens their guard band */
   model_uncertainty_K?: number;
+  /** propagate input uncertainty by seeded Monte Carlo; with use_in_guard_band, its band widens the guard band */
+  uncertainty?: UncertaintySpec;
 }
 
 export interface ReviewInput {
@@ -66,6 +69,8 @@ export interface ReviewResult {
   window: { start: string; end: string };
   /** time-temperature history: minutes in each band */
   bands: { edges_C: number[]; labels: string[]; air_min: number[]; core_min: number[] };
+  /** Monte Carlo summary, when asked for: the 5–95 % core band and how often each rule fails */
+  uncertainty?: { samples: number; seed: number; half_width_K: number; used_in_guard_band: boolean; fail_fraction: Record<string, number>; redraws: number; p05: number[]; p95: number[] };
   outcome: Outcome;
   cautions: string[];
 }
@@ -106,6 +111,8 @@ export function runReview(input: ReviewInput): ReviewComputation {
   const air = bridgeGaps(series);
   const pred = predict(product, pack, series.t_s, air, { model: options.model });
   const tau = pred.screening.tau_s;
+  const mc = options.uncertainty ? monteCarlo({ t_s: series.t_s, air_C: air }, product, pack, limits, options.uncertainty, options.model) : null;
+  const modelUncertainty = mc && options.uncertainty!.use_in_guard_band ? mc.half_width_K : (options.model_uncertainty_K ?? 0);
 
   const airSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s]);
   const modelSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s + GAP_MEMORY_TAUS * tau]);
@@ -119,7 +126,7 @@ export function runReview(input: ReviewInput): ReviewComputation {
   const inWindow = (spans: Span[]) => spans.filter(([s0, s1]) => s1 > a && s0 < b);
   const channel = (v: Float64Array, spans: Span[], modelled: boolean): ChannelSeries => {
     const c = cut(v);
-    return { t_s: c.t_s, value_C: c.v, uncertainSpans: inWindow(spans), modelUncertainty_K: modelled ? (options.model_uncertainty_K ?? 0) : 0 };
+    return { t_s: c.t_s, value_C: c.v, uncertainSpans: inWindow(spans), modelUncertainty_K: modelled ? modelUncertainty : 0 };
   };
   const channels: Record<string, ChannelSeries> & { air: ChannelSeries; core: ChannelSeries } = {
     air: channel(air, airSpans, false),
@@ -177,6 +184,20 @@ export function runReview(input: ReviewInput): ReviewComputation {
     },
     window: { start: iso(a), end: iso(b) },
     bands: { edges_C: edges, labels: edges.map((_, k) => bandLabel(edges, k)).concat(bandLabel(edges, edges.length)), air_min: minutes(channels.air), core_min: minutes(channels.core) },
+    ...(mc
+      ? {
+          uncertainty: {
+            samples: mc.samples,
+            seed: mc.seed,
+            half_width_K: round(mc.half_width_K, 4),
+            used_in_guard_band: options.uncertainty!.use_in_guard_band,
+            fail_fraction: mc.fail_fraction,
+            redraws: mc.redraws,
+            p05: Array.from(mc.p05, (x) => round(x, 3)),
+            p95: Array.from(mc.p95, (x) => round(x, 3)),
+          },
+        }
+      : {}),
     outcome: overallOutcome(findings),
     cautions: [...CAUTIONS],
   };

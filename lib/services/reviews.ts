@@ -6,6 +6,7 @@ import { importCsv, optionsFromSettings, sha256Hex } from "../trace";
 import { getTrace } from "../db/traces";
 import { getDefinition } from "../db/definitions";
 import { createReview, getReview, signReview } from "../db/reviews";
+import { uncertaintySpecSchema } from "../design/uncertainty";
 
 const isoTime = z.iso.datetime({ offset: true, message: "must be an ISO 8601 date-time with Z or an offset" });
 
@@ -22,12 +23,14 @@ export const runReviewRequestSchema = z
     windowEnd: isoTime.optional(),
     /** the signed review this run corrects */
     correctsId: z.string().optional(),
+    /** optional Monte Carlo propagation of input uncertainty */
+    uncertainty: uncertaintySpecSchema.optional(),
   })
   .refine((r) => (r.windowStart === undefined) === (r.windowEnd === undefined), { message: "give both ends of the window, or neither", path: ["windowEnd"] })
   .refine((r) => r.windowStart === undefined || Date.parse(r.windowEnd!) > Date.parse(r.windowStart), { message: "the window must end after it starts", path: ["windowEnd"] });
 export type RunReviewRequest = z.input<typeof runReviewRequestSchema>;
 
-type Field = "title" | "traceId" | "productId" | "packId" | "limitsId" | "model" | "windowStart" | "windowEnd" | "correctsId" | "form";
+type Field = "title" | "traceId" | "productId" | "packId" | "limitsId" | "model" | "windowStart" | "windowEnd" | "correctsId" | "uncertainty" | "form";
 export type RunReviewOutcome = { ok: true; reviewId: string } | { ok: false; field: Field; message: string };
 
 /** Loads the exact stored inputs, runs the engine and stores the review pointing at those versions. */
@@ -59,7 +62,14 @@ export async function runAndStoreReview(request: RunReviewRequest, actor = "web"
   if (req.model === "conduction" && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
     return { ok: false, field: "model", message: "the conduction model needs the product's shape and conductivity" };
   }
-  const options: ReviewOptions = { model: req.model };
+  const options: ReviewOptions = { model: req.model, ...(req.uncertainty ? { uncertainty: req.uncertainty } : {}) };
+  if (req.uncertainty) {
+    const base = { product, pack } as Record<string, unknown>;
+    for (const u of req.uncertainty.inputs) {
+      const v = u.path.split(".").reduce<unknown>((o, k) => (o && typeof o === "object" ? (o as Record<string, unknown>)[k] : undefined), base);
+      if (typeof v !== "number") return { ok: false, field: "uncertainty", message: `'${u.path}' does not name a number of this product or pack` };
+    }
+  }
   if (req.windowStart && req.windowEnd) {
     const start_s = Date.parse(req.windowStart) / 1000, end_s = Date.parse(req.windowEnd) / 1000;
     const t = trace.series.t_s;

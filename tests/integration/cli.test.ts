@@ -144,3 +144,21 @@ describe("corelag calibrate and size (CLI)", () => {
     expect(r.stderr).toMatch(/--vary: 'layer:one' is not layer:N:thickness_m/);
   });
 });
+
+describe("corelag review --uncertainty (CLI)", () => {
+  it("adds a seeded Monte Carlo band and widens the guard band when asked", () => {
+    const spec = path.join(tmp, "u.json");
+    writeFileSync(spec, JSON.stringify({ inputs: [{ path: "product.h_W_m2K", plusminus: 20, percent: true, distribution: "normal" }], samples: 200, seed: 7, use_in_guard_band: true }));
+    const args = ["review", "--trace", path.join(DEMO, "route7-tote3.csv"), "--product", path.join(DEMO, "ready-meal.product.json"), "--limits", path.join(DEMO, "ready-meal.limits.json")];
+    const a = JSON.parse(corelag(...args, "--uncertainty", spec).stdout);
+    const b = JSON.parse(corelag(...args, "--uncertainty", spec).stdout);
+    expect(a.uncertainty).toMatchObject({ samples: 200, seed: 7, used_in_guard_band: true });
+    expect(a.uncertainty.half_width_K).toBeGreaterThan(0);
+    expect(a.uncertainty).toEqual(b.uncertainty); // same seed, same result
+    // the core rules' guard band now holds the sensor accuracy (0.5 K) plus the band's half-width
+    const core = a.rules.find((r: { id: string }) => r.id === "core-above-5C");
+    expect(core.guard_K).toBeCloseTo(0.5 + a.uncertainty.half_width_K, 4); // the summary rounds the half-width to 4 decimals
+    const air = a.rules.find((r: { id: string }) => r.id === "air-above-8C");
+    expect(air.guard_K).toBe(0.5);
+  });
+});

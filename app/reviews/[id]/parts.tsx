@@ -70,6 +70,12 @@ export function ReviewChart({ review, series }: { review: StoredReview; series: 
             : []),
           ...(review.coolant_C ? [{ label: "Coolant / inner air", color: "#7a4fa3", values: Array.from(review.coolant_C), dashed: true }] : []),
           ...(series.probe_C ? [{ label: "Product probe (measured)", color: "#b8860b", values: Array.from(series.probe_C) }] : []),
+          ...(review.result.uncertainty
+            ? [
+                { label: "Core 95th percentile", color: "#9b1f2e", values: review.result.uncertainty.p95, dashed: true },
+                { label: "Core 5th percentile", color: "#2b8a7e", values: review.result.uncertainty.p05, dashed: true },
+              ]
+            : []),
         ]}
         thresholds={thresholds}
         gaps={findGaps(series, (review.trace.importSettings as { gapMultiple?: number } | null)?.gapMultiple).map((g) => [g.start_s * 1000, g.end_s * 1000])}
@@ -102,6 +108,13 @@ export function ScreeningCard({ review }: { review: StoredReview }) {
       {s.geometry_note && <p className="muted">{s.geometry_note[0]!.toUpperCase() + s.geometry_note.slice(1)}.</p>}
       <ResistanceTable items={s.resistances} />
       <p>{s.excursion_reading[0]!.toUpperCase() + s.excursion_reading.slice(1)}.</p>
+      {review.result.uncertainty && (
+        <p data-testid="uncertainty-summary">
+          Monte Carlo ({review.result.uncertainty.samples} samples, seed {review.result.uncertainty.seed}): the 5–95 % core band is at most ±{review.result.uncertainty.half_width_K.toFixed(2)} K
+          {review.result.uncertainty.used_in_guard_band ? ", used as the model uncertainty in the guard band" : ""}; rules fail in{" "}
+          {Object.entries(review.result.uncertainty.fail_fraction).map(([id, f]) => `${id}: ${(f * 100).toFixed(1)} %`).join(", ")} of samples.
+        </p>
+      )}
     </section>
   );
 }

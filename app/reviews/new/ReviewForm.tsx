@@ -63,6 +63,25 @@ export function ReviewForm({ traces, products, packs, limits, initial }: { trace
         <Field name="windowStart" label="From (UTC)" type="datetime-local" step={60} state={state} />
         <Field name="windowEnd" label="To (UTC)" type="datetime-local" step={60} state={state} />
       </details>
+      <details open={Boolean(state.values?.uncertainty)}>
+        <summary>Propagate input uncertainty (optional)</summary>
+        <p className="hint muted">
+          JSON: inputs by path (product.… or pack.…, list indices from 0), ± as a half-width (uniform) or one standard deviation (normal), in percent when
+          &quot;percent&quot; is true; a seeded Monte Carlo run gives a 5–95 % core band and how often each rule fails. With &quot;use_in_guard_band&quot;, the band&apos;s
+          half-width widens the guard band of the rules on predicted channels.
+        </p>
+        <textarea
+          name="uncertainty"
+          rows={5}
+          style={{ width: "100%", fontFamily: "monospace" }}
+          defaultValue={state.values?.uncertainty}
+          placeholder={'{"inputs": [{"path": "product.h_W_m2K", "plusminus": 20, "percent": true, "distribution": "normal"}], "samples": 500, "seed": 1, "use_in_guard_band": true}'}
+          data-testid="uncertainty-json"
+        />
+        {Object.entries(state.fieldErrors ?? {}).filter(([k]) => k.startsWith("uncertainty")).map(([k, m]) => (
+          <span key={k} className="field-error" data-testid="error-uncertainty">{k}: {m}</span>
+        ))}
+      </details>
       {state.fieldErrors?.correctsId && <p className="field-error">{state.fieldErrors.correctsId}</p>}
       <FormMessage state={state} />
       <button type="submit" disabled={pending}>{pending ? "Running…" : "Run review"}</button>
