@@ -1,6 +1,7 @@
 // Speed figures for the engine (`npm run bench`). Not a test: prints numbers with their accuracy.
 import { performance } from "node:perf_hooks";
 import { lumpedResponse } from "../lib/thermal/lumped";
+import { mulberry32 } from "../lib/design/random";
 import { timeBeyond } from "../lib/exposure/timeAbove";
 import { predict } from "../lib/thermal/predict";
 import type { Product } from "../lib/thermal/definitions";
@@ -8,16 +9,6 @@ import { centreTheta } from "../tests/helpers/series";
 import { benchImport } from "./import";
 import { benchDesign } from "./design";
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function best<T>(runs: number, fn: () => T): { ms: number; value: T } {
   let ms = Infinity;

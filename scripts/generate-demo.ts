@@ -5,18 +5,8 @@ import { writeFileSync, mkdirSync } from "node:fs";
 import path from "node:path";
 import { lumpedResponse } from "../lib/thermal/lumped";
 import { EXAMPLE_PROFILES } from "../lib/design/profile";
+import { mulberry32 } from "../lib/design/random";
 
-/** mulberry32: a small seeded generator, so the demo noise is the same on every machine. */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const OUT = path.join(__dirname, "..", "public", "demo");
 const START_UTC_MS = Date.UTC(2026, 5, 16, 3, 0, 0); // 05:00 local (UTC+02:00)

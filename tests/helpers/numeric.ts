@@ -1,4 +1,8 @@
 import { expect } from "vitest";
+import { mulberry32 } from "@/lib/design/random";
+
+/** Seeded uniform generator for repeatable test inputs (the project's own, lib/design/random.ts). */
+export const seeded = mulberry32;
 
 /** |actual − expected| ≤ abs + rel·|expected|, with a message that shows both numbers. */
 export function expectClose(actual: number, expected: number, { abs = 0, rel = 0 }: { abs?: number; rel?: number }): void {
@@ -8,17 +12,6 @@ export function expectClose(actual: number, expected: number, { abs = 0, rel = 0
   }
 }
 
-/** mulberry32: small seeded generator so "random" test inputs are the same on every run. */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** Irregular sample times from 0 to about `span_s`, gaps between min_s and max_s. */
 export function irregularTimes(rand: () => number, span_s: number, min_s: number, max_s: number): Float64Array {

@@ -2,6 +2,7 @@ import { describe, it, expect } from "vitest";
 import fc from "fast-check";
 import { DateTime } from "luxon";
 import { importCsv, type ImportOptions } from "@/lib/trace";
+import { utf16 } from "../helpers/encode";
 
 // Property: a trace written out in any supported dialect reads back to the same series.
 const UNITS = { C: (c: number) => c, F: (c: number) => (c * 9) / 5 + 32, K: (c: number) => c + 273.15 } as const;
@@ -33,15 +34,7 @@ const series = fc
 function encode(text: string, encoding: string): Uint8Array {
   if (encoding === "utf-8") return new TextEncoder().encode(text);
   if (encoding === "utf-8-bom") return new Uint8Array([0xef, 0xbb, 0xbf, ...new TextEncoder().encode(text)]);
-  const be = encoding === "utf-16be";
-  const out = new Uint8Array(2 + text.length * 2);
-  out.set(be ? [0xfe, 0xff] : [0xff, 0xfe]);
-  for (let i = 0; i < text.length; i++) {
-    const c = text.charCodeAt(i);
-    out[2 + 2 * i] = be ? c >> 8 : c & 0xff;
-    out[3 + 2 * i] = be ? c & 0xff : c >> 8;
-  }
-  return out;
+  return utf16(text, encoding === "utf-16be");
 }
 
 describe("import round trip (fast-check)", () => {
