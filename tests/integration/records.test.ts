@@ -50,7 +50,7 @@ describe("review records", () => {
     const { listAudit } = await import("@/lib/db/audit");
     const entries = await listAudit();
     expect(entries.map((e) => `${e.action} ${e.entity}`)).toEqual(["import trace", "create definition", "create definition", "run review"]);
-    expect(entries[3]!.details).toMatchObject({ productId: ids.productId, limitsId: ids.limitsId, engineVersion: "0.2.0" });
+    expect(entries[3]!.details).toMatchObject({ productId: ids.productId, limitsId: ids.limitsId, engineVersion: "0.3.0" });
   });
 
   it("a stored review reproduces bit for bit (verify --review)", () => {
