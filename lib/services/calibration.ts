@@ -3,7 +3,7 @@ import { calibrateLumped, type CalibrationResult } from "../design/calibrate";
 import { packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { bridgeGaps } from "../trace/series";
 import { getTrace } from "../db/traces";
-import { createDefinition, getDefinition, type StoredDefinition } from "../db/definitions";
+import { createDefinition, getDefinition, reviseDefinition, type StoredDefinition } from "../db/definitions";
 import { ENGINE_VERSION } from "../review/runReview";
 
 export const calibrationRequestSchema = z.object({
@@ -42,8 +42,9 @@ export async function runCalibration(request: CalibrationRequest): Promise<Calib
 
 /**
  * Saves a calibration as an "effective" pack: one outside film whose coefficient gives the fitted
- * R_total for this product's area, no layers, and the calibration's provenance. Later reviews of the
- * same product in the same packaging can use it.
+ * R_total for this product's area, no layers, and the calibration's provenance. When the calibration
+ * was compared with a pack, the effective pack is a new version of that pack (the old version stays
+ * for the reviews that used it); otherwise it is a new pack. Later reviews can use it.
  */
 export async function saveEffectivePack(request: CalibrationRequest & { name: string }): Promise<{ ok: true; packId: string } | { ok: false; message: string }> {
   const out = await runCalibration(request);
@@ -65,6 +66,6 @@ export async function saveEffectivePack(request: CalibrationRequest & { name: st
       engine_version: ENGINE_VERSION,
     },
   });
-  const saved = await createDefinition("pack", body);
+  const saved = out.pack ? await reviseDefinition(out.pack.lineage, body) : await createDefinition("pack", body);
   return { ok: true, packId: saved.id };
 }

@@ -90,7 +90,10 @@ export default async function CalibratePage({ searchParams }: { searchParams: Pr
           {out.product && (
             <section className="card">
               <h2 style={{ marginTop: 0 }}>Keep this result</h2>
-              <p className="muted">Saves a pack whose single outside coefficient reproduces the fitted R_total for {out.product.name}, with the calibration recorded as its provenance.</p>
+              <p className="muted">
+                Saves a pack whose single outside coefficient reproduces the fitted R_total for {out.product.name}, with the calibration recorded as its provenance
+                {out.pack ? `, as a new version of ${out.pack.name} (version ${out.pack.version} stays as it was)` : ", as a new pack"}.
+              </p>
               <SaveEffectivePack traceId={q.trace!} productId={out.product.id} packId={out.pack?.id} fitInitial={fitInitial} fitOffset={fitOffset} suggestedName={`Effective pack for ${out.product.name} (calibrated)`} />
             </section>
           )}
