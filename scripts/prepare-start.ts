@@ -1,10 +1,23 @@
 // Runs before `npm start`: creates and migrates the SQLite database, loads the demo on first run,
 // and builds the app when no build exists yet.
-import { existsSync } from "node:fs";
+import { existsSync, readFileSync, readdirSync, statSync, writeFileSync } from "node:fs";
+import { createHash } from "node:crypto";
 import { spawnSync } from "node:child_process";
 import path from "node:path";
 import { databaseUrl } from "../lib/db/env";
 import { migrateDatabase } from "../lib/db/migrate";
+
+/** A hash of everything the build is made from, so a changed checkout is rebuilt before it is served. */
+function sourceStamp(): string {
+  const h = createHash("sha256");
+  const walk = (p: string) => {
+    if (!existsSync(p)) return;
+    if (statSync(p).isDirectory()) for (const name of readdirSync(p).sort()) walk(path.join(p, name));
+    else h.update(p).update(readFileSync(p));
+  };
+  for (const p of ["app", "lib", "public", "prisma/schema.prisma", "next.config.js", "package-lock.json", "tsconfig.json"]) walk(p);
+  return h.digest("hex");
+}
 
 async function main(): Promise<void> {
   const url = databaseUrl();
@@ -12,10 +25,14 @@ async function main(): Promise<void> {
   const { loadDemoIfEmpty } = await import("../lib/services/demo");
   const demo = await loadDemoIfEmpty();
   console.log(`corelag: database ${url} migrated; demo ${demo === "loaded" ? "loaded" : "already present or not needed"}`);
-  if (!existsSync(path.join(".next", "BUILD_ID"))) {
-    console.log("corelag: no build found, running next build (about 30 s)…");
-    const res = spawnSync(process.execPath, [path.join("node_modules", "next", "dist", "bin", "next"), "build"], { stdio: "inherit" });
+  const stamp = sourceStamp();
+  const stampFile = path.join(".next", "corelag-source-stamp");
+  const built = existsSync(path.join(".next", "BUILD_ID")) && existsSync(stampFile) && readFileSync(stampFile, "utf8") === stamp;
+  if (!built) {
+    console.log("corelag: no build of this source yet, running next build (about 30 s)…");
+    const res = spawnSync(process.execPath, [path.join("node_modules", "next", "dist", "bin", "next"), "build"], { stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
     if (res.status !== 0) process.exit(res.status ?? 1);
+    writeFileSync(stampFile, stamp);
   }
 }
 
