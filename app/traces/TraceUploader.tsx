@@ -107,7 +107,7 @@ export function TraceUploader() {
   const s = result?.settings;
 
   return (
-    <div className="stack" style={{ display: "grid", gap: "0.8rem" }}>
+    <div className="stack" style={{ maxWidth: "none" }}>
       <label htmlFor="f-file">
         Logger file (CSV)
         <span className="hint">Delimited text with a time column and one or more temperature columns; metadata lines above the header are skipped.</span>
@@ -133,7 +133,7 @@ export function TraceUploader() {
       {(result || phase.kind === "refused") && (
         <details open={phase.kind === "refused"}>
           <summary>Import settings {result ? "(detected; change any to re-read the file)" : ""}</summary>
-          <div className="grid2" style={{ marginTop: "0.6rem" }}>
+          <div className="grid2 stack" style={{ marginTop: "0.6rem", maxWidth: "none" }}>
             <label>Time zone for times without an offset
               <input defaultValue={options.timeZone ?? s?.timeZone ?? "UTC"} onBlur={(e) => set({ timeZone: e.target.value.trim() || undefined })} data-testid="opt-tz" />
             </label>
