@@ -7,7 +7,6 @@ import { NumberField, num } from "@/app/components/NumberField";
 import { productSchema, packSchema, type Pack, type Product } from "@/lib/thermal/definitions";
 import { screenDefinition } from "@/lib/thermal/predict";
 import { resolveProduct } from "@/lib/thermal/resolve";
-import { readableDuration } from "@/lib/thermal/screening";
 import type { FormState } from "@/lib/validation";
 
 type ShapeKind = "none" | "sphere" | "cylinder" | "slab" | "box";

@@ -3,7 +3,7 @@
 import { readFileSync, writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { z } from "zod";
-import { findGaps, importCsv, importOptionsSchema, medianInterval_s, sha256Hex, TraceImportError, bridgeGaps, type ImportOptions, type TraceImport } from "../trace";
+import { importCsv, importOptionsSchema, medianInterval_s, sha256Hex, TraceImportError, bridgeGaps, type ImportOptions, type TraceImport } from "../trace";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { predict } from "../thermal/predict";
 import { limitSetSchema } from "../exposure/limits";

@@ -193,16 +193,13 @@ function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedIm
     dateOrder = dayFirst ? "dmy" : monthFirst ? "mdy" : "ymd";
   }
 
-  // Temperature channels: the other columns that hold numbers.
-  const numericCols = header
-    .map((h, i) => i)
-    .filter((i) => i !== timeIdx && i !== dateIdx && !ignored.has(header[i]!))
-    .filter((i) => {
-      const cells = col(i).filter((c) => c.trim() !== "");
-      return cells.length > 0 && cells.filter(numberish).length >= 0.8 * cells.length;
-    });
+  // Temperature channels: the other columns that hold numbers (at least 80 % of their non-blank cells).
   // With no column of numbers, the best-named remaining column is read, so its first bad cell is reported.
-  const others = header.map((h, i) => i).filter((i) => i !== timeIdx && i !== dateIdx && !ignored.has(header[i]!));
+  const others = candidates.filter((i) => i !== timeIdx && i !== dateIdx);
+  const numericCols = others.filter((i) => {
+    const cells = col(i).filter((c) => c.trim() !== "");
+    return cells.length > 0 && cells.filter(numberish).length >= 0.8 * cells.length;
+  });
   const airIdx =
     options.airColumn !== undefined
       ? columnIndex(header, options.airColumn, "air-temperature")
