@@ -131,9 +131,9 @@ export function monteCarlo(
     if (hooks.onProgress && (s & 15) === 0) hooks.onProgress(done / spec.samples);
   }
   const p05 = new Float64Array(n), p50 = new Float64Array(n), p95 = new Float64Array(n);
-  const column = new Float64Array(done);
   const rank = (q: number) => Math.min(done - 1, Math.max(0, Math.ceil(q * done) - 1));
   let half = 0;
+  const column = new Float64Array(done);
   for (let i = 0; i < n; i++) {
     for (let s = 0; s < done; s++) column[s] = cores[s * n + i]!;
     p05[i] = select(column, rank(0.05));

@@ -38,9 +38,13 @@ interface Measure {
 }
 
 function extremeOf(v: Float64Array, dir: "above" | "below"): number {
-  let e = dir === "above" ? -Infinity : Infinity;
-  for (const x of v) e = dir === "above" ? Math.max(e, x) : Math.min(e, x);
-  return e;
+  let hi = -Infinity, lo = Infinity;
+  for (let i = 0; i < v.length; i++) {
+    const x = v[i]!;
+    if (x > hi) hi = x;
+    if (x < lo) lo = x;
+  }
+  return dir === "above" ? hi : lo;
 }
 
 function measure(t_s: Float64Array, v: Float64Array, threshold: number, dir: "above" | "below"): Measure {
@@ -85,19 +89,27 @@ export function evaluateRule(rule: Rule, ch: ChannelSeries, sensorAccuracy_K: nu
   const u = sensorAccuracy_K + ch.modelUncertainty_K;
   const against = dir === "above" ? -u : u; // moves the threshold so that more time counts
   const nominal = timeBeyond(ch.t_s, ch.value_C, threshold_C, dir);
-  const strict = measure(ch.t_s, ch.value_C, threshold_C + against, dir);
+  const nominalMeasure: Measure = { cumulative_s: nominal.cumulative_s, longest_s: nominal.longest_s, extreme_C: extremeOf(ch.value_C, dir) };
+  // Without a guard band the strict and lenient thresholds are the written one: measure once.
+  const strict = u === 0 ? nominalMeasure : measure(ch.t_s, ch.value_C, threshold_C + against, dir);
   const strictExceeds = exceeded(rule, strict, dir, u);
 
   // Lenient measure on measured data only: each part outside the bridged spans on its own.
-  const parts = ch.uncertainSpans.length === 0 ? [{ t_s: ch.t_s, v: ch.value_C }] : partsOutside(ch.t_s, ch.value_C, ch.uncertainSpans);
-  const lenient: Measure = { cumulative_s: 0, longest_s: 0, extreme_C: dir === "above" ? -Infinity : Infinity };
-  for (const p of parts) {
-    const m = measure(p.t_s, p.v, threshold_C - against, dir);
-    lenient.cumulative_s += m.cumulative_s;
-    lenient.longest_s = Math.max(lenient.longest_s, m.longest_s);
-    lenient.extreme_C = dir === "above" ? Math.max(lenient.extreme_C, m.extreme_C) : Math.min(lenient.extreme_C, m.extreme_C);
+  let lenient: Measure;
+  let hasParts = true;
+  if (ch.uncertainSpans.length === 0) lenient = u === 0 ? nominalMeasure : measure(ch.t_s, ch.value_C, threshold_C - against, dir);
+  else {
+    const parts = partsOutside(ch.t_s, ch.value_C, ch.uncertainSpans);
+    hasParts = parts.length > 0;
+    lenient = { cumulative_s: 0, longest_s: 0, extreme_C: dir === "above" ? -Infinity : Infinity };
+    for (const p of parts) {
+      const m = measure(p.t_s, p.v, threshold_C - against, dir);
+      lenient.cumulative_s += m.cumulative_s;
+      lenient.longest_s = Math.max(lenient.longest_s, m.longest_s);
+      lenient.extreme_C = dir === "above" ? Math.max(lenient.extreme_C, m.extreme_C) : Math.min(lenient.extreme_C, m.extreme_C);
+    }
   }
-  const lenientExceeds = parts.length > 0 ? exceeded(rule, lenient, dir, -u) : [];
+  const lenientExceeds = hasParts ? exceeded(rule, lenient, dir, -u) : [];
 
   const fmtC = (x: number) => `${fmt(x)} °C`;
   let status: RuleStatus;
@@ -125,7 +137,7 @@ export function evaluateRule(rule: Rule, ch: ChannelSeries, sensorAccuracy_K: nu
     threshold_C,
     cumulative_s: nominal.cumulative_s,
     longest_s: nominal.longest_s,
-    extreme_C: extremeOf(ch.value_C, dir),
+    extreme_C: nominalMeasure.extreme_C,
     excursions: nominal.excursions,
     guard_K: u,
     status,

@@ -230,7 +230,8 @@ function runModel(p: ResolvedProduct, pack: Pack | undefined, r: Resistances, mo
  */
 export function predict(product: Product, pack: Pack | undefined, t_s: Float64Array, air_C: Float64Array, options: PredictOptions): Prediction {
   const p = resolveProduct(product);
-  const tMean = (mean(air_C) + product.initial_C) / 2;
+  // only radiation needs the mean temperature (h_r is linearised about it)
+  const tMean = pack?.emissivity ? (mean(air_C) + product.initial_C) / 2 : product.initial_C;
   const r = resistances(product, p.geometry, p.area_m2, pack, tMean);
   const screening = screen(p, r, options.model);
   const shells = options.shells ?? DEFAULT_SHELLS;
