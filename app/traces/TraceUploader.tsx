@@ -110,8 +110,8 @@ export function TraceUploader() {
     <div className="stack" style={{ maxWidth: "none" }}>
       <label htmlFor="f-file">
         Logger file (CSV)
-        <span className="hint">Delimited text with a time column and one or more temperature columns; metadata lines above the header are skipped.</span>
-        <input id="f-file" type="file" accept=".csv,.txt,.tsv,text/csv,text/plain" onChange={(e) => choose(e.target.files?.[0] ?? null)} />
+        <span className="hint">Delimited text (or an .xlsx workbook) with a time column and one or more temperature columns; metadata lines above the header are skipped.</span>
+        <input id="f-file" type="file" accept=".csv,.txt,.tsv,.xlsx,text/csv,text/plain,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" onChange={(e) => choose(e.target.files?.[0] ?? null)} />
       </label>
       <label htmlFor="f-name">
         Name <span className="hint">Defaults to the file name, e.g. &apos;Route 7, tote 3&apos;</span>
@@ -187,7 +187,7 @@ export function TraceUploader() {
         <section data-testid="preview">
           <h3 style={{ margin: "0.4rem 0" }}>Preview</h3>
           <p data-testid="preview-summary">
-            {result.samples.toLocaleString("en")} samples from {iso(result.start_s)} to {iso(result.end_s)}; {s!.encoding}, delimiter {JSON.stringify(s!.delimiter)}, header on row {s!.headerRow}, time
+            {result.samples.toLocaleString("en")} samples from {iso(result.start_s)} to {iso(result.end_s)}; {s!.source === "xlsx" ? `workbook sheet '${s!.sheet}'` : s!.encoding}, delimiter {JSON.stringify(s!.delimiter)}, header on row {s!.headerRow}, time
             {s!.dateColumn ? ` from '${s!.dateColumn}' + '${s!.timeColumn}'` : ` from '${s!.timeColumn}'`} ({s!.timeFormat}{s!.timeFormat === "datetime" ? `, ${s!.dateOrder}, ${s!.timeZone}` : ""}); air from &apos;{s!.airColumn}&apos; in {s!.airUnit === "K" ? "K" : `°${s!.airUnit}`}
             {s!.productColumn ? `; product probe from '${s!.productColumn}'` : ""}; decimal {JSON.stringify(s!.decimal)}.
           </p>

@@ -1,11 +1,11 @@
 // Runs the import in a worker so a large file does not freeze the page; posts progress, then the preview.
-import { importCsv } from "@/lib/trace/importCsv";
+import { importTraceFile } from "@/lib/trace/importFile";
 import { TraceImportError } from "@/lib/trace/errors";
 import type { ImportOptions } from "@/lib/trace/settings";
 
-self.onmessage = (e: MessageEvent<{ bytes: ArrayBuffer; options: ImportOptions }>) => {
+self.onmessage = async (e: MessageEvent<{ bytes: ArrayBuffer; options: ImportOptions }>) => {
   try {
-    const r = importCsv(new Uint8Array(e.data.bytes), e.data.options, (fraction) => self.postMessage({ type: "progress", fraction }));
+    const r = await importTraceFile(new Uint8Array(e.data.bytes), e.data.options, (fraction) => self.postMessage({ type: "progress", fraction }));
     // A thinned series is enough for the preview chart (at most about 2,000 points).
     const n = r.series.t_s.length;
     const step = Math.max(1, Math.floor(n / 2000));

@@ -3,7 +3,7 @@
 import { readFileSync, writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { z } from "zod";
-import { importCsv, importOptionsSchema, medianInterval_s, sha256Hex, TraceImportError, bridgeGaps, type ImportOptions, type TraceImport } from "../trace";
+import { importTraceFile, importOptionsSchema, medianInterval_s, sha256Hex, TraceImportError, bridgeGaps, type ImportOptions, type TraceImport } from "../trace";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { predict } from "../thermal/predict";
 import { limitSetSchema } from "../exposure/limits";
@@ -19,7 +19,7 @@ import { uncertaintySpecSchema } from "../design/uncertainty";
 class CliError extends Error {}
 
 const USAGE = `usage:
-  corelag import FILE [--time-col NAME] [--date-col NAME] [--air-col NAME] [--product-col NAME] [--unit C|F|K] [--tz ZONE]
+  corelag import FILE [--sheet NAME] [--time-col NAME] [--date-col NAME] [--air-col NAME] [--product-col NAME] [--unit C|F|K] [--tz ZONE]
                       [--date-order dmy|mdy|ymd] [--time-format datetime|unix-s|unix-ms|elapsed-s|elapsed-min|elapsed-h] [--start ISO]
                       [--decimal .|,] [--delimiter ,|;|tab||] [--missing CODE,CODE] [--plausible-min C] [--plausible-max C] [--gap-multiple N] [--format json]
   corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction] [--out FILE.csv] [import options] [--format json]
@@ -30,6 +30,7 @@ const USAGE = `usage:
   review also takes --uncertainty U.json (Monte Carlo: inputs, samples, seed, use_in_guard_band)`;
 
 const IMPORT_FLAGS = {
+  sheet: { type: "string" },
   "time-col": { type: "string" },
   "date-col": { type: "string" },
   "air-col": { type: "string" },
@@ -49,7 +50,7 @@ const IMPORT_FLAGS = {
 } as const;
 
 const FLAG_OF: Record<string, string> = {
-  timeColumn: "--time-col", dateColumn: "--date-col", airColumn: "--air-col", productColumn: "--product-col", unit: "--unit", timeZone: "--tz",
+  sheet: "--sheet", timeColumn: "--time-col", dateColumn: "--date-col", airColumn: "--air-col", productColumn: "--product-col", unit: "--unit", timeZone: "--tz",
   dateOrder: "--date-order", timeFormat: "--time-format", startTime: "--start", decimal: "--decimal", delimiter: "--delimiter", missing: "--missing",
   plausibleMin_C: "--plausible-min", plausibleMax_C: "--plausible-max", gapMultiple: "--gap-multiple",
 };
@@ -88,6 +89,7 @@ function importOptionsFrom(values: Values): ImportOptions {
   const num = (k: string) => (values[k] === undefined ? undefined : Number(values[k]));
   const delimiter = str("delimiter");
   const opts = importOptionsSchema.safeParse({
+    sheet: str("sheet"),
     timeColumn: str("time-col"),
     dateColumn: str("date-col"),
     airColumn: str("air-col"),
@@ -111,10 +113,10 @@ function importOptionsFrom(values: Values): ImportOptions {
   return opts.data;
 }
 
-function importTrace(file: string, options: ImportOptions): { imported: TraceImport; bytes: Uint8Array } {
+async function importTrace(file: string, options: ImportOptions): Promise<{ imported: TraceImport; bytes: Uint8Array }> {
   const bytes = readBytes(file);
   try {
-    return { imported: importCsv(bytes, options), bytes };
+    return { imported: await importTraceFile(bytes, options), bytes };
   } catch (e) {
     if (e instanceof TraceImportError) throw new CliError(`${file}: ${e.message}`);
     throw e;
@@ -123,11 +125,11 @@ function importTrace(file: string, options: ImportOptions): { imported: TraceImp
 
 const iso = (t_s: number) => new Date(Math.round(t_s * 1000)).toISOString();
 
-function importCommand(argv: string[]): unknown {
+async function importCommand(argv: string[]): Promise<unknown> {
   const { values, positionals } = parseArgs({ args: argv, options: IMPORT_FLAGS, allowPositionals: true, strict: true });
   if (positionals.length !== 1) throw new CliError(`give exactly one FILE to import\n${USAGE}`);
   const file = positionals[0]!;
-  const { imported } = importTrace(file, importOptionsFrom(values));
+  const { imported } = await importTrace(file, importOptionsFrom(values));
   const { series, warnings } = imported;
   const n = series.t_s.length;
   return {
@@ -156,7 +158,7 @@ function modelInputs(values: Values): { product: Product; pack: Pack | undefined
   return { product, pack, model: model.data };
 }
 
-function predictCommand(argv: string[]): unknown {
+async function predictCommand(argv: string[]): Promise<unknown> {
   const { values } = parseArgs({
     args: argv,
     options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, model: { type: "string" }, out: { type: "string" } },
@@ -164,7 +166,7 @@ function predictCommand(argv: string[]): unknown {
   });
   const importOptions = importOptionsFrom(values);
   const { product, pack, model } = modelInputs(values);
-  const { imported } = importTrace(String(values.trace), importOptions);
+  const { imported } = await importTrace(String(values.trace), importOptions);
   const { series } = imported;
   const air = bridgeGaps(series);
   const p = predict(product, pack, series.t_s, air, { model });
@@ -201,7 +203,7 @@ function predictCommand(argv: string[]): unknown {
   };
 }
 
-function reviewCommand(argv: string[]): unknown {
+async function reviewCommand(argv: string[]): Promise<unknown> {
   const { values } = parseArgs({
     args: argv,
     options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, limits: { type: "string" }, model: { type: "string" }, window: { type: "string" }, uncertainty: { type: "string" } },
@@ -212,7 +214,7 @@ function reviewCommand(argv: string[]): unknown {
   const { product, pack, model } = modelInputs(values);
   const limits = readJsonFile(values.limits, limitSetSchema);
   const window = values.window === undefined ? undefined : parseWindow(values.window);
-  const { imported, bytes } = importTrace(String(values.trace), importOptions);
+  const { imported, bytes } = await importTrace(String(values.trace), importOptions);
   const bad = unsupportedRule(limits, imported.series.probe_C !== undefined);
   if (bad) {
     const why = bad.channel === "probe" ? "the trace has no product-probe column (--product-col)" : "a review does not produce it";
@@ -230,7 +232,7 @@ function reviewCommand(argv: string[]): unknown {
   };
 }
 
-function calibrateCommand(argv: string[]): unknown {
+async function calibrateCommand(argv: string[]): Promise<unknown> {
   const { values } = parseArgs({
     args: argv,
     options: { ...IMPORT_FLAGS, trace: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, "fit-initial": { type: "boolean" }, "fit-offset": { type: "boolean" }, "mismatch-factor": { type: "string" } },
@@ -244,7 +246,7 @@ function calibrateCommand(argv: string[]): unknown {
   const pack = values.pack ? readJsonFile(values.pack, packSchema) : undefined;
   if (pack && !product) throw new CliError("--pack: give the --product too");
   if (product && !pack && product.h_W_m2K === undefined) throw new CliError(`${values.product}: field 'h_W_m2K': give the product's surface coefficient, or a --pack`);
-  const { imported } = importTrace(values.trace, importOptions);
+  const { imported } = await importTrace(values.trace, importOptions);
   const probe = imported.series.probe_C;
   if (!probe) throw new CliError(`${values.trace}: no product-probe column was found; name it with --product-col`);
   let r;
@@ -267,7 +269,7 @@ function calibrateCommand(argv: string[]): unknown {
   };
 }
 
-function sizeCommand(argv: string[]): unknown {
+async function sizeCommand(argv: string[]): Promise<unknown> {
   const { values } = parseArgs({
     args: argv,
     options: { ...IMPORT_FLAGS, profile: { type: "string" }, product: { type: "string" }, pack: { type: "string" }, limits: { type: "string" }, vary: { type: "string" }, min: { type: "string" }, max: { type: "string" }, model: { type: "string" } },
@@ -288,7 +290,7 @@ function sizeCommand(argv: string[]): unknown {
   const bad = unsupportedRule(limits);
   if (bad) throw new CliError(`${values.limits}: field 'rules.${bad.index}.channel': '${bad.channel}' is not available in a design study`);
   const profileFile = values.profile!;
-  const series = /\.json$/i.test(profileFile) ? profileSeries(readJsonFile(profileFile, profileSchema)) : importTrace(profileFile, importOptions).imported.series;
+  const series = /\.json$/i.test(profileFile) ? profileSeries(readJsonFile(profileFile, profileSchema)) : (await importTrace(profileFile, importOptions)).imported.series;
   let r;
   try {
     r = size({ series, product, pack, limits, variable, min, max, model: model.data });
@@ -334,7 +336,7 @@ async function verifyCommand(argv: string[]): Promise<{ output: unknown; ok: boo
   return { output: { ok, chain, reviews }, ok };
 }
 
-const COMMANDS: Record<string, (argv: string[]) => unknown> = {
+const COMMANDS: Record<string, (argv: string[]) => Promise<unknown>> = {
   import: importCommand,
   predict: predictCommand,
   review: reviewCommand,
@@ -356,7 +358,7 @@ async function main(argv: string[]): Promise<number> {
       process.stdout.write(JSON.stringify(output, null, 2) + "\n");
       return ok ? 0 : 1;
     }
-    process.stdout.write(JSON.stringify(run!(rest), null, 2) + "\n");
+    process.stdout.write(JSON.stringify(await run!(rest), null, 2) + "\n");
     return 0;
   } catch (e) {
     if (e instanceof CliError) {

@@ -2,7 +2,7 @@ import { z } from "zod";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { limitSetSchema, type LimitSet } from "../exposure/limits";
 import { runReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewOptions } from "../review";
-import { importCsv, optionsFromSettings, sha256Hex } from "../trace";
+import { importTraceFile, optionsFromSettings, sha256Hex } from "../trace";
 import { getTrace } from "../db/traces";
 import { getDefinition } from "../db/definitions";
 import { createReview, getReview, signReview } from "../db/reviews";
@@ -132,7 +132,7 @@ export async function verifyStoredReview(id: string): Promise<ReproductionCheck>
   const trace = (await getTrace(review.traceId))!;
   if (sha256Hex(trace.original) !== trace.meta.sha256) problems.push("the trace's original bytes no longer match their SHA-256");
   try {
-    const again = importCsv(trace.original, optionsFromSettings(trace.meta.importSettings));
+    const again = await importTraceFile(trace.original, optionsFromSettings(trace.meta.importSettings));
     const same = (x: Float64Array, y: Float64Array) => x.length === y.length && Buffer.compare(Buffer.from(x.buffer, x.byteOffset, x.byteLength), Buffer.from(y.buffer, y.byteOffset, y.byteLength)) === 0;
     const probeSame = again.series.probe_C === undefined ? trace.series.probe_C === undefined : trace.series.probe_C !== undefined && same(again.series.probe_C, trace.series.probe_C);
     if (!same(again.series.t_s, trace.series.t_s) || !same(again.series.air_C, trace.series.air_C) || !probeSame) problems.push("re-importing the original bytes with the recorded settings gives a different series");

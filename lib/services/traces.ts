@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { importCsv, importOptionsSchema, TraceImportError } from "../trace";
+import { importOptionsSchema, importTraceFile, TraceImportError } from "../trace";
 import { createTrace } from "../db/traces";
 
 export const uploadSchema = z.object({
@@ -18,7 +18,7 @@ export async function importAndStoreTrace(bytes: Uint8Array, input: z.input<type
   const req = uploadSchema.parse(input);
   let imported;
   try {
-    imported = importCsv(bytes, req.options);
+    imported = await importTraceFile(bytes, req.options);
   } catch (e) {
     if (e instanceof TraceImportError) return { ok: false, message: `${req.fileName}: ${e.message}. Nothing was stored.` };
     throw e;

@@ -30,7 +30,7 @@ const MAX_LISTED = 5;
 const PLAIN_READING = /^-?\d{1,4}\.\d{1,6}$/;
 const HEAD_BYTES = 1 << 20;
 const TIME_HEADER = /time|date|stamp|zeit|heure|hora|datum|elapsed|epoch|unix/i;
-const PRODUCT_HEADER = /product|probe|core|simulant|food|sample|item/i;
+const PRODUCT_HEADER = /product|produkt|produit|producto|probe|core|simulant|food|sample|item/i;
 const AIR_HEADER = /air|ambient|amb\b|room|reefer|temp|°|deg/i;
 
 const fail = (message: string, row?: number, column?: string): never => {

@@ -4,3 +4,4 @@ export * from "./errors";
 export * from "./importCsv";
 export * from "./hash";
 export * from "./values";
+export * from "./importFile";

@@ -11,6 +11,8 @@ export const TIME_FORMATS = ["datetime", "unix-s", "unix-ms", "elapsed-s", "elap
  * that importing the same bytes with them again yields the identical series.
  */
 export const importOptionsSchema = z.object({
+  /** sheet of an .xlsx workbook (the first when absent) */
+  sheet: z.string().min(1).optional(),
   encoding: z.enum(["utf-8", "utf-16le", "utf-16be", "windows-1252"]).optional(),
   delimiter: z.enum(DELIMITERS, { error: "delimiter must be one of , ; tab |" }).optional(),
   /** 1-based row of the column names */
@@ -46,6 +48,9 @@ export type ImportOptions = z.infer<typeof importOptionsSchema>;
 /** The settings an import actually used: complete, stored beside the trace. */
 export interface ResolvedImportSettings {
   parser: "corelag-csv-2";
+  /** "xlsx" when the file was a workbook, read as comma-separated text of one sheet */
+  source?: "xlsx";
+  sheet?: string;
   encoding: "utf-8" | "utf-16le" | "utf-16be" | "windows-1252";
   delimiter: (typeof DELIMITERS)[number];
   headerRow: number;
@@ -70,8 +75,9 @@ export interface ResolvedImportSettings {
 
 /** Stored settings back into options: importing with them repeats the import exactly. */
 export function optionsFromSettings(s: ResolvedImportSettings): ImportOptions {
-  const { parser: _p, airUnit, productUnit, ...rest } = s;
+  const { parser: _p, source: _s, airUnit, productUnit, ...rest } = s;
   void _p;
+  void _s;
   // each column's resolved unit is kept by passing the air unit as the shared unit when they agree
   return { ...rest, unit: s.unit ?? (productUnit === undefined || productUnit === airUnit ? airUnit : undefined) };
 }

@@ -69,6 +69,14 @@ test("a file that cannot be imported is refused with row and column, and nothing
   await expect(page.getByText("broken.csv")).toHaveCount(0);
 });
 
+test("an .xlsx workbook is previewed and imported like a text export", async ({ page }) => {
+  await page.goto("/traces");
+  await page.getByLabel("Logger file (CSV)").setInputFiles(path.join(__dirname, "../fixtures/traces/good/20-workbook-date-cells.xlsx"));
+  await expect(page.getByTestId("preview-summary")).toContainText("3 samples from 2026-03-02T06:00:00Z to 2026-03-02T06:10:00Z; workbook sheet 'Sheet1'");
+  await page.getByRole("button", { name: "Upload and import" }).click();
+  await expect(page.getByTestId("trace-samples")).toHaveText("3");
+});
+
 test("an ambiguous date order is asked for, and a second channel can be taken as the product probe", async ({ page }) => {
   await page.goto("/traces");
   const csv = "Serial: QX-1\nTime;Air (°C);Product simulant (°C)\n03/04/2026 06:00;3,1;2,0\n03/04/2026 06:30;3,4;2,1\n03/04/2026 07:00;3,9;2,3\n";

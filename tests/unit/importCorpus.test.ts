@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { readFileSync } from "node:fs";
 import path from "node:path";
-import { importCsv, type ImportOptions } from "@/lib/trace";
+import { importTraceFile, type ImportOptions } from "@/lib/trace";
 
 // The committed corpus (tests/fixtures/traces, written by make-corpus.ts; invented data) with the
 // outcome expected for each file: imported with these times, readings, settings and warnings, or
@@ -16,18 +16,18 @@ const files = Object.entries(expected).filter(([k]) => !k.startsWith("_")) as Ar
 describe("import corpus", () => {
   it("has at least 40 bad or hostile files and a good file for each supported format", () => {
     expect(files.filter(([k]) => k.startsWith("bad/")).length).toBeGreaterThanOrEqual(40);
-    expect(files.filter(([k]) => k.startsWith("good/")).length).toBeGreaterThanOrEqual(18);
+    expect(files.filter(([k]) => k.startsWith("good/")).length).toBeGreaterThanOrEqual(21);
   });
 
   for (const [name, want] of files) {
-    it(`${name}: ${want.refused ? "refused with its row and column" : "imported as expected"}`, () => {
+    it(`${name}: ${want.refused ? "refused with its row and column" : "imported as expected"}`, async () => {
       const bytes = readFileSync(path.join(DIR, name));
-      const run = () => importCsv(bytes, options[name] ?? {});
+      const run = () => importTraceFile(bytes, options[name] ?? {});
       if (want.refused) {
-        expect(run).toThrow(want.refused);
+        await expect(run()).rejects.toThrow(want.refused);
         return;
       }
-      const r = run();
+      const r = await run();
       const got = want.imported!;
       expect(Array.from(r.series.t_s, (t) => new Date(t * 1000).toISOString())).toEqual(got.times);
       expect(Array.from(r.series.air_C, (x) => (Number.isNaN(x) ? null : Number(x.toFixed(6))))).toEqual(got.air_C);
