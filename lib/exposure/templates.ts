@@ -23,6 +23,20 @@ export const LIMIT_TEMPLATES: readonly LimitTemplate[] = [
     },
   },
   {
+    key: "cooling-cooked-food",
+    title: "Cooling cooked food: 57 °C to 21 °C within 2 hours, and to 5 °C within 6 hours in total",
+    source:
+      "US FDA Food Code, §3-501.14 (cooling). Written as time above each temperature, so the trace must start when the food is at 57 °C and cooling begins. " + DEFER,
+    limits: {
+      name: "Cooling cooked food (from template)",
+      sensor_accuracy_K: 0.5,
+      rules: [
+        { id: "core-above-21C-2h", channel: "core", above_C: 21, max_cumulative_min: 120 },
+        { id: "core-above-5C-6h", channel: "core", above_C: 5, max_cumulative_min: 360 },
+      ],
+    },
+  },
+  {
     key: "chilled-8C-uk",
     title: "Chilled food, 8 °C with a one-off tolerance under 4 hours",
     source: "UK food hygiene regulations, Schedule 4: chilled food not above 8 °C, one-off tolerance under 4 hours. " + DEFER,

@@ -83,3 +83,26 @@ describe("limitSetSchema", () => {
     expect(r.error!.issues[0]!.message).toMatch(/unique/);
   });
 });
+
+describe("limit templates", () => {
+  it("every template is a valid limit set that names its source and defers to local rules", async () => {
+    const { LIMIT_TEMPLATES } = await import("@/lib/exposure/templates");
+    for (const t of LIMIT_TEMPLATES) {
+      expect(limitSetSchema.safeParse(t.limits).success).toBe(true);
+      expect(t.source).toMatch(/§|Directive|regulations/);
+      expect(t.source).toMatch(/Local regulations and your own food-safety plan govern/);
+    }
+  });
+
+  it("the cooling template passes a product that cools from 57 °C to 21 °C in 110 min and to 5 °C in 350 min", async () => {
+    const { LIMIT_TEMPLATES } = await import("@/lib/exposure/templates");
+    const cooling = LIMIT_TEMPLATES.find((t) => t.key === "cooling-cooked-food")!.limits;
+    // piecewise-linear core: 57 → 21 °C over 110 min, then 21 → 5 °C by 350 min, then 3 °C
+    const c = ch([0, 110 * 60, 350 * 60, 400 * 60], [57, 21, 5, 3]);
+    const findings = cooling.rules.map((r) => evaluateRule(r, c, 0));
+    expect(findings.map((f) => f.status)).toEqual(["pass", "pass"]);
+    // 10 minutes slower to 21 °C fails the first rule
+    const slow = ch([0, 130 * 60, 350 * 60, 400 * 60], [57, 21, 5, 3]);
+    expect(evaluateRule(cooling.rules[0]!, slow, 0).status).toBe("fail");
+  });
+});
