@@ -2,7 +2,7 @@
 
 import { useActionState, useState } from "react";
 import { saveLimitSet } from "@/app/actions/definitions";
-import { FormMessage } from "@/app/components/Field";
+import { DefinitionFooter } from "@/app/components/DefinitionFooter";
 import { CHANNELS, type LimitSet } from "@/lib/exposure/limits";
 import type { LimitTemplate } from "@/lib/exposure/templates";
 import type { FormState } from "@/lib/validation";
@@ -122,11 +122,7 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
         ))}
       <p className="hint muted">A rule with no maximum allows no time beyond its threshold. Leave a maximum blank to not use it.</p>
       <button type="button" className="secondary" onClick={() => setRules([...rules, emptyRule(rules.length + 1)])}>Add a rule</button>
-      <input type="hidden" name="definition" value={JSON.stringify(definition)} />
-      <input type="hidden" name="lineage" value={editing?.lineage ?? ""} />
-      <input type="hidden" name="editing" value={editing?.id ?? ""} />
-      <FormMessage state={state} />
-      <button type="submit" disabled={pending}>{pending ? "Saving…" : editing ? "Save new version" : "Save limit set"}</button>
+      <DefinitionFooter definition={definition} editing={editing} state={state} pending={pending} noun="limit set" />
     </form>
   );
 }

@@ -2,7 +2,7 @@
 
 import { useActionState, useMemo, useState } from "react";
 import { savePack } from "@/app/actions/definitions";
-import { FormMessage } from "@/app/components/Field";
+import { DefinitionFooter } from "@/app/components/DefinitionFooter";
 import { NumberField, num } from "@/app/components/NumberField";
 import { packSchema, type Pack } from "@/lib/thermal/definitions";
 import { resistances } from "@/lib/thermal/resistances";
@@ -86,11 +86,7 @@ export function PackEditor({ editing }: { editing?: { id: string; lineage: strin
           </div>
         ))}
         <button type="button" className="secondary" onClick={() => setCoolants([...coolants, { name: "gel pack", mass_kg: "", melt_C: "0", latent_J_kg: "", cp_solid_J_kgK: "", cp_liquid_J_kgK: "", initial_C: "" }])}>Add a coolant</button>
-        <input type="hidden" name="definition" value={JSON.stringify(def)} />
-        <input type="hidden" name="lineage" value={editing?.lineage ?? ""} />
-        <input type="hidden" name="editing" value={editing?.id ?? ""} />
-        <FormMessage state={state} />
-        <button type="submit" disabled={pending}>{pending ? "Saving…" : editing ? "Save new version" : "Save pack"}</button>
+        <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="pack" />
       </form>
       <div>
         <h2 style={{ marginTop: 0 }}>Wall resistance</h2>

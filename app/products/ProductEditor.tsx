@@ -2,7 +2,7 @@
 
 import { useActionState, useMemo, useState } from "react";
 import { saveProduct } from "@/app/actions/definitions";
-import { FormMessage } from "@/app/components/Field";
+import { DefinitionFooter } from "@/app/components/DefinitionFooter";
 import { NumberField, num } from "@/app/components/NumberField";
 import { productSchema, packSchema, type Pack, type Product } from "@/lib/thermal/definitions";
 import { screenDefinition } from "@/lib/thermal/predict";
@@ -173,11 +173,7 @@ export function ProductEditor({ editing, packs }: { editing?: { id: string; line
             </div>
           )}
         </fieldset>
-        <input type="hidden" name="definition" value={JSON.stringify(def)} />
-        <input type="hidden" name="lineage" value={editing?.lineage ?? ""} />
-        <input type="hidden" name="editing" value={editing?.id ?? ""} />
-        <FormMessage state={state} />
-        <button type="submit" disabled={pending}>{pending ? "Saving…" : editing ? "Save new version" : "Save product"}</button>
+        <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="product" />
       </form>
       <div>
         <h2 style={{ marginTop: 0 }}>Screening preview</h2>

@@ -2,7 +2,7 @@
 
 import { useActionState, useMemo, useState } from "react";
 import { saveProfile } from "@/app/actions/definitions";
-import { FormMessage } from "@/app/components/Field";
+import { DefinitionFooter } from "@/app/components/DefinitionFooter";
 import { num } from "@/app/components/NumberField";
 import { profileSchema, profileSeries, type Profile } from "@/lib/design/profile";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
@@ -60,12 +60,8 @@ export function ProfileEditor({ examples }: { examples: readonly Profile[] }) {
       {series && (
         <TemperatureChart title="Profile preview" height={200} times_ms={Array.from(series.t_s, (t) => t * 1000)} lines={[{ label: `Air (${series.t_s.length.toLocaleString("en")} samples)`, color: "var(--air)", values: Array.from(series.air_C) }]} />
       )}
-      <input type="hidden" name="definition" value={JSON.stringify(def)} />
-      <input type="hidden" name="lineage" value="" />
-      <input type="hidden" name="editing" value="" />
-      <FormMessage state={state} />
       {Object.entries(state.fieldErrors ?? {}).map(([k, m]) => <p key={k} className="field-error">{k}: {m}</p>)}
-      <button type="submit" disabled={pending || !parsed.success}>Save profile</button>
+      <DefinitionFooter definition={def} state={state} pending={pending} noun="profile" disabled={!parsed.success} />
     </form>
   );
 }
