@@ -170,8 +170,11 @@ function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedIm
   }
   let startTime = options.startTime;
   if (timeFormat.startsWith("elapsed") && !startTime) {
-    startTime = startFromMetadata(headRows, headerIdx) ?? fail(`column '${header[timeIdx]}' holds elapsed times: give the start time (ISO 8601 with an offset)`);
-    if (!/Z|[+-]\d{2}:?\d{2}$/.test(startTime) && !options.timeZone) startTime = `${startTime.replace(" ", "T")}Z`;
+    const found = startFromMetadata(headRows, headerIdx) ?? fail(`column '${header[timeIdx]}' holds elapsed times: give the start time (ISO 8601 with an offset)`);
+    // A start written without an offset is read in the import's time zone, then kept as UTC.
+    const wall = parseWallClock(found, "ymd");
+    if (!wall) fail(`the start time '${found}' in the file's header lines is not a date and time`);
+    startTime = new Date(new ZoneResolver(options.timeZone ?? "UTC").toEpochMs(wall!, -Infinity)).toISOString();
   }
 
   // Day-first or month-first, from dates such as 13/04 or 04/13 in the data.

@@ -103,3 +103,14 @@ describe("parseReading and ZoneResolver", () => {
     expect(z.skipped).toBe(1);
   });
 });
+
+describe("elapsed times", () => {
+  it("importCsv reads a start time without an offset from the header lines in the chosen zone", () => {
+    const text = "Start time: 2026-07-01 08:00\nElapsed (min),Air\n0,3.0\n30,3.5\n";
+    const r = importCsv(new TextEncoder().encode(text), { timeZone: "Europe/Berlin" });
+    // 08:00 CEST (UTC+2) is 06:00 UTC, whatever the machine's own zone (these tests run in America/Sao_Paulo)
+    expect(r.series.t_s[0]).toBe(Date.UTC(2026, 6, 1, 6) / 1000);
+    expect(r.series.t_s[1]! - r.series.t_s[0]!).toBe(1800);
+    expect(r.settings.startTime).toBe("2026-07-01T06:00:00.000Z");
+  });
+});
