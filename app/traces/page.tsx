@@ -20,7 +20,7 @@ export default async function TracesPage() {
         ) : (
           <table>
             <thead>
-              <tr><th>Name</th><th>File</th><th className="num">Samples</th><th>From (UTC)</th><th>To (UTC)</th><th>Warnings</th></tr>
+              <tr><th>Name</th><th>File</th><th className="num">Samples</th><th>From (UTC)</th><th>To (UTC)</th><th>Channels</th><th>Warnings</th></tr>
             </thead>
             <tbody>
               {traces.map((t) => (
@@ -30,6 +30,7 @@ export default async function TracesPage() {
                   <td className="num">{t.sampleCount}</td>
                   <td>{t.startAt.toISOString().slice(0, 16).replace("T", " ")}</td>
                   <td>{t.endAt.toISOString().slice(0, 16).replace("T", " ")}</td>
+                  <td>{t.hasProbe ? "air + product probe" : "air"}</td>
                   <td>{t.warnings.length || ""}</td>
                 </tr>
               ))}

@@ -31,7 +31,18 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
             {s.productColumn ? `; product probe ‘${s.productColumn}’` : ""}; gaps over {s.gapMultiple} median intervals; plausible {s.plausibleMin_C} to {s.plausibleMax_C} °C
             {s.missing.length ? `; “no reading” codes ${s.missing.join(", ")}` : ""}
           </dd>
-          <dt>Gaps</dt><dd>{gaps.length === 0 ? "none" : `${gaps.length} (bridged linearly by the models)`}</dd>
+          <dt>Gaps</dt>
+          <dd data-testid="trace-gaps">
+            {gaps.length === 0 ? "none" : `${gaps.length} (bridged linearly by the models; rules judged across them are at best inconclusive)`}
+            {gaps.length > 0 && (
+              <ul style={{ margin: "0.3rem 0 0", paddingLeft: "1.1rem" }}>
+                {gaps.slice(0, 20).map((g) => (
+                  <li key={g.start_s}>{new Date(g.start_s * 1000).toISOString().slice(0, 16).replace("T", " ")} – {new Date(g.end_s * 1000).toISOString().slice(0, 16).replace("T", " ")} UTC ({readableDuration(g.duration_s)})</li>
+                ))}
+                {gaps.length > 20 && <li>and {gaps.length - 20} more</li>}
+              </ul>
+            )}
+          </dd>
         </dl>
         {meta.warnings.length > 0 && (
           <>
