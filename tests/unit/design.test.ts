@@ -96,3 +96,21 @@ describe("profiles", () => {
     }
   });
 });
+
+describe("size with a rule that is not monotone in the variable", () => {
+  it("size reports when thinner walls also pass a longest-continuous-time rule, and gives the lasting boundary", () => {
+    // A thin wall lets the core heat fast and cool fast (short excursions above 8 °C); a thicker wall
+    // stretches each excursion past the 240-minute allowance; a much thicker one keeps the core below 8 °C.
+    const tray: Product = { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, initial_C: 3.2 };
+    const box: Pack = { name: "box", h_outside_W_m2K: 8, area_m2: 0.1, layers: [{ name: "foam", thickness_m: 0.01, k_W_mK: 0.035 }], coolants: [] };
+    const rule = { name: "uk", rules: [{ id: "core-above-8C", channel: "core" as const, above_C: 8, max_continuous_min: 240 }] };
+    const r = size({ series: profileSeries(EXAMPLE_PROFILES[0]!), product: tray, pack: box, limits: rule, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.15 });
+    expect(r.feasible).toBe(true);
+    expect(r.curve[0]!.feasible).toBe(true); // 1 mm passes: short excursions
+    expect(r.curve.some((c) => !c.feasible)).toBe(true);
+    expect(r.reason).toMatch(/feasibility is not monotone in layer:1:thickness_m here/);
+    // every curve point from the value on passes
+    expect(r.curve.filter((c) => c.x >= r.value!).every((c) => c.feasible)).toBe(true);
+    expect(r.value!).toBeGreaterThan(0.05);
+  });
+});
