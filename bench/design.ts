@@ -2,7 +2,7 @@
 // samples of a 10,000-sample lumped review.
 import { performance } from "node:perf_hooks";
 import { size } from "../lib/design/sizing";
-import { monteCarlo } from "../lib/design/uncertainty";
+import { monteCarlo } from "../lib/uncertainty/monteCarlo";
 import { profileSeries, profileSchema } from "../lib/design/profile";
 import type { Pack, Product } from "../lib/thermal/definitions";
 

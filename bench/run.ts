@@ -1,7 +1,7 @@
 // Speed figures for the engine (`npm run bench`). Not a test: prints numbers with their accuracy.
 import { performance } from "node:perf_hooks";
 import { lumpedResponse } from "../lib/thermal/lumped";
-import { mulberry32 } from "../lib/design/random";
+import { mulberry32 } from "../lib/uncertainty/random";
 import { timeBeyond } from "../lib/exposure/timeAbove";
 import { predict } from "../lib/thermal/predict";
 import type { Product } from "../lib/thermal/definitions";

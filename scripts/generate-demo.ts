@@ -5,7 +5,7 @@ import { writeFileSync, mkdirSync } from "node:fs";
 import path from "node:path";
 import { lumpedResponse } from "../lib/thermal/lumped";
 import { EXAMPLE_PROFILES } from "../lib/design/profile";
-import { mulberry32 } from "../lib/design/random";
+import { mulberry32 } from "../lib/uncertainty/random";
 
 
 const OUT = path.join(__dirname, "..", "public", "demo");

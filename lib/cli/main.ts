@@ -14,7 +14,7 @@ import { calibrateLumped } from "../design/calibrate";
 import { profileSchema, profileSeries } from "../design/profile";
 import { parseVariable } from "../design/vary";
 import { size } from "../design/sizing";
-import { uncertaintySpecSchema } from "../design/uncertainty";
+import { uncertaintySpecSchema } from "../uncertainty/monteCarlo";
 
 class CliError extends Error {}
 
@@ -324,16 +324,10 @@ function parseWindow(text: string): { start_s: number; end_s: number } {
 
 async function verifyCommand(argv: string[]): Promise<{ output: unknown; ok: boolean }> {
   const { values } = parseArgs({ args: argv, options: { review: { type: "string" }, format: { type: "string", default: "json" } }, strict: true });
-  const { listAudit } = await import("../db/audit");
-  const { allReviewIds } = await import("../db/reviews");
-  const { verifyStoredReview } = await import("../services/reviews");
-  const { verifyAuditChain } = await import("../review/audit");
-  const chain = verifyAuditChain(await listAudit());
-  const ids = values.review ? [values.review] : await allReviewIds();
-  const reviews = [];
-  for (const id of ids) reviews.push(await verifyStoredReview(id));
-  const ok = chain.ok && reviews.every((r) => r.reproduced);
-  return { output: { ok, chain, reviews }, ok };
+  // Loaded lazily so that the other commands never open the database.
+  const { verifyDatabase } = await import("../services/verify");
+  const result = await verifyDatabase(values.review);
+  return { output: result, ok: result.ok };
 }
 
 const COMMANDS: Record<string, (argv: string[]) => Promise<unknown>> = {

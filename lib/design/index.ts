@@ -1,6 +1,4 @@
-export * from "./random";
 export * from "./calibrate";
 export * from "./profile";
 export * from "./vary";
 export * from "./sizing";
-export * from "./uncertainty";

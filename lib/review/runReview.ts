@@ -9,7 +9,7 @@ import { timeBeyond } from "../exposure/timeAbove";
 import { clip, type Span } from "../exposure/window";
 import { bandLabel, DEFAULT_BAND_EDGES_C, timeInBands } from "../exposure/bands";
 import { CAUTIONS } from "./cautions";
-import { monteCarlo, type UncertaintySpec } from "../design/uncertainty";
+import { monteCarlo, type UncertaintySpec } from "../uncertainty/monteCarlo";
 
 /** Bumped whenever a change to the engine could change a stored result. */
 export const ENGINE_VERSION = "0.3.0";

@@ -6,7 +6,7 @@ import { importTraceFile, optionsFromSettings, sha256Hex } from "../trace";
 import { getTrace } from "../db/traces";
 import { getDefinition } from "../db/definitions";
 import { createReview, getReview, signReview } from "../db/reviews";
-import { uncertaintySpecSchema } from "../design/uncertainty";
+import { uncertaintySpecSchema } from "../uncertainty/monteCarlo";
 
 const isoTime = z.iso.datetime({ offset: true, message: "must be an ISO 8601 date-time with Z or an offset" });
 

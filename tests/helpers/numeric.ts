@@ -1,5 +1,5 @@
 import { expect } from "vitest";
-import { mulberry32 } from "@/lib/design/random";
+import { mulberry32 } from "@/lib/uncertainty/random";
 
 /** Seeded uniform generator for repeatable test inputs (the project's own, lib/design/random.ts). */
 export const seeded = mulberry32;

@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { calibrateLumped } from "@/lib/design/calibrate";
 import { lumpedResponse } from "@/lib/thermal/lumped";
-import { mulberry32, normalSource } from "@/lib/design/random";
+import { mulberry32, normalSource } from "@/lib/uncertainty/random";
 
 // Parameter recovery: synthetic probe data from the exact lumped response with known tau, plus
 // white noise of 0.1 K (a typical logger resolution), seeded so each trial is repeatable.

@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
 import { size } from "@/lib/design/sizing";
-import { monteCarlo } from "@/lib/design/uncertainty";
+import { monteCarlo } from "@/lib/uncertainty/monteCarlo";
 import { profileSeries, EXAMPLE_PROFILES, profileSchema } from "@/lib/design/profile";
 import { parseVariable } from "@/lib/design/vary";
 import { predict } from "@/lib/thermal/predict";

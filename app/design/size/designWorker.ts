@@ -1,7 +1,7 @@
 // Runs sizing and Monte Carlo studies off the page's thread: progress messages, and the page can
 // cancel by ending the worker.
 import { size } from "@/lib/design/sizing";
-import { monteCarlo, type UncertaintySpec } from "@/lib/design/uncertainty";
+import { monteCarlo, type UncertaintySpec } from "@/lib/uncertainty/monteCarlo";
 import type { DesignVariable } from "@/lib/design/vary";
 import type { Pack, Product, ModelChoice } from "@/lib/thermal/definitions";
 import type { LimitSet } from "@/lib/exposure/limits";
