@@ -46,10 +46,11 @@ export async function signOffReview(_prev: FormState, form: FormData): Promise<F
     reviewer: textField(form, "reviewer") ?? "",
     decision: textField(form, "decision") ?? "",
     comment: textField(form, "comment") || undefined,
-    suggested: textField(form, "suggested") ?? "",
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
+  // The service checks the decision against the stored outcome; a form field cannot waive the comment.
   const res = await signOff(id, parsed.data);
+  if (!res.ok && res.reason === "comment-required") return { fieldErrors: { comment: res.message }, values };
   if (!res.ok) return { message: res.message, values };
   revalidatePath(`/reviews/${id}`);
   redirect(`/reviews/${id}`);

@@ -1,5 +1,6 @@
 "use client";
 
+import { ActionForm } from "@/app/components/ActionForm";
 import { useActionState, useState } from "react";
 import { saveLimitSet } from "@/app/actions/definitions";
 import { DefinitionFooter } from "@/app/components/DefinitionFooter";
@@ -64,7 +65,7 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
   };
 
   return (
-    <form action={action} className="stack" style={{ maxWidth: "none" }} aria-label="Limit set">
+    <ActionForm action={action} className="stack" style={{ maxWidth: "none" }} aria-label="Limit set">
       {editing && <p className="muted">Editing version {editing.version}: saving creates version {editing.version + 1}.</p>}
       <label htmlFor="f-template">
         Start from a template
@@ -123,6 +124,6 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
       <p className="hint muted">A rule with no maximum allows no time beyond its threshold. Leave a maximum blank to not use it.</p>
       <button type="button" className="secondary" onClick={() => setRules([...rules, emptyRule(rules.length + 1)])}>Add a rule</button>
       <DefinitionFooter definition={definition} editing={editing} state={state} pending={pending} noun="limit set" />
-    </form>
+    </ActionForm>
   );
 }

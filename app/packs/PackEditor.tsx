@@ -1,5 +1,6 @@
 "use client";
 
+import { ActionForm } from "@/app/components/ActionForm";
 import { useActionState, useMemo, useState } from "react";
 import { savePack } from "@/app/actions/definitions";
 import { DefinitionFooter } from "@/app/components/DefinitionFooter";
@@ -53,7 +54,7 @@ export function PackEditor({ editing }: { editing?: { id: string; lineage: strin
 
   return (
     <div className="grid2">
-      <form action={action} className="stack" aria-label="Pack definition">
+      <ActionForm action={action} className="stack" aria-label="Pack definition">
         {editing && <p className="muted">Editing version {editing.version}: saving creates version {editing.version + 1}.</p>}
         <label>
           Name
@@ -87,7 +88,7 @@ export function PackEditor({ editing }: { editing?: { id: string; lineage: strin
         ))}
         <button type="button" className="secondary" onClick={() => setCoolants([...coolants, { name: "gel pack", mass_kg: "", melt_C: "0", latent_J_kg: "", cp_solid_J_kgK: "", cp_liquid_J_kgK: "", initial_C: "" }])}>Add a coolant</button>
         <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="pack" />
-      </form>
+      </ActionForm>
       <div>
         <h2 style={{ marginTop: 0 }}>Wall resistance</h2>
         {preview ? (

@@ -1,5 +1,6 @@
 "use client";
 
+import { ActionForm } from "@/app/components/ActionForm";
 import { useActionState, useMemo, useState } from "react";
 import { saveProduct } from "@/app/actions/definitions";
 import { DefinitionFooter } from "@/app/components/DefinitionFooter";
@@ -122,7 +123,7 @@ export function ProductEditor({ editing, packs }: { editing?: { id: string; line
 
   return (
     <div className="grid2">
-      <form action={action} className="stack" aria-label="Product definition">
+      <ActionForm action={action} className="stack" aria-label="Product definition">
         {editing && <p className="muted">Editing version {editing.version}: saving creates version {editing.version + 1}.</p>}
         <label>
           Name
@@ -174,7 +175,7 @@ export function ProductEditor({ editing, packs }: { editing?: { id: string; line
           )}
         </fieldset>
         <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="product" />
-      </form>
+      </ActionForm>
       <div>
         <h2 style={{ marginTop: 0 }}>Screening preview</h2>
         <div className="stack" style={{ display: "grid", gap: "0.5rem", marginBottom: "0.8rem" }}>

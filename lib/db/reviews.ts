@@ -64,14 +64,25 @@ export async function createReview(r: NewReview): Promise<string> {
   });
 }
 
-export type ReviewChange = { ok: true } | { ok: false; reason: "not-found" | "signed"; message: string };
+export type ReviewChange = { ok: true } | { ok: false; reason: "not-found" | "signed" | "comment-required"; message: string };
 
-/** Sign-off: the reviewer's decision, final. A decision that differs from the suggestion needs a comment (checked by the caller's schema). */
+/** Shortest comment accepted as a reason for a decision that differs from the stored outcome. */
+export const MIN_DIFFERING_COMMENT_CHARS = 5;
+export const COMMENT_REQUIRED_MESSAGE = "a decision that differs from the suggested outcome needs a comment saying why";
+
+/**
+ * Sign-off: the reviewer's decision, final. A decision that differs from the STORED suggested outcome
+ * needs a comment; this is checked here, inside the transaction, against the row itself, so no form
+ * field (a hidden "suggested" value, say) can waive it.
+ */
 export async function signReview(id: string, s: { reviewer: string; decision: Outcome; comment?: string }): Promise<ReviewChange> {
   return db.$transaction(async (tx) => {
     const row = await tx.review.findUnique({ where: { id }, select: { status: true, outcome: true } });
     if (!row) return { ok: false, reason: "not-found", message: "that review does not exist" };
     if (row.status === "signed") return { ok: false, reason: "signed", message: "this review is already signed off; a correction is a new review" };
+    if (s.decision !== row.outcome && (s.comment ?? "").trim().length < MIN_DIFFERING_COMMENT_CHARS) {
+      return { ok: false, reason: "comment-required", message: COMMENT_REQUIRED_MESSAGE };
+    }
     const signedAt = new Date();
     await tx.review.update({ where: { id }, data: { status: "signed", signedBy: s.reviewer, signedAt, decision: s.decision, signComment: s.comment ?? null } });
     await appendAudit(

@@ -95,17 +95,15 @@ export async function runAndStoreReview(request: RunReviewRequest, actor = "web"
   return { ok: true, reviewId };
 }
 
-export const signOffSchema = z
-  .object({
-    reviewer: z.string().trim().min(2, { message: "give the reviewer's name" }).max(120),
-    decision: z.enum(["accept", "hold", "reject"], { error: "choose accept, hold or reject" }),
-    comment: z.string().trim().max(2000).optional(),
-    suggested: z.enum(["accept", "hold", "reject"]),
-  })
-  .refine((s) => s.decision === s.suggested || (s.comment ?? "").length >= 5, {
-    message: "a decision that differs from the suggested outcome needs a comment saying why",
-    path: ["comment"],
-  });
+/**
+ * What a reviewer submits. There is no "suggested" field: whether the decision differs from the
+ * suggestion is decided against the stored outcome (signReview), never against what a form says.
+ */
+export const signOffSchema = z.object({
+  reviewer: z.string().trim().min(2, { message: "give the reviewer's name" }).max(120),
+  decision: z.enum(["accept", "hold", "reject"], { error: "choose accept, hold or reject" }),
+  comment: z.string().trim().max(2000, { message: "at most 2,000 characters" }).optional(),
+});
 
 export async function signOff(reviewId: string, input: z.input<typeof signOffSchema>) {
   const s = signOffSchema.parse(input);

@@ -181,7 +181,7 @@ test("sign off a review, open its printable report, export the findings, and cor
   // A decision that differs from the suggestion needs a comment.
   await page.getByLabel("Reviewer").fill("Dana Ruiz");
   const other = suggested === "reject" ? "hold" : "reject";
-  await page.getByLabel("Decision").selectOption(other);
+  await page.locator("#f-decision").selectOption(other);
   await page.getByRole("button", { name: "Sign off" }).click();
   await expect(page.getByTestId("error-comment")).toHaveText("a decision that differs from the suggested outcome needs a comment saying why");
   await page.getByLabel(/^Comment/).fill("Pallet probed at arrival: core 4.1 °C; decision per QA plan section 7.");

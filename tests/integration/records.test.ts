@@ -59,20 +59,27 @@ describe("review records", () => {
     expect(r.out).toMatchObject({ ok: true, chain: { ok: true, entries: 4 }, reviews: [{ id: reviewId, reproduced: true, problems: [] }] });
   });
 
-  it("sign-off needs a comment when the decision differs from the suggestion", async () => {
-    const { signOffSchema } = await import("@/lib/services/reviews");
-    const r = signOffSchema.safeParse({ reviewer: "Dana Ruiz", decision: "accept", suggested: "reject" });
-    expect(r.success).toBe(false);
-    expect(r.error!.issues[0]!.path).toEqual(["comment"]);
+  it("signOff compares the decision with the STORED outcome: a forged 'suggested' field does not waive the comment", async () => {
+    const { signOff } = await import("@/lib/services/reviews");
+    const { getReview } = await import("@/lib/db/reviews");
+    const stored = (await getReview(reviewId))!.outcome;
+    const other = stored === "accept" ? "reject" : "accept";
+    // what a forged form posts: the decision, and a "suggested" that agrees with it (ignored by the schema)
+    const forged = { reviewer: "Dana Ruiz", decision: other, suggested: other } as Parameters<typeof signOff>[1];
+    expect(await signOff(reviewId, forged)).toEqual({ ok: false, reason: "comment-required", message: "a decision that differs from the suggested outcome needs a comment saying why" });
+    expect(await signOff(reviewId, { reviewer: "Dana Ruiz", decision: other, comment: "ok" })).toMatchObject({ ok: false, reason: "comment-required" });
+    const after = (await getReview(reviewId))!;
+    expect(after.status).toBe("open");
+    expect(after.decision).toBeNull();
   });
 
   it("a signed review refuses edits, in the code and in the database", async () => {
     const { signOff } = await import("@/lib/services/reviews");
     const { renameReview } = await import("@/lib/db/reviews");
     const { db } = await import("@/lib/db/client");
-    expect(await signOff(reviewId, { reviewer: "Dana Ruiz", decision: "hold", comment: "core estimate near the limit; probe the pallet", suggested: "reject" })).toEqual({ ok: true });
+    expect(await signOff(reviewId, { reviewer: "Dana Ruiz", decision: "hold", comment: "core estimate near the limit; probe the pallet" })).toEqual({ ok: true });
     expect(await renameReview(reviewId, "changed")).toMatchObject({ ok: false, reason: "signed" });
-    expect(await signOff(reviewId, { reviewer: "Someone Else", decision: "accept", suggested: "accept" })).toMatchObject({ ok: false, reason: "signed" });
+    expect(await signOff(reviewId, { reviewer: "Someone Else", decision: "accept" })).toMatchObject({ ok: false, reason: "signed" });
     // The triggers abort the statement (the driver adapter reports a trigger abort as a constraint violation).
     await expect(db.review.update({ where: { id: reviewId }, data: { title: "sneaky" } })).rejects.toThrow();
     await expect(db.review.delete({ where: { id: reviewId } })).rejects.toThrow();

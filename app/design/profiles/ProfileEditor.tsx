@@ -1,5 +1,6 @@
 "use client";
 
+import { ActionForm } from "@/app/components/ActionForm";
 import { useActionState, useMemo, useState } from "react";
 import { saveProfile } from "@/app/actions/definitions";
 import { DefinitionFooter } from "@/app/components/DefinitionFooter";
@@ -35,7 +36,7 @@ export function ProfileEditor({ examples, editing }: { examples: readonly Profil
   const series = parsed.success ? (() => { try { return profileSeries(parsed.data); } catch { return null; } })() : null;
   const set = (i: number, patch: Partial<Row>) => setRows(rows.map((r, j) => (j === i ? { ...r, ...patch } : r)));
   return (
-    <form action={action} className="stack" style={{ maxWidth: "none" }} aria-label="Profile">
+    <ActionForm action={action} className="stack" style={{ maxWidth: "none" }} aria-label="Profile">
       {editing ? (
         <p className="muted">Editing version {editing.version}: saving creates version {editing.version + 1}.</p>
       ) : (
@@ -77,7 +78,7 @@ export function ProfileEditor({ examples, editing }: { examples: readonly Profil
         <TemperatureChart title="Profile preview" height={200} times_ms={Array.from(series.t_s, (t) => t * 1000)} lines={[{ label: `Air (${series.t_s.length.toLocaleString("en")} samples)`, color: "var(--air)", values: Array.from(series.air_C) }]} />
       )}
       {Object.entries(state.fieldErrors ?? {}).map(([k, m]) => <p key={k} className="field-error">{k}: {m}</p>)}
-      <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="profile" disabled={!parsed.success} />
-    </form>
+      <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="profile" />
+    </ActionForm>
   );
 }

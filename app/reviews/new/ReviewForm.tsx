@@ -1,5 +1,6 @@
 "use client";
 
+import { ActionForm } from "@/app/components/ActionForm";
 import { useActionState } from "react";
 import { startReview } from "@/app/actions/reviews";
 import { Field, FormMessage } from "@/app/components/Field";
@@ -34,7 +35,7 @@ export interface ReviewFormInitial {
 export function ReviewForm({ traces, products, packs, limits, initial }: { traces: Option[]; products: Option[]; packs: Option[]; limits: Option[]; initial: ReviewFormInitial }) {
   const [state, action, pending] = useActionState<FormState, FormData>(startReview, {});
   return (
-    <form action={action} className="stack" aria-label="Run a review">
+    <ActionForm action={action} className="stack" aria-label="Run a review">
       {initial.corrects && (
         <p className="caution" data-testid="correcting">
           Correcting the signed review “{initial.corrects.title}”. The new review will point back to it; the original stays as it was.
@@ -85,6 +86,6 @@ export function ReviewForm({ traces, products, packs, limits, initial }: { trace
       {state.fieldErrors?.correctsId && <p className="field-error">{state.fieldErrors.correctsId}</p>}
       <FormMessage state={state} />
       <button type="submit" disabled={pending}>{pending ? "Running…" : "Run review"}</button>
-    </form>
+    </ActionForm>
   );
 }
