@@ -66,15 +66,23 @@ function exceeded(rule: Rule, m: Measure, dir: "above" | "below", peakShift_K: n
     out.push(`${fmt(longMin)} min continuous > ${rule.max_continuous_min} min allowed`);
   }
   if (rule.max_peak_C !== undefined) {
+    // The guard band moves the comparison, never the measured value: say both separately.
     const extreme = m.extreme_C + (dir === "above" ? peakShift_K : -peakShift_K);
     if (dir === "above" ? extreme > rule.max_peak_C : extreme < rule.max_peak_C) {
-      out.push(`${dir === "above" ? "peak" : "lowest"} ${fmt(extreme)} °C beyond ${rule.max_peak_C} °C`);
+      const word = dir === "above" ? "peak" : "lowest";
+      const limit = `${rule.max_peak_C} °C`;
+      const band = `${fmt2(Math.abs(peakShift_K))} K guard band`;
+      if (peakShift_K > 0) out.push(`${word} ${fmt2(m.extreme_C)} °C is within the ${band} of the ${limit} limit`);
+      else if (peakShift_K < 0) out.push(`${word} ${fmt2(m.extreme_C)} °C is beyond the ${limit} limit by more than the ${band}`);
+      else out.push(`${word} ${fmt2(m.extreme_C)} °C beyond ${limit}`);
     }
   }
   return out;
 }
 
 const fmt = (x: number) => Number(x.toFixed(1)).toString();
+/** Temperatures a rule compares with a limit: to 0.01 K, so a peak of 7.65 °C is not shown as 7.7 °C. */
+const fmt2 = (x: number) => Number(x.toFixed(2)).toString();
 
 /**
  * Judges one rule with a guard band u = sensor accuracy + model uncertainty, in the manner of the

@@ -106,3 +106,24 @@ describe("limit templates", () => {
     expect(evaluateRule(cooling.rules[0]!, slow, 0).status).toBe("fail");
   });
 });
+
+describe("evaluateRule states a peak and the guard band separately", () => {
+  // A triangle peaking at 7.65 °C; rule: peak at most 8 °C; sensor accuracy 0.5 K.
+  // 7.65 + 0.5 > 8 ≥ 7.65 − 0.5 → inconclusive (worked by hand from the ISO 14253-1 style rule).
+  const low = ch([0, 600, 1200], [0, 7.65, 0]);
+  const peak = { id: "core-peak-8C", channel: "core" as const, above_C: 8, max_peak_C: 8 };
+
+  it("evaluateRule gives the measured peak, not the peak plus the guard band", () => {
+    const f = evaluateRule(peak, low, 0.5);
+    expect(f.status).toBe("inconclusive");
+    expect(f.reason).toContain("peak 7.65 °C is within the 0.5 K guard band of the 8 °C limit");
+    expect(f.reason).not.toMatch(/8\.15|8\.2 °C/);
+  });
+
+  it("evaluateRule's failing peak names the measured value and the guard band", () => {
+    // the triangle peaks at 10 °C; 10 − 0.5 > 9.4 → fail
+    const f = evaluateRule({ ...peak, max_peak_C: 9.4 }, triangle, 0.5);
+    expect(f.status).toBe("fail");
+    expect(f.reason).toContain("peak 10 °C is beyond the 9.4 °C limit by more than the 0.5 K guard band");
+  });
+});
