@@ -85,11 +85,23 @@ export interface ReviewComputation {
   airBridged_C: Float64Array;
 }
 
-/** How the product's time constant compares with the longest air excursion beyond any rule threshold. */
-function excursionReading(tau_s: number, longestAirExcursion_s: number): string {
-  if (longestAirExcursion_s <= 0) return "the air did not cross the rule thresholds, so the time constant does not decide the outcome";
-  const ratio = tau_s / longestAirExcursion_s;
-  const both = `tau ${readableDuration(tau_s)} against a longest air excursion of ${readableDuration(longestAirExcursion_s)}`;
+/** The air's longest continuous time beyond one rule threshold, and which threshold and rules that is. */
+export interface LongestAirExcursion {
+  longest_s: number;
+  threshold_C: number;
+  direction: "above" | "below";
+  rule_ids: string[];
+}
+
+/**
+ * How the product's time constant compares with the longest air excursion beyond any rule threshold.
+ * The threshold is named: it can belong to a core rule, whose excursion table lists the core, not the air.
+ */
+function excursionReading(tau_s: number, longest: LongestAirExcursion | null): string {
+  if (!longest || longest.longest_s <= 0) return "the air did not cross the rule thresholds, so the time constant does not decide the outcome";
+  const ratio = tau_s / longest.longest_s;
+  const rules = longest.rule_ids.length === 1 ? `rule ${longest.rule_ids[0]}` : `rules ${longest.rule_ids.join(", ")}`;
+  const both = `tau ${readableDuration(tau_s)} against a longest air excursion of ${readableDuration(longest.longest_s)} ${longest.direction} ${longest.threshold_C} °C, the threshold of ${rules}`;
   // 5·tau brings a first-order body within 1 % of a step (1 − e⁻⁵); tau/5 and 5·tau bound "follows" and "barely responds".
   if (ratio < 0.2) return `the product follows the air closely (${both}): core exposure is close to air exposure`;
   if (ratio > 5) return `the product barely responds to the excursions (${both}): core exposure is much smaller than air exposure`;
@@ -149,8 +161,12 @@ export function runReview(input: ReviewInput): ReviewComputation {
   }
   const findings = evaluateLimitSet(limits, channels);
 
-  let longestAir = 0;
-  for (const f of findings) longestAir = Math.max(longestAir, timeBeyond(channels.air.t_s, channels.air.value_C, f.threshold_C, f.direction).longest_s);
+  let longestAir: LongestAirExcursion | null = null;
+  for (const f of findings) {
+    const longest_s = timeBeyond(channels.air.t_s, channels.air.value_C, f.threshold_C, f.direction).longest_s;
+    if (longestAir && longestAir.threshold_C === f.threshold_C && longestAir.direction === f.direction) longestAir.rule_ids.push(f.id);
+    else if (!longestAir || longest_s > longestAir.longest_s) longestAir = { longest_s, threshold_C: f.threshold_C, direction: f.direction, rule_ids: [f.id] };
+  }
   const edges = [...DEFAULT_BAND_EDGES_C];
   const minutes = (ch: ChannelSeries) => timeInBands(ch.t_s, ch.value_C, edges).map((s) => round(s / 60, 3));
 
