@@ -68,6 +68,14 @@ function main(): void {
     ],
   };
   writeFileSync(path.join(OUT, "ready-meal.limits.json"), JSON.stringify(limits, null, 2) + "\n");
+  // For design: the plan's core rules only. Its air rule judges the route's air, which no pack changes
+  // (the summer profile's air is above 8 °C for hours), so a sizing run against it could never pass.
+  const designLimits = {
+    name: "Harrowgate tote design (core rules of the example plan)",
+    sensor_accuracy_K: limits.sensor_accuracy_K,
+    rules: limits.rules.filter((r) => r.channel !== "air"),
+  };
+  writeFileSync(path.join(OUT, "tote-design.limits.json"), JSON.stringify(designLimits, null, 2) + "\n");
 
   // A test shipment with a product simulant probe beside the air probe, for calibration: the simulant
   // follows a lumped body with tau = 2.5 h (invented), read to 0.1 K like a logger.

@@ -299,13 +299,18 @@ async function sizeCommand(argv: string[]): Promise<unknown> {
   }
   return {
     variable: r.variable,
+    // on the grid of the search precision (0.0337 m for 0.1 mm), numeric
     value: r.value,
+    label: r.display.label,
+    value_display: r.value === null ? null : Number((r.value * r.display.factor).toFixed(r.display.decimals)),
     feasible: r.feasible,
     metric_at_value: r.metric_at_value,
     metric: r.metric,
     precision: r.precision,
     reason: r.reason,
-    curve: r.curve.map((c) => ({ x: c.x, metric: c.metric, feasible: c.feasible })),
+    governing: r.governing,
+    rule_notes: r.rule_notes,
+    curve: r.curve.map((c) => ({ x: c.x, metric: c.metric, feasible: c.feasible, failing: c.failing })),
     cautions: CAUTIONS,
   };
 }

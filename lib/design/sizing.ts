@@ -1,8 +1,10 @@
 import type { TraceSeries } from "../trace/series";
 import type { ModelChoice, Pack, Product } from "../thermal/definitions";
 import type { LimitSet } from "../exposure/limits";
+import type { RuleStatus } from "../exposure/rules";
+import { timeBeyond } from "../exposure/timeAbove";
 import { runReview } from "../review/runReview";
-import { describeVariable, largerIsBetter, precisionOf, withValue, type DesignVariable } from "./vary";
+import { describeVariable, displayOf, formatVariable, largerIsBetter, precisionOf, withValue, type DesignVariable, type VariableDisplay } from "./vary";
 
 export interface SizingInput {
   series: TraceSeries;
@@ -18,19 +20,79 @@ export interface SizingInput {
   onProgress?: (fraction: number) => void;
 }
 
+/** One rule at one value of the variable: its status and the measures its allowances are checked on. */
+export interface RuleMeasure {
+  status: RuleStatus;
+  /** highest value of the rule's channel ("above" rules; lowest for "below"), as measured, °C */
+  extreme_C: number;
+  /** time beyond the threshold moved by the guard band against the shipment: what a pass must keep within the allowance, min */
+  cumulative_min: number;
+  longest_min: number;
+}
+
+export interface CurvePoint {
+  x: number;
+  metric: number;
+  feasible: boolean;
+  /** ids of the rules that do not pass here */
+  failing: string[];
+  rules: Record<string, RuleMeasure>;
+}
+
+/** A rule that the chosen variable cannot bring to a pass, found before the search, with what to do about it. */
+export interface RuleNote {
+  id: string;
+  channel: string;
+  /** "independent": the rule judges the air, which the variable does not change; "fails-throughout": it fails at both ends of the range */
+  kind: "independent" | "fails-throughout";
+  advice: string;
+}
+
 export interface SizingResult {
+  /** the variable's key, e.g. "layer:1:thickness_m" */
   variable: string;
-  /** the boundary value: the smallest feasible thickness or coolant mass, or the warmest feasible initial temperature */
+  /** the variable in the user's words and units */
+  display: VariableDisplay;
+  /** the boundary value (SI, on the grid of the search precision, on the safe side): the smallest feasible thickness or coolant mass, or the warmest feasible initial temperature */
   value: number | null;
   feasible: boolean;
   /** peak predicted core temperature at the value, °C (lowest, for a limit set of "below" rules only) */
   metric_at_value: number | null;
   metric: string;
-  curve: Array<{ x: number; metric: number; feasible: boolean }>;
+  curve: CurvePoint[];
   core_at_value: Float64Array | null;
   precision: number;
   reason: string;
+  /** rules that no value in the range brings to a pass, each with advice (found from both ends of the range, before the search) */
+  rule_notes: RuleNote[];
+  /** the rules that set the boundary (those that fail just short of it) or, with no feasible value, those that fail at the best end */
+  governing: Array<{ id: string; status: RuleStatus; reason: string }>;
+  /** the most favourable end of the range (the largest thickness or coolant mass, the coldest start) */
+  best_x: number;
   runs: number;
+  /** the guard band the rules were judged with (the limit set's sensor accuracy), K */
+  guard_K: number;
+}
+
+/** Air rules judge the ambient itself: no pack, coolant or start temperature changes them. */
+export function independentRules(limits: LimitSet, variable: DesignVariable, pack: Pack | undefined): RuleNote[] {
+  const name = displayOf(variable, pack).name;
+  return limits.rules
+    .filter((r) => r.channel === "air")
+    .map((r) => ({
+      id: r.id,
+      channel: r.channel,
+      kind: "independent" as const,
+      advice: `rule ${r.id} judges the air, which no ${name} changes: drop it from the limit set used for design, or change the ambient profile; judge real shipments against it in a review`,
+    }));
+}
+
+interface Evaluation {
+  feasible: boolean;
+  metric: number;
+  core: Float64Array;
+  rules: Record<string, RuleMeasure>;
+  reasons: Record<string, string>;
 }
 
 /**
@@ -38,8 +100,9 @@ export interface SizingResult {
  * bisection narrows it to the stated precision. This relies on feasibility being monotone in the
  * variable (more insulation or coolant never warms the product's peak; a colder start never does
  * either). Some rules are not monotone (a longest-continuous-time rule can pass with a thin wall and
- * fail with a thicker one); the curve reveals that, and the result says so. Reports when no value in
- * [min, max] is feasible.
+ * fail with a thicker one); the curve reveals that, and the result says so. Before the search, rules
+ * that no value in the range can bring to a pass (air rules, rules failing at both ends) are named with
+ * advice; when no value is feasible, the rules failing at the best end of the range are given.
  */
 export function size(input: SizingInput): SizingResult {
   const { series, limits, variable, min, max } = input;
@@ -47,55 +110,120 @@ export function size(input: SizingInput): SizingResult {
   const below = limits.rules.every((r) => r.below_C !== undefined);
   const metricName = below ? "lowest core temperature, °C" : "peak core temperature, °C";
   const precision = precisionOf(variable);
+  const display = displayOf(variable, input.pack);
+  const fmtX = (x: number) => formatVariable(x, display);
+  const u = limits.sensor_accuracy_K ?? 0;
   let runs = 0;
-  const evaluate = (x: number) => {
+  const evaluate = (x: number): Evaluation => {
     runs++;
     const d = withValue(input.product, input.pack, variable, x);
     const comp = runReview({ series, product: d.product, pack: d.pack, limits, options: { model: input.model ?? "auto" } });
     let m = below ? Infinity : -Infinity;
     for (const v of comp.core_C) m = below ? Math.min(m, v) : Math.max(m, v);
-    return { feasible: comp.result.rules.every((r) => r.status === "pass"), metric: m, core: comp.core_C };
+    const channel: Record<string, Float64Array> = { air: comp.airBridged_C, core: comp.core_C, surface: comp.surface_C, mean: comp.mean_C };
+    const rules: Record<string, RuleMeasure> = {};
+    const reasons: Record<string, string> = {};
+    limits.rules.forEach((rule, i) => {
+      const f = comp.result.rules[i]!;
+      const values = channel[rule.channel];
+      // the pass test's threshold: moved by the guard band against the shipment (lib/exposure/rules.ts)
+      const strict = values ? timeBeyond(series.t_s, values, f.threshold_C + (f.direction === "above" ? -u : u), f.direction) : null;
+      rules[rule.id] = { status: f.status, extreme_C: f.extreme_C, cumulative_min: strict ? strict.cumulative_s / 60 : NaN, longest_min: strict ? strict.longest_s / 60 : NaN };
+      reasons[rule.id] = f.reason;
+    });
+    return { feasible: comp.result.rules.every((r) => r.status === "pass"), metric: m, core: comp.core_C, rules, reasons };
   };
+  const failingOf = (e: Evaluation) => Object.entries(e.rules).filter(([, r]) => r.status !== "pass").map(([id, r]) => ({ id, status: r.status, reason: e.reasons[id]! }));
+
   const points = input.curvePoints ?? 21;
-  const curve: SizingResult["curve"] = [];
+  const curve: CurvePoint[] = [];
+  const evals: Evaluation[] = [];
   for (let i = 0; i < points; i++) {
-    const x = min + ((max - min) * i) / (points - 1);
+    // 12 significant digits: the curve's x values read 0.05315, not 0.053149999999999996
+    const x = i === points - 1 ? max : Number((min + ((max - min) * i) / (points - 1)).toPrecision(12));
     const e = evaluate(x);
-    curve.push({ x, metric: e.metric, feasible: e.feasible });
+    evals.push(e);
+    curve.push({ x, metric: e.metric, feasible: e.feasible, failing: failingOf(e).map((f) => f.id), rules: e.rules });
     input.onProgress?.((i + 1) / (points + 20));
   }
   const up = largerIsBetter(variable);
-  const name = describeVariable(variable);
+  const best = up ? evals[evals.length - 1]! : evals[0]!;
+  const worst = up ? evals[0]! : evals[evals.length - 1]!;
+  const best_x = up ? max : min;
+
+  // Before the search: rules the variable cannot bring to a pass in this range.
+  const notes = independentRules(limits, variable, input.pack).map((n) =>
+    best.rules[n.id]!.status !== "pass" ? { ...n, advice: `${n.advice}. It does not pass on this ambient: ${best.reasons[n.id]}` } : n,
+  );
+  for (const r of limits.rules) {
+    if (r.channel === "air" || best.rules[r.id]!.status === "pass" || worst.rules[r.id]!.status === "pass") continue;
+    notes.push({
+      id: r.id,
+      channel: r.channel,
+      kind: "fails-throughout",
+      advice: `rule ${r.id} does not pass at either end of the range (${fmtX(min)} and ${fmtX(max)}): widen the range, or change the rule or the ambient. At ${fmtX(best_x)}: ${best.reasons[r.id]}`,
+    });
+  }
+
   const warnings: string[] = [];
-  const result = (value: number | null, e: ReturnType<typeof evaluate> | null, reason: string): SizingResult => ({
-    variable: name, value, feasible: value !== null, metric_at_value: e ? e.metric : null, metric: metricName, curve, core_at_value: e ? e.core : null, precision, reason: [reason, ...warnings].join("; "), runs,
+  const result = (value: number | null, e: Evaluation | null, governing: SizingResult["governing"], reason: string): SizingResult => ({
+    variable: describeVariable(variable), display, value, feasible: value !== null, metric_at_value: e ? e.metric : null, metric: metricName, curve,
+    core_at_value: e ? e.core : null, precision, reason: [reason, ...warnings].join("; "), rule_notes: notes, governing, best_x, runs, guard_K: u,
   });
+  const ruleList = (g: SizingResult["governing"]) => g.map((f) => (f.status === "fail" ? `rule ${f.id} ${f.reason}` : `rule ${f.id} is inconclusive, ${f.reason}`)).join("; ");
+
   // Order the curve from the worst end to the best; the feasible region must be a tail of it.
   const ordered = up ? curve : [...curve].reverse();
+  const orderedEvals = up ? evals : [...evals].reverse();
   let k = ordered.length;
   while (k > 0 && ordered[k - 1]!.feasible) k--;
-  if (k === ordered.length) return result(null, null, `no value of ${name} between ${min} and ${max} passes every rule`);
+  if (k === ordered.length) {
+    const governing = failingOf(best);
+    return result(null, null, governing, `no ${display.name} between ${fmtX(min)} and ${fmtX(max)} passes every rule. At ${fmtX(best_x)}, the best end of the range, ${ruleList(governing)}`);
+  }
   const strays = ordered.slice(0, k).filter((c) => c.feasible);
   if (strays.length > 0) {
     // e.g. a "longest continuous time" rule: a thin wall gives short, hot excursions that pass
-    warnings.push(`feasibility is not monotone in ${name} here: ${strays.map((c) => Number(c.x.toPrecision(4))).join(", ")} also pass; the value given is where passing holds for every ${up ? "larger" : "smaller"} value on the curve`);
+    warnings.push(`feasibility is not monotone in ${display.name} here: ${strays.map((c) => fmtX(c.x)).join(", ")} also pass; the value given is where passing holds for every ${up ? "larger" : "smaller"} value on the curve`);
   }
   if (k === 0) {
-    const e = evaluate(ordered[0]!.x);
-    return result(ordered[0]!.x, e, `every value in the range passes; ${ordered[0]!.x} is the ${up ? "smallest" : "largest"}`);
+    const x = ordered[0]!.x;
+    return result(x, orderedEvals[0]!, [], `every value in the range passes; ${fmtX(x)} is the ${up ? "smallest" : "largest"}`);
   }
-  // feasible at ordered[k], not at ordered[k − 1]: bisect between them to within the precision
-  let f = ordered[k]!.x, g = ordered[k - 1]!.x;
-  let fe = evaluate(f);
-  while (Math.abs(f - g) > precision) {
-    const mid = (f + g) / 2;
-    const e = evaluate(mid);
+  // Feasible at ordered[k], not at ordered[k − 1]. Bisect on the grid of the search precision: the
+  // answer is the grid value nearest the boundary on the safe side, so it is reported without binary
+  // noise (0.0337 m, not 0.033651953124999995 m) and lies within one step of the true boundary.
+  const p = precision;
+  const onGrid = (n: number) => Number((n * p).toFixed(Math.max(0, Math.round(-Math.log10(p)))));
+  let a = up ? Math.ceil(ordered[k]!.x / p - 1e-9) : Math.floor(ordered[k]!.x / p + 1e-9); // feasible side
+  let b = up ? Math.floor(ordered[k - 1]!.x / p + 1e-9) : Math.ceil(ordered[k - 1]!.x / p - 1e-9); // infeasible side
+  let fe = orderedEvals[k]!, ge = orderedEvals[k - 1]!;
+  let value = ordered[k]!.x;
+  const first = Math.min(max, Math.max(min, onGrid(a)));
+  if (first !== value) {
+    const e = evaluate(first);
     if (e.feasible) {
-      f = mid;
       fe = e;
-    } else g = mid;
-    input.onProgress?.(Math.min(0.99, runs / (points + 20)));
+      value = first;
+    } else warnings.push(`${fmtX(first)} does not pass although ${fmtX(value)} does; the search works on the curve's points only`);
+  }
+  if (value === first) {
+    while (Math.abs(a - b) > 1) {
+      const mid = Math.floor((a + b) / 2);
+      const e = evaluate(onGrid(mid));
+      if (e.feasible) {
+        a = mid;
+        fe = e;
+        value = onGrid(mid);
+      } else {
+        b = mid;
+        ge = e;
+      }
+      input.onProgress?.(Math.min(0.99, runs / (points + 20)));
+    }
   }
   input.onProgress?.(1);
-  return result(f, fe, `${up ? "smallest" : "largest"} feasible value, to within ${precision}`);
+  const governing = failingOf(ge);
+  const precisionText = `${(precision * display.factor).toFixed(display.decimals === 0 ? 0 : display.decimals)} ${display.unit}`;
+  return result(value, fe, governing, `${up ? "smallest" : "largest"} feasible ${display.name}, to within ${precisionText}; set by ${governing.map((x) => `rule ${x.id}`).join(", ")}, which ${governing.length === 1 ? "does" : "do"} not pass just ${up ? "below" : "above"} it`);
 }

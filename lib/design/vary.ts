@@ -41,3 +41,29 @@ export function withValue(product: Product, pack: Pack | undefined, v: DesignVar
   if (!pack.coolants[v.index]) throw new Error(`the pack has no coolant ${v.index + 1}`);
   return { product, pack: { ...pack, coolants: pack.coolants.map((c, i) => (i === v.index ? { ...c, mass_kg: x } : c)) } };
 }
+
+/** How a design variable reads to the user: its name in their words, the display unit and its factor from SI. */
+export interface VariableDisplay {
+  /** "EPS wall thickness", "gel pack mass", "product initial temperature" */
+  name: string;
+  unit: "mm" | "g" | "°C";
+  /** display value = SI value × factor */
+  factor: number;
+  /** decimals that show the search precision in the display unit (0.1 mm, 10 g, 0.01 K) */
+  decimals: number;
+  /** "EPS wall thickness, mm": an axis label */
+  label: string;
+}
+
+export function displayOf(v: DesignVariable, pack: Pack | undefined): VariableDisplay {
+  const make = (name: string, unit: VariableDisplay["unit"], factor: number, decimals: number): VariableDisplay => ({ name, unit, factor, decimals, label: `${name}, ${unit}` });
+  if (v.kind === "layer") return make(`${pack?.layers[v.index]?.name ?? `layer ${v.index + 1}`} thickness`, "mm", 1000, 1);
+  if (v.kind === "coolant") return make(`${pack?.coolants[v.index]?.name ?? `coolant ${v.index + 1}`} mass`, "g", 1000, 0);
+  return make("product initial temperature", "°C", 1, 2);
+}
+
+/** "33.7 mm": an SI value of the variable in the user's unit, to the search precision. */
+export function formatVariable(x: number, d: VariableDisplay): string {
+  return `${(x * d.factor).toFixed(d.decimals)} ${d.unit}`;
+}
+

@@ -28,6 +28,7 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   await createTrace({ name: "Probe test, tray with simulant (demo)", fileName: "probe-test.csv", bytes: probeBytes, imported: importCsv(probeBytes) });
   await createDefinition("product", productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal-shaped.product.json"), "utf8"))));
   await createDefinition("pack", packSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "tote.pack.json"), "utf8"))));
+  await createDefinition("limits", limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "tote-design.limits.json"), "utf8"))));
   for (const profile of EXAMPLE_PROFILES) await createDefinition("profile", profile);
   return "loaded";
 }

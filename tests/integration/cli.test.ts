@@ -138,6 +138,29 @@ describe("corelag calibrate and size (CLI)", () => {
     expect(out.curve.filter((c: { feasible: boolean; x: number }) => !c.feasible).every((c: { x: number }) => c.x < out.value)).toBe(true);
   });
 
+  it("size reports the demo's boundary to the search precision, in the user's words, and says which rule sets it", () => {
+    // the demo's design limit set (core rules of the example plan) against the summer profile
+    const r = corelag("size", "--profile", path.join(DEMO, "summer-route.profile.json"), "--product", path.join(DEMO, "ready-meal-shaped.product.json"), "--pack", path.join(DEMO, "tote.pack.json"), "--limits", path.join(DEMO, "tote-design.limits.json"), "--vary", "layer:1:thickness_m", "--min", "0.001", "--max", "0.15", "--format", "json");
+    expect(r.stderr).toBe("");
+    const out = JSON.parse(r.stdout);
+    expect(out.feasible).toBe(true);
+    // a number on the 0.1 mm grid, printed without binary noise (it was 0.033651953124999995)
+    expect(typeof out.value).toBe("number");
+    expect(r.stdout).toMatch(/"value": 0\.\d{1,4},/);
+    expect(out.label).toBe("EPS wall thickness, mm");
+    expect(out.value_display).toBeCloseTo(out.value * 1000, 6);
+    expect(out.governing.map((g: { id: string }) => g.id)).toEqual(["core-above-5C"]);
+    expect(out.rule_notes).toEqual([]);
+  });
+
+  it("size with the full demo plan names its air rule and the reason no thickness passes", () => {
+    const r = corelag("size", "--profile", path.join(DEMO, "summer-route.profile.json"), "--product", path.join(DEMO, "ready-meal-shaped.product.json"), "--pack", path.join(DEMO, "tote.pack.json"), "--limits", path.join(DEMO, "ready-meal.limits.json"), "--vary", "layer:1:thickness_m", "--min", "0.001", "--max", "0.15", "--format", "json");
+    const out = JSON.parse(r.stdout);
+    expect(out.feasible).toBe(false);
+    expect(out.rule_notes).toEqual([expect.objectContaining({ id: "air-above-8C", kind: "independent" })]);
+    expect(out.reason).toMatch(/At 150\.0 mm, the best end of the range, rule air-above-8C fails/);
+  });
+
   it("size names a bad --vary", () => {
     const r = corelag("size", "--profile", "p.json", "--product", "x", "--limits", "y", "--vary", "layer:one", "--min", "0", "--max", "1");
     expect(r.code).toBe(2);

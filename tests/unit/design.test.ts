@@ -6,6 +6,12 @@ import { parseVariable } from "@/lib/design/vary";
 import { predict } from "@/lib/thermal/predict";
 import type { Pack, Product } from "@/lib/thermal/definitions";
 import { expectClose } from "../helpers/numeric";
+import { readFileSync } from "node:fs";
+import path from "node:path";
+import { packSchema, productSchema } from "@/lib/thermal/definitions";
+import { limitSetSchema } from "@/lib/exposure/limits";
+
+const DEMO = path.join(__dirname, "../../public/demo");
 
 // A lumped product (5 kg, cp 3600 J/kg·K, area 0.05 m²) in a pack: outside film h = 10 W/m²·K and
 // one foam layer (k = 0.03 W/m·K) over 0.05 m², under a constant 25 °C for 24 h, starting at 2 °C.
@@ -36,7 +42,11 @@ describe("size", () => {
   it("size reports a range that holds no feasible value", () => {
     const r = size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.01 });
     expect(r).toMatchObject({ feasible: false, value: null });
-    expect(r.reason).toMatch(/no value of layer:1:thickness_m between 0.001 and 0.01 passes every rule/);
+    expect(r.reason).toMatch(/no foam thickness between 1\.0 mm and 10\.0 mm passes every rule/);
+    // the reason says which rule fails at the best end of the range, and how
+    expect(r.governing.map((g) => g.id)).toEqual(["core-8"]);
+    expect(r.reason).toMatch(/At 10\.0 mm, the best end of the range, rule core-8 fails: \d+(\.\d)? min beyond, none allowed/);
+    expect(r.rule_notes).toEqual([expect.objectContaining({ id: "core-8", kind: "fails-throughout" })]);
   });
 
   it("size finds the warmest feasible initial temperature to within 0.01 K", () => {
@@ -108,9 +118,54 @@ describe("size with a rule that is not monotone in the variable", () => {
     expect(r.feasible).toBe(true);
     expect(r.curve[0]!.feasible).toBe(true); // 1 mm passes: short excursions
     expect(r.curve.some((c) => !c.feasible)).toBe(true);
-    expect(r.reason).toMatch(/feasibility is not monotone in layer:1:thickness_m here/);
+    expect(r.reason).toMatch(/feasibility is not monotone in foam thickness here/);
     // every curve point from the value on passes
     expect(r.curve.filter((c) => c.x >= r.value!).every((c) => c.feasible)).toBe(true);
     expect(r.value!).toBeGreaterThan(0.05);
+  });
+});
+
+describe("size says why", () => {
+  it("size reports the boundary on the grid of its precision, on the safe side", () => {
+    const r = size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.2 });
+    // a whole number of 0.1 mm steps, with no binary noise in its decimal form
+    expect(String(r.value)).toMatch(/^0\.\d{1,4}$/);
+    expect(r.display.label).toBe("foam thickness, mm");
+    expect(r.governing.map((g) => g.id)).toEqual(["core-8"]);
+    expect(r.reason).toMatch(/smallest feasible foam thickness, to within 0\.1 mm; set by rule core-8/);
+    // the value passes and one step thinner does not (the grid's smallest feasible value)
+    const thinner = size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: r.value! - 1e-4 });
+    expect(thinner.feasible).toBe(false);
+  });
+
+  it("size marks an air rule before the search and names it as the rule that fails at the best end", () => {
+    const withAir = { name: "l", rules: [...limits.rules, { id: "air-8", channel: "air" as const, above_C: 8, max_cumulative_min: 60 }] };
+    const r = size({ series, product, pack, limits: withAir, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.2 });
+    expect(r.feasible).toBe(false);
+    // constant 25 °C air for 24 h: 1440 min beyond 8 °C against 60 allowed, whatever the wall
+    expect(r.rule_notes[0]).toMatchObject({ id: "air-8", kind: "independent" });
+    expect(r.rule_notes[0]!.advice).toMatch(/judges the air, which no foam thickness changes: drop it from the limit set used for design/);
+    expect(r.governing.map((g) => g.id)).toEqual(["air-8"]);
+    expect(r.reason).toMatch(/At 200\.0 mm, the best end of the range, rule air-8 fails: 1440 min cumulative > 60 min allowed/);
+  });
+
+  it("the demo product, pack, design limit set and summer profile size successfully", () => {
+    const demo = (f: string) => JSON.parse(readFileSync(path.join(DEMO, f), "utf8"));
+    const r = size({
+      series: profileSeries(profileSchema.parse(demo("summer-route.profile.json"))),
+      product: productSchema.parse(demo("ready-meal-shaped.product.json")),
+      pack: packSchema.parse(demo("tote.pack.json")),
+      limits: limitSetSchema.parse(demo("tote-design.limits.json")),
+      variable: parseVariable("layer:1:thickness_m")!,
+      min: 0.001,
+      max: 0.15,
+    });
+    expect(r.rule_notes).toEqual([]);
+    expect(r.feasible).toBe(true);
+    expect(r.display.label).toBe("EPS wall thickness, mm");
+    // on the grid of 0.1 mm, between the curve's points that bracket it
+    expect(Math.abs(r.value! * 1e4 - Math.round(r.value! * 1e4))).toBeLessThan(1e-6);
+    expect(r.value!).toBeGreaterThan(0.01);
+    expect(r.value!).toBeLessThan(0.1);
   });
 });
