@@ -35,7 +35,7 @@ export async function startReview(_prev: FormState, form: FormData): Promise<For
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
   const outcome = await runAndStoreReview(parsed.data);
-  if (!outcome.ok) return { fieldErrors: { [outcome.field]: outcome.message }, values };
+  if (!outcome.ok) return outcome.field === "form" ? { message: outcome.message, values } : { fieldErrors: { [outcome.field]: outcome.message }, values };
   redirect(`/reviews/${outcome.reviewId}`);
 }
 

@@ -7,7 +7,7 @@ import { importTraceFile, importOptionsSchema, medianInterval_s, sha256Hex, Trac
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { predict } from "../thermal/predict";
 import { limitSetSchema } from "../exposure/limits";
-import { runReview, unsupportedRule } from "../review";
+import { tryRunReview, unsupportedRule } from "../review";
 import { CAUTIONS } from "../review/cautions";
 import { csvRow } from "../review/csv";
 import { calibrateLumped } from "../design/calibrate";
@@ -169,7 +169,12 @@ async function predictCommand(argv: string[]): Promise<unknown> {
   const { imported } = await importTrace(String(values.trace), importOptions);
   const { series } = imported;
   const air = bridgeGaps(series);
-  const p = predict(product, pack, series.t_s, air, { model });
+  let p;
+  try {
+    p = predict(product, pack, series.t_s, air, { model });
+  } catch (e) {
+    throw new CliError(`${values.product}${pack ? ` with ${values.pack}` : ""}: the engine could not compute a prediction: ${(e as Error).message}`);
+  }
   const gaps = imported.gaps.map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s }));
   const screening = { ...p.screening, lumped_vs_conduction_K: p.lumped_vs_conduction_K };
   if (values.out) {
@@ -225,7 +230,9 @@ async function reviewCommand(argv: string[]): Promise<unknown> {
     throw new CliError(`--window: ${values.window} is not inside the trace (${iso(t[0]!)}/${iso(t[t.length - 1]!)})`);
   }
   const uncertainty = values.uncertainty ? readJsonFile(values.uncertainty, uncertaintySpecSchema) : undefined;
-  const { result } = runReview({ series: imported.series, product, pack, limits, options: { model, window, uncertainty }, gapMultiple: imported.settings.gapMultiple });
+  const attempt = tryRunReview({ series: imported.series, product, pack, limits, options: { model, window, uncertainty }, gapMultiple: imported.settings.gapMultiple });
+  if (!attempt.ok) throw new CliError(`${values.product}${pack ? ` with ${values.pack}` : ""}: ${attempt.message}`);
+  const { result } = attempt.computation;
   return {
     trace: { file: values.trace, sha256: sha256Hex(bytes), samples: imported.series.t_s.length, import_settings: imported.settings, warnings: imported.warnings },
     ...result,

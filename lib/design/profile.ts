@@ -1,8 +1,17 @@
 import { z } from "zod";
 import type { TraceSeries } from "../trace/series";
+import { capped, quantity, strictObject } from "../quantity";
 
-const minutes = z.number({ error: "duration must be a number of minutes" }).finite().positive({ message: "duration must be greater than zero" }).max(60 * 24 * 60);
-const celsius = z.number({ error: "must be a temperature in °C" }).finite().min(-60).max(80);
+/** A segment lasts 0.1 min to 60 days. */
+const minutes = quantity("duration_min", "min", 0.1, 60 * 24 * 60);
+/** Design air temperatures: -60 to 80 °C. */
+const celsius = (what: string) => quantity(what, "°C", -60, 80);
+
+/** Caps: segments in one list, nesting of repeats, segments after expanding every repeat, samples. */
+export const MAX_SEGMENTS = 200;
+export const MAX_DEPTH = 5;
+export const MAX_EXPANDED_SEGMENTS = 100_000;
+const MAX_SAMPLES = 2_000_000;
 
 export type Segment =
   | { kind: "hold"; C: number; duration_min: number }
@@ -11,26 +20,50 @@ export type Segment =
 
 export const segmentSchema: z.ZodType<Segment> = z.lazy(() =>
   z.discriminatedUnion("kind", [
-    z.object({ kind: z.literal("hold"), C: celsius, duration_min: minutes }),
-    z.object({ kind: z.literal("ramp"), to_C: celsius, duration_min: minutes }),
-    z.object({ kind: z.literal("repeat"), count: z.number().int().min(1).max(1000), segments: z.array(segmentSchema).min(1) }),
-  ]),
+    strictObject({ kind: z.literal("hold"), C: celsius("C"), duration_min: minutes }),
+    strictObject({ kind: z.literal("ramp"), to_C: celsius("to_C"), duration_min: minutes }),
+    strictObject({
+      kind: z.literal("repeat"),
+      count: quantity("count", "", 1, 1000).int({ message: "count must be a whole number" }),
+      segments: capped(segmentSchema, "segments", MAX_SEGMENTS, 1),
+    }),
+  ], { error: "segment kind must be hold, ramp or repeat" }),
 );
 
 /**
  * A design ambient profile built from segments: hold at a temperature, ramp to one, or repeat a
  * block. Sampled every interval_s from start. A hold jumps to its temperature at its start.
  */
-export const profileSchema = z.object({
-  name: z.string().trim().min(1).max(120),
-  start: z.iso.datetime({ offset: true }).default("2026-07-01T00:00:00Z"),
-  interval_s: z.number().int().min(10).max(3600).default(60),
-  initial_C: celsius,
-  segments: z.array(segmentSchema).min(1, { message: "a profile needs at least one segment" }),
+export const profileSchema = strictObject({
+  name: z.string().trim().min(1, { message: "name is required" }).max(120),
+  start: z.iso.datetime({ offset: true, message: "start must be an ISO 8601 date-time with Z or an offset" }).default("2026-07-01T00:00:00Z"),
+  interval_s: quantity("interval_s", "s", 10, 3600).int({ message: "interval_s must be a whole number of seconds" }).default(60),
+  initial_C: celsius("initial_C"),
+  segments: capped(segmentSchema, "segments", MAX_SEGMENTS, 1),
+}).superRefine((p, ctx) => {
+  const size = profileSize(p.segments);
+  if (size.depth > MAX_DEPTH) ctx.addIssue({ code: "custom", path: ["segments"], message: `repeats may be nested at most ${MAX_DEPTH} deep` });
+  else if (size.segments > MAX_EXPANDED_SEGMENTS) ctx.addIssue({ code: "custom", path: ["segments"], message: `the repeats expand to ${size.segments.toLocaleString("en")} segments; at most ${MAX_EXPANDED_SEGMENTS.toLocaleString("en")} are allowed` });
+  else if (size.duration_s / p.interval_s > MAX_SAMPLES) ctx.addIssue({ code: "custom", path: ["segments"], message: `the profile lasts ${(size.duration_s / 86400).toFixed(1)} days, more than ${MAX_SAMPLES.toLocaleString("en")} samples at ${p.interval_s} s` });
 });
 export type Profile = z.infer<typeof profileSchema>;
 
-const MAX_SAMPLES = 2_000_000;
+/** Duration, expanded segment count and repeat depth, computed without expanding the repeats. */
+export function profileSize(segs: Segment[]): { duration_s: number; segments: number; depth: number } {
+  let duration_s = 0, segments = 0, depth = 0;
+  for (const s of segs) {
+    if (s.kind === "repeat") {
+      const inner = profileSize(s.segments);
+      duration_s += s.count * inner.duration_s;
+      segments += s.count * inner.segments;
+      depth = Math.max(depth, inner.depth + 1);
+    } else {
+      duration_s += s.duration_min * 60;
+      segments += 1;
+    }
+  }
+  return { duration_s, segments, depth };
+}
 
 /** The profile as a trace: piecewise-linear air temperature at the profile's sampling interval. */
 export function profileSeries(p: Profile): TraceSeries {

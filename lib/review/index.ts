@@ -4,3 +4,4 @@ export * from "./canonical";
 export * from "./csv";
 export * from "./audit";
 export * from "./export";
+export * from "./tryRunReview";

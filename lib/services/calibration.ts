@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { storedRefusal } from "./storedRefusal";
 import { calibrateLumped, type CalibrationResult } from "../design/calibrate";
 import { packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { bridgeGaps } from "../trace/series";
@@ -28,8 +29,12 @@ export async function runCalibration(request: CalibrationRequest): Promise<Calib
   const product = req.productId ? await getDefinition<Product>(req.productId) : null;
   const pack = req.packId ? await getDefinition<Pack>(req.packId) : null;
   if (pack && !product) return { ok: false, message: "choose the product too when comparing with a pack" };
-  const p = product ? productSchema.parse(product.body) : undefined;
-  const k = pack ? packSchema.parse(pack.body) : undefined;
+  const pParsed = product ? productSchema.safeParse(product.body) : undefined;
+  if (pParsed && !pParsed.success) return { ok: false, message: storedRefusal("product", product!, pParsed.error) };
+  const kParsed = pack ? packSchema.safeParse(pack.body) : undefined;
+  if (kParsed && !kParsed.success) return { ok: false, message: storedRefusal("pack", pack!, kParsed.error) };
+  const p = pParsed?.data;
+  const k = kParsed?.data;
   if (p && !k && p.h_W_m2K === undefined) return { ok: false, message: "this product has no surface coefficient of its own: choose its pack" };
   const air = bridgeGaps(trace.series);
   try {
@@ -50,7 +55,7 @@ export async function saveEffectivePack(request: CalibrationRequest & { name: st
   const out = await runCalibration(request);
   if (!out.ok) return out;
   if (!out.product || out.result.h_eff_W_m2K === undefined) return { ok: false, message: "choose the product: the effective coefficient is referred to its surface" };
-  const body = packSchema.parse({
+  const parsed = packSchema.safeParse({
     name: request.name,
     h_outside_W_m2K: out.result.h_eff_W_m2K,
     layers: [],
@@ -66,6 +71,11 @@ export async function saveEffectivePack(request: CalibrationRequest & { name: st
       engine_version: ENGINE_VERSION,
     },
   });
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0]!;
+    return { ok: false, message: `the fitted pack cannot be saved: field '${issue.path.join(".")}': ${issue.message}` };
+  }
+  const body = parsed.data;
   const saved = out.pack ? await reviseDefinition(out.pack.lineage, body) : await createDefinition("pack", body);
   return { ok: true, packId: saved.id };
 }

@@ -1,7 +1,8 @@
 import { z } from "zod";
+import { storedRefusal } from "./storedRefusal";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { limitSetSchema, type LimitSet } from "../exposure/limits";
-import { runReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewOptions } from "../review";
+import { runReview, tryRunReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewOptions } from "../review";
 import { importTraceFile, optionsFromSettings, sha256Hex } from "../trace";
 import { getTrace } from "../db/traces";
 import { getDefinition } from "../db/definitions";
@@ -50,9 +51,16 @@ export async function runAndStoreReview(request: RunReviewRequest, actor = "web"
     if (old.status !== "signed") return { ok: false, field: "correctsId", message: "only a signed review is corrected by a new one; an open review can simply be re-run" };
   }
   // Stored bodies were validated when saved; parse again so the engine never sees an unchecked value.
-  const product = productSchema.parse(productDef.body);
-  const pack = packDef ? packSchema.parse(packDef.body) : undefined;
-  const limits = limitSetSchema.parse(limitsDef.body);
+  // A definition saved before a schema tightened (a range, an unknown field) is refused by name.
+  const productParsed = productSchema.safeParse(productDef.body);
+  if (!productParsed.success) return { ok: false, field: "productId", message: storedRefusal("product", productDef, productParsed.error) };
+  const packParsed = packDef ? packSchema.safeParse(packDef.body) : undefined;
+  if (packParsed && !packParsed.success) return { ok: false, field: "packId", message: storedRefusal("pack", packDef!, packParsed.error) };
+  const limitsParsed = limitSetSchema.safeParse(limitsDef.body);
+  if (!limitsParsed.success) return { ok: false, field: "limitsId", message: storedRefusal("limit set", limitsDef, limitsParsed.error) };
+  const product = productParsed.data;
+  const pack = packParsed?.data;
+  const limits = limitsParsed.data;
   const bad = unsupportedRule(limits, trace.series.probe_C !== undefined);
   if (bad) {
     const why = bad.channel === "probe" ? "this trace has no product-probe column" : "a review does not produce it";
@@ -78,7 +86,9 @@ export async function runAndStoreReview(request: RunReviewRequest, actor = "web"
     }
     options.window = { start_s, end_s };
   }
-  const comp = runReview({ series: trace.series, product, pack, limits, options, gapMultiple: trace.meta.importSettings.gapMultiple });
+  const attempt = tryRunReview({ series: trace.series, product, pack, limits, options, gapMultiple: trace.meta.importSettings.gapMultiple });
+  if (!attempt.ok) return { ok: false, field: "form", message: attempt.message };
+  const comp = attempt.computation;
   const reviewId = await createReview({
     title: req.title,
     traceId: trace.meta.id,

@@ -1,43 +1,54 @@
 import { z } from "zod";
+import { capped, quantity, strictObject } from "../quantity";
 
 // Product and pack definitions: the JSON that the UI, the API and the CLI share. SI units in every name.
+// Every physical quantity has a plausible range (README.md, "Plausible ranges"): wide enough for any
+// chilled or frozen food in transport, narrow enough that the engine never sees 1e308 kg or 1e-300 m.
+// Unknown fields are refused by name, so a mistyped "mass_g" is not silently ignored.
 
-const pos = (what: string) =>
-  z.number({ error: `${what} must be a number` }).finite().positive({ message: `${what} must be greater than zero` });
-const fraction = (what: string) =>
-  z.number({ error: `${what} must be a number` }).finite().min(0, { message: `${what} cannot be negative` }).max(1, { message: `${what} cannot exceed 1` });
-const celsius = (what: string) =>
-  z.number({ error: `${what} must be a temperature in °C` }).finite().min(-60, { message: `${what} must be at least -60 °C` }).max(150, { message: `${what} must be at most 150 °C` });
+/** Product dimensions: 0.5 mm (a leaf, a thin slice) to 3 m (a pallet load). */
+const dimension = (what: string) => quantity(what, "m", 0.0005, 3);
+/** Heat-transfer coefficients: 0.01 (an effective coefficient behind insulation) to 2000 W/(m²·K) (hydrocooling). */
+const filmCoefficient = (what: string) => quantity(what, "W/(m²·K)", 0.01, 2000);
+const fraction = (what: string) => quantity(what, "", 0, 1);
+/** Food temperatures: -60 °C (deep-frozen storage) to 150 °C (cooking). */
+const celsius = (what: string) => quantity(what, "°C", -60, 150);
+/** Coolant temperatures: -90 °C (dry ice sublimes at -78.5 °C) to 100 °C. */
+const coolantCelsius = (what: string) => quantity(what, "°C", -90, 100);
+
+export const MAX_LAYERS = 20;
+export const MAX_COOLANTS = 20;
 
 export const shapeSchema = z.discriminatedUnion(
   "kind",
   [
-    z.object({ kind: z.literal("sphere"), radius_m: pos("radius") }),
-    z.object({ kind: z.literal("cylinder"), radius_m: pos("radius"), length_m: pos("length") }),
-    z.object({ kind: z.literal("slab"), thickness_m: pos("thickness"), width_m: pos("width"), length_m: pos("length") }),
-    z.object({ kind: z.literal("box"), x_m: pos("x"), y_m: pos("y"), z_m: pos("z") }),
+    strictObject({ kind: z.literal("sphere"), radius_m: dimension("radius") }),
+    strictObject({ kind: z.literal("cylinder"), radius_m: dimension("radius"), length_m: dimension("length") }),
+    strictObject({ kind: z.literal("slab"), thickness_m: dimension("thickness"), width_m: dimension("width"), length_m: dimension("length") }),
+    strictObject({ kind: z.literal("box"), x_m: dimension("x"), y_m: dimension("y"), z_m: dimension("z") }),
   ],
   { error: "shape.kind must be one of sphere, cylinder, slab, box" },
 );
 export type Shape = z.infer<typeof shapeSchema>;
 
-export const propertiesSchema = z.object({
-  density_kg_m3: pos("density").optional(),
-  cp_J_kgK: pos("specific heat"),
-  k_W_mK: pos("thermal conductivity").optional(),
+export const propertiesSchema = strictObject({
+  /** 50 (leafy produce, bulk) to 3000 kg/m³ */
+  density_kg_m3: quantity("density", "kg/m³", 50, 3000).optional(),
+  /** 500 (dry foods) to 6000 J/(kg·K) (water is 4186) */
+  cp_J_kgK: quantity("specific heat", "J/(kg·K)", 500, 6000),
+  /** 0.02 (dry, porous foods) to 5 W/(m·K) (ice is 2.2) */
+  k_W_mK: quantity("thermal conductivity", "W/(m·K)", 0.02, 5).optional(),
 });
 
 /** Mass fractions (Choi and Okos, 1986); they must sum to 1 within 0.5 %. */
-export const compositionSchema = z
-  .object({
+export const compositionSchema = strictObject({
     water: fraction("water"),
     protein: fraction("protein").default(0),
     fat: fraction("fat").default(0),
     carbohydrate: fraction("carbohydrate").default(0),
     fiber: fraction("fiber").default(0),
     ash: fraction("ash").default(0),
-  })
-  .refine((c) => Math.abs(c.water + c.protein + c.fat + c.carbohydrate + c.fiber + c.ash - 1) <= 0.005, {
+  }).refine((c) => Math.abs(c.water + c.protein + c.fat + c.carbohydrate + c.fiber + c.ash - 1) <= 0.005, {
     message: "mass fractions must sum to 1 (within 0.5 %)",
   });
 export type Composition = z.infer<typeof compositionSchema>;
@@ -46,22 +57,21 @@ export type Composition = z.infer<typeof compositionSchema>;
  * A product. Either `shape` (with `properties` including density, or `composition`) or the bare
  * lumped form of the first release (`mass_kg`, `properties.cp_J_kgK`, `area_m2`, `h_W_m2K`).
  */
-export const productSchema = z
-  .object({
+export const productSchema = strictObject({
     name: z.string().trim().min(1, { message: "name is required" }).max(120),
     shape: shapeSchema.optional(),
-    mass_kg: pos("mass").optional(),
+    /** 1 g to 2000 kg (a pallet load) */
+    mass_kg: quantity("mass", "kg", 0.001, 2000).optional(),
     properties: propertiesSchema.optional(),
     composition: compositionSchema.optional(),
     /** initial freezing point, °C; with a composition, enables the frozen-state properties */
     freezing_point_C: celsius("freezing point").optional(),
     initial_C: celsius("initial temperature"),
     /** bare form: outer surface area, m² (taken from the shape when absent) */
-    area_m2: pos("surface area").optional(),
+    area_m2: quantity("surface area", "m²", 0.0001, 100).optional(),
     /** bare form: surface heat-transfer coefficient, W/(m²·K), used when no pack is given */
-    h_W_m2K: pos("heat-transfer coefficient").optional(),
-  })
-  .superRefine((p, ctx) => {
+    h_W_m2K: filmCoefficient("heat-transfer coefficient").optional(),
+  }).superRefine((p, ctx) => {
     if (!p.properties && !p.composition) {
       ctx.addIssue({ code: "custom", path: ["properties"], message: "give either properties or composition" });
     }
@@ -80,49 +90,48 @@ export const productSchema = z
   });
 export type Product = z.infer<typeof productSchema>;
 
-export const layerSchema = z.object({
+export const layerSchema = strictObject({
   name: z.string().trim().min(1, { message: "layer name is required" }).max(80),
-  thickness_m: pos("thickness").max(1, { message: "thickness must be at most 1 m" }),
-  k_W_mK: pos("conductivity"),
+  /** 10 µm (a film) to 1 m */
+  thickness_m: quantity("thickness", "m", 0.00001, 1),
+  /** 0.001 (vacuum panels are about 0.004) to 500 W/(m·K) (copper is about 400) */
+  k_W_mK: quantity("conductivity", "W/(m·K)", 0.001, 500),
 });
 
-export const coolantSchema = z
-  .object({
+export const coolantSchema = strictObject({
     name: z.string().trim().min(1, { message: "coolant name is required" }).max(80),
-    mass_kg: z.number({ error: "mass must be a number" }).finite().min(0, { message: "mass cannot be negative" }),
-    melt_C: celsius("melt temperature"),
-    latent_J_kg: z.number({ error: "latent heat must be a number" }).finite().min(0, { message: "latent heat cannot be negative" }),
-    cp_solid_J_kgK: pos("solid specific heat"),
-    cp_liquid_J_kgK: pos("liquid specific heat"),
-    initial_C: celsius("initial temperature"),
+    /** 0 (a placeholder) to 500 kg */
+    mass_kg: quantity("mass", "kg", 0, 500),
+    melt_C: coolantCelsius("melt temperature"),
+    /** 0 to 1 MJ/kg (water 333.6 kJ/kg, dry ice sublimation about 571 kJ/kg) */
+    latent_J_kg: quantity("latent heat", "J/kg", 0, 1e6),
+    cp_solid_J_kgK: quantity("solid specific heat", "J/(kg·K)", 100, 10000),
+    cp_liquid_J_kgK: quantity("liquid specific heat", "J/(kg·K)", 100, 10000),
+    initial_C: coolantCelsius("initial temperature"),
   });
 export type Coolant = z.infer<typeof coolantSchema>;
 
-export const packSchema = z
-  .object({
+export const packSchema = strictObject({
     name: z.string().trim().min(1, { message: "name is required" }).max(120),
-    h_outside_W_m2K: pos("outside heat-transfer coefficient"),
-    h_inside_W_m2K: pos("inside heat-transfer coefficient").optional(),
+    h_outside_W_m2K: filmCoefficient("outside heat-transfer coefficient"),
+    h_inside_W_m2K: filmCoefficient("inside heat-transfer coefficient").optional(),
     emissivity: fraction("emissivity").optional(),
-    layers: z.array(layerSchema).default([]),
+    layers: capped(layerSchema, "layers", MAX_LAYERS).default([]),
     /** area the layers are spread over, m²; plane walls are assumed when given */
-    area_m2: pos("area").optional(),
-    coolants: z.array(coolantSchema).default([]),
+    area_m2: quantity("area", "m²", 0.0001, 100).optional(),
+    coolants: capped(coolantSchema, "coolants", MAX_COOLANTS).default([]),
     /** where an effective pack came from (a calibration), kept with the definition */
-    provenance: z
-      .object({
+    provenance: strictObject({
         method: z.literal("calibration"),
-        trace_sha256: z.string(),
-        product_id: z.string(),
-        tau_s: z.number(),
+        trace_sha256: z.string().max(64),
+        product_id: z.string().max(100),
+        tau_s: z.number().finite(),
         tau_ci95_s: z.tuple([z.number(), z.number()]),
-        rmse_K: z.number(),
-        fitted_at: z.string(),
-        engine_version: z.string(),
-      })
-      .optional(),
-  })
-  .superRefine((p, ctx) => {
+        rmse_K: z.number().finite(),
+        fitted_at: z.string().max(40),
+        engine_version: z.string().max(40),
+      }).optional(),
+  }).superRefine((p, ctx) => {
     if (p.coolants.some((c) => c.mass_kg > 0) && p.h_inside_W_m2K === undefined) {
       ctx.addIssue({
         code: "custom",

@@ -6,19 +6,22 @@ import { predict } from "../thermal/predict";
 import type { LimitSet } from "../exposure/limits";
 import { evaluateLimitSet, type ChannelSeries } from "../exposure/rules";
 import { mulberry32, normalSource } from "./random";
+import { capped, quantity, strictObject } from "../quantity";
 
-export const uncertainInputSchema = z.object({
+export const MAX_UNCERTAIN_INPUTS = 50;
+
+export const uncertainInputSchema = strictObject({
   /** where the value sits, e.g. "product.properties.cp_J_kgK", "product.mass_kg", "pack.h_outside_W_m2K", "pack.layers.0.k_W_mK" (indices from 0) */
   path: z.string().regex(/^(product|pack)(\.[A-Za-z_0-9]+)+$/, { message: "path must look like product.mass_kg or pack.layers.0.k_W_mK" }),
   /** half-width (uniform) or one standard deviation (normal), absolute or in percent */
-  plusminus: z.number().finite().min(0),
+  plusminus: quantity("plusminus", "", 0, 1e6),
   percent: z.boolean().default(false),
-  distribution: z.enum(["uniform", "normal"]).default("normal"),
-});
-export const uncertaintySpecSchema = z.object({
-  inputs: z.array(uncertainInputSchema).min(1),
-  samples: z.number().int().min(10).max(20_000).default(500),
-  seed: z.number().int().default(1),
+  distribution: z.enum(["uniform", "normal"], { error: "distribution must be uniform or normal" }).default("normal"),
+}).refine((u) => !u.percent || u.plusminus <= 100, { message: "plusminus in percent must be at most 100", path: ["plusminus"] });
+export const uncertaintySpecSchema = strictObject({
+  inputs: capped(uncertainInputSchema, "uncertain inputs", MAX_UNCERTAIN_INPUTS, 1),
+  samples: quantity("samples", "", 10, 20_000).int({ message: "samples must be a whole number" }).default(500),
+  seed: quantity("seed", "", 0, 4_294_967_295).int({ message: "seed must be a whole number" }).default(1),
   /** use the half-width of the 90 % core band as the model uncertainty in the rules' guard band */
   use_in_guard_band: z.boolean().default(false),
 });

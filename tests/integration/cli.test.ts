@@ -35,7 +35,21 @@ describe("corelag review (CLI)", () => {
     const r = corelag("review", "--trace", path.join(DEMO, "route7-tote3.csv"), "--product", bad, "--limits", path.join(DEMO, "ready-meal.limits.json"));
     expect(r.code).toBe(2);
     expect(r.stdout).toBe("");
-    expect(r.stderr).toBe(`corelag review: ${bad}: field 'properties.cp_J_kgK': specific heat must be greater than zero\n`);
+    expect(r.stderr).toBe(`corelag review: ${bad}: field 'properties.cp_J_kgK': specific heat must be between 500 and 6000 J/(kg·K)\n`);
+  });
+
+  it("exits 2 naming the file and field for mass_kg 1e308 and for an unknown field", () => {
+    // issue #9: this exited 3 with the solver's "tau_s must be positive and finite", naming neither
+    const huge = path.join(tmp, "huge.product.json");
+    writeFileSync(huge, JSON.stringify({ name: "x", mass_kg: 1e308, properties: { cp_J_kgK: 3600 }, area_m2: 0.1, h_W_m2K: 5, initial_C: 3 }));
+    const r = corelag("review", "--trace", path.join(DEMO, "route7-tote3.csv"), "--product", huge, "--limits", path.join(DEMO, "ready-meal.limits.json"));
+    expect(r.code).toBe(2);
+    expect(r.stderr).toBe(`corelag review: ${huge}: field 'mass_kg': mass must be between 0.001 and 2000 kg\n`);
+    const typo = path.join(tmp, "typo.product.json");
+    writeFileSync(typo, JSON.stringify({ name: "x", mass_kg: 0.45, mass_g: 450, properties: { cp_J_kgK: 3600 }, area_m2: 0.1, h_W_m2K: 5, initial_C: 3 }));
+    const t = corelag("review", "--trace", path.join(DEMO, "route7-tote3.csv"), "--product", typo, "--limits", path.join(DEMO, "ready-meal.limits.json"));
+    expect(t.code).toBe(2);
+    expect(t.stderr).toBe(`corelag review: ${typo}: the document: unknown field 'mass_g' (did you mean 'mass_kg'?)\n`);
   });
 
   it("names the row and column of a bad trace cell", () => {

@@ -45,6 +45,25 @@ describe("upload → store → review → read back (SQLite)", () => {
     expect(Buffer.compare(Buffer.from(stored!.series.air_C.buffer), Buffer.from(again.series.air_C.buffer))).toBe(0);
   });
 
+  it("runAndStoreReview refuses a stored product that no longer passes the schema by name, and stores nothing", async () => {
+    // A body saved before the ranges came in (mass 1e308 kg): written straight to storage, as an old row would be.
+    const { importCsv } = await import("@/lib/trace");
+    const { db } = await import("@/lib/db/client");
+    const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
+    const traceId = await dbm.createTrace({ name: "old", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
+    const product = { ...JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), name: "legacy tray", mass_kg: 1e308 };
+    const p = await dbm.createDefinition("product", product);
+    const l = await dbm.createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
+    const before = await db.review.count();
+    const res = await services.runAndStoreReview({ title: "old", traceId, productId: p.id, limitsId: l.id });
+    expect(res).toEqual({
+      ok: false,
+      field: "productId",
+      message: "the stored product 'legacy tray' v1 is no longer valid: field 'mass_kg': mass must be between 0.001 and 2000 kg; save a corrected version",
+    });
+    expect(await db.review.count()).toBe(before);
+  });
+
   it("runs a review on stored versions and reads back a result that reproduces bit for bit", async () => {
     const { importCsv } = await import("@/lib/trace");
     const { runReview, resultHash } = await import("@/lib/review");

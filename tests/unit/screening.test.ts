@@ -71,7 +71,7 @@ describe("geometry and resistances", () => {
 describe("definition schemas", () => {
   const issue = (r: { success: boolean; error?: { issues: Array<{ path: PropertyKey[]; message: string }> } }) => r.error!.issues[0]!;
   it("productSchema names the field at fault", () => {
-    expect(issue(productSchema.safeParse({ ...bare, mass_kg: -1 }))).toMatchObject({ path: ["mass_kg"], message: "mass must be greater than zero" });
+    expect(issue(productSchema.safeParse({ ...bare, mass_kg: -1 }))).toMatchObject({ path: ["mass_kg"], message: "mass must be between 0.001 and 2000 kg" });
   });
   it("productSchema refuses mass fractions that do not sum to 1 within 0.5 %", () => {
     const r = productSchema.safeParse({ name: "x", shape: { kind: "sphere", radius_m: 0.05 }, composition: { water: 0.7, protein: 0.2 }, initial_C: 4, h_W_m2K: 5 });
@@ -79,7 +79,7 @@ describe("definition schemas", () => {
   });
   it("packSchema refuses a negative layer thickness, naming the layer", () => {
     const r = packSchema.safeParse({ name: "k", h_outside_W_m2K: 8, layers: [{ name: "EPS", thickness_m: -0.01, k_W_mK: 0.035 }] });
-    expect(issue(r)).toMatchObject({ path: ["layers", 0, "thickness_m"], message: "thickness must be greater than zero" });
+    expect(issue(r)).toMatchObject({ path: ["layers", 0, "thickness_m"], message: "thickness must be between 0.00001 and 1 m" });
   });
   it("packSchema requires the inside coefficient when there is coolant", () => {
     const r = packSchema.safeParse({ name: "k", h_outside_W_m2K: 8, coolants: [{ name: "gel", mass_kg: 1, melt_C: 0, latent_J_kg: 3e5, cp_solid_J_kgK: 2000, cp_liquid_J_kgK: 3800, initial_C: -5 }] });
