@@ -25,8 +25,8 @@ const OUTER_LAYERS: Record<string, string[]> = {
   services: ["db"],
   cli: ["services"],
 };
-/** Top-level files in lib/ shared by every layer (framework-free helpers). */
-const SHARED_FILES = new Set(["validation"]);
+/** Top-level files in lib/ shared by every layer (framework-free helpers: form state, zod quantities with ranges). */
+const SHARED_FILES = new Set(["validation", "quantity"]);
 
 const FRAMEWORK = /^(next(\/.*)?|react(-dom)?(\/.*)?|server-only|@prisma\/.*|.*generated\/prisma.*|better-sqlite3|pg|@libsql\/.*)$/;
 const STORAGE_DRIVER = /^(@prisma\/.*|.*generated\/prisma.*|better-sqlite3|pg|pg-boss|@libsql\/.*)$/;

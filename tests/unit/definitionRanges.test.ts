@@ -4,7 +4,7 @@ import path from "node:path";
 import { productSchema, packSchema, MAX_COOLANTS, MAX_LAYERS, type Product } from "@/lib/thermal/definitions";
 import { limitSetSchema, MAX_RULES } from "@/lib/exposure/limits";
 import { profileSchema, MAX_SEGMENTS, MAX_EXPANDED_SEGMENTS } from "@/lib/design/profile";
-import { uncertaintySpecSchema } from "@/lib/design/uncertainty";
+import { uncertaintySpecSchema } from "@/lib/uncertainty";
 import { tryRunReview } from "@/lib/review";
 
 // The ranges are the plausible ranges stated in lib/thermal/definitions.ts and README.md; the hostile
