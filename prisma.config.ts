@@ -3,6 +3,7 @@
 import path from "node:path";
 import { defineConfig } from "prisma/config";
 import { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
+import { config } from "./lib/config";
 
 process.env.CHECKPOINT_DISABLE = "1";
 
@@ -15,7 +16,8 @@ globalThis.setTimeout = ((fn: (...a: unknown[]) => void, ms?: number, ...args: u
   return t;
 }) as typeof setTimeout;
 
-const url = process.env.DATABASE_URL ?? `file:${path.join("data", "corelag.db")}`;
+// The same configuration as the app and the CLI (environment, else .env), validated once.
+const url = config().DATABASE_URL;
 
 export default defineConfig({
   experimental: { adapter: true },

@@ -3,6 +3,7 @@
 // cannot slip a framework or the database into the engine.
 //
 //   app/ → lib/services → lib/db → engine          (lib/cli sits beside app/: services and engine)
+//   lib/config (environment and .env, validated) is read by db, services and cli
 //   engine, lowest first: trace < thermal < exposure < uncertainty < review < design
 //   new lib/ folders must be given a place here before they are used
 import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
@@ -21,9 +22,10 @@ const ENGINE = Object.keys(ENGINE_LAYERS);
 
 /** Orchestration and storage folders under lib/, with what each may import besides the engine. */
 const OUTER_LAYERS: Record<string, string[]> = {
-  db: [],
-  services: ["db"],
-  cli: ["services"],
+  config: [],
+  db: ["config"],
+  services: ["db", "config"],
+  cli: ["services", "config"],
 };
 /** Top-level files in lib/ shared by every layer (framework-free helpers: form state, zod quantities with ranges). */
 const SHARED_FILES = new Set(["validation", "quantity"]);

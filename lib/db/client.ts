@@ -6,7 +6,8 @@ import { databaseUrl } from "./env";
 const globalForPrisma = globalThis as unknown as { corelagPrisma?: PrismaClient };
 
 function makeClient(): PrismaClient {
-  return new PrismaClient({ adapter: new PrismaBetterSQLite3({ url: databaseUrl() }) });
+  // Wait up to 10 s for another writer's lock before failing with SQLITE_BUSY (better-sqlite3's `timeout`).
+  return new PrismaClient({ adapter: new PrismaBetterSQLite3({ url: databaseUrl(), timeout: 10_000 }) });
 }
 
 // Reused across hot reloads in development, where modules are re-evaluated.
