@@ -5,6 +5,7 @@ export default defineConfig({
   resolve: { alias: { "@": path.resolve(import.meta.dirname) } },
   test: {
     environment: "node",
+    globalSetup: ["tests/globalSetup.ts"],
     include: ["tests/unit/**/*.test.ts", "tests/integration/**/*.test.ts"],
     // Integration tests migrate their own SQLite files; a non-UTC zone catches code that forgets a zone.
     env: { TZ: "America/Sao_Paulo" },

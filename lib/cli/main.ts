@@ -1,6 +1,6 @@
 // Corelag command line: `npm run -s corelag -- <command> [options]`. Prints JSON on stdout; on bad input
 // prints one line naming the file and the row or field at fault to stderr and exits 2.
-import { readFileSync, writeFileSync } from "node:fs";
+import { closeSync, openSync, readFileSync, writeSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { z } from "zod";
 import { importTraceFile, importOptionsSchema, medianInterval_s, sha256Hex, TraceImportError, bridgeGaps, type ImportOptions, type TraceImport } from "../trace";
@@ -55,9 +55,10 @@ const FLAG_OF: Record<string, string> = {
   plausibleMin_C: "--plausible-min", plausibleMax_C: "--plausible-max", gapMultiple: "--gap-multiple",
 };
 
+/** A file's bytes; `-` reads standard input. */
 function readBytes(file: string): Uint8Array {
   try {
-    return readFileSync(file);
+    return readFileSync(file === "-" ? 0 : file);
   } catch (e) {
     throw new CliError(`${file}: cannot be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
   }
@@ -178,17 +179,13 @@ async function predictCommand(argv: string[]): Promise<unknown> {
   const gaps = imported.gaps.map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s }));
   const screening = { ...p.screening, lumped_vs_conduction_K: p.lumped_vs_conduction_K };
   if (values.out) {
-    const head = ["time_utc", "air_C", "core_C", "surface_C", "mean_C", ...(p.coolant ? ["coolant_C"] : [])];
-    const lines = [csvRow(head)];
-    for (let i = 0; i < series.t_s.length; i++) {
-      const row = [iso(series.t_s[i]!), air[i]!, p.core[i]!, p.surface[i]!, p.mean[i]!, ...(p.coolant ? [p.coolant[i]!] : [])];
-      lines.push(csvRow(row.map((v) => (typeof v === "number" ? v.toFixed(4) : v))));
-    }
+    const toStdout = values.out === "-";
     try {
-      writeFileSync(String(values.out), lines.join("\r\n") + "\r\n");
+      writeSeriesCsv(toStdout ? 1 : String(values.out), series.t_s, air, p);
     } catch (e) {
       throw new CliError(`${values.out}: cannot be written (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
     }
+    if (toStdout) return undefined;
     return { screening, solver: p.solver, gaps, out: values.out, cautions: CAUTIONS };
   }
   const arr = (a: Float64Array) => Array.from(a, (x) => Number(x.toFixed(4)));
@@ -206,6 +203,37 @@ async function predictCommand(argv: string[]): Promise<unknown> {
     },
     cautions: CAUTIONS,
   };
+}
+
+/** The predicted series as CSV, written in chunks (no whole-file string); `target` 1 is standard output. */
+function writeSeriesCsv(target: string | 1, t_s: Float64Array, air: Float64Array, p: { core: Float64Array; surface: Float64Array; mean: Float64Array; coolant?: Float64Array | null }): void {
+  const fd = target === 1 ? 1 : openSync(target, "w");
+  try {
+    let chunk = csvRow(["time_utc", "air_C", "core_C", "surface_C", "mean_C", ...(p.coolant ? ["coolant_C"] : [])]) + "\r\n";
+    for (let i = 0; i < t_s.length; i++) {
+      chunk += `${iso(t_s[i]!)},${air[i]!.toFixed(4)},${p.core[i]!.toFixed(4)},${p.surface[i]!.toFixed(4)},${p.mean[i]!.toFixed(4)}${p.coolant ? `,${p.coolant[i]!.toFixed(4)}` : ""}\r\n`;
+      if (chunk.length > 1 << 16) {
+        writeAll(fd, chunk);
+        chunk = "";
+      }
+    }
+    writeAll(fd, chunk);
+  } finally {
+    if (fd !== 1) closeSync(fd);
+  }
+}
+
+function writeAll(fd: number, text: string): void {
+  const buf = Buffer.from(text, "utf8");
+  let off = 0;
+  while (off < buf.length) {
+    try {
+      off += writeSync(fd, buf, off);
+    } catch (e) {
+      // A pipe reader that is slower than us: wait for it rather than fail.
+      if ((e as NodeJS.ErrnoException).code !== "EAGAIN") throw e;
+    }
+  }
 }
 
 async function reviewCommand(argv: string[]): Promise<unknown> {
@@ -350,7 +378,10 @@ const COMMANDS: Record<string, (argv: string[]) => Promise<unknown>> = {
   size: sizeCommand,
 };
 
-async function main(argv: string[]): Promise<number> {
+/** Runs one command; returns the exit code (0 done, 1 verify found a problem, 2 bad input, 3 unexpected failure). */
+export async function runCli(args: string[]): Promise<number> {
+  const debug = args.includes("--debug");
+  const argv = args.filter((a) => a !== "--debug");
   const [command, ...rest] = argv;
   const run = command ? COMMANDS[command] : undefined;
   if (!run && command !== "verify") {
@@ -364,7 +395,8 @@ async function main(argv: string[]): Promise<number> {
       process.stdout.write(JSON.stringify(output, null, 2) + "\n");
       return ok ? 0 : 1;
     }
-    process.stdout.write(JSON.stringify(await run!(rest), null, 2) + "\n");
+    const output = await run!(rest);
+    if (output !== undefined) process.stdout.write(JSON.stringify(output, null, 2) + "\n");
     return 0;
   } catch (e) {
     if (e instanceof CliError) {
@@ -375,16 +407,16 @@ async function main(argv: string[]): Promise<number> {
       process.stderr.write(`corelag ${command}: ${e.message}\n${USAGE}\n`);
       return 2;
     }
-    throw e;
+    // Unexpected: one line, and the stack only when asked for.
+    const message = e instanceof Error ? e.message.split("\n")[0] : String(e);
+    process.stderr.write(`corelag ${command}: unexpected failure: ${message}${debug ? `\n${e instanceof Error ? e.stack : ""}` : " (rerun with --debug for the stack trace)"}\n`);
+    return 3;
   }
 }
 
-main(process.argv.slice(2)).then(
-  (code) => {
+// Run directly from source (`tsx lib/cli/main.ts …`); the installed command starts at lib/cli/corelag.ts.
+if (typeof require !== "undefined" && typeof module !== "undefined" && require.main === module) {
+  runCli(process.argv.slice(2)).then((code) => {
     process.exitCode = code;
-  },
-  (e: unknown) => {
-    process.stderr.write(`corelag: ${e instanceof Error ? e.message : String(e)}\n`);
-    process.exitCode = 3;
-  },
-);
+  });
+}

@@ -9,7 +9,8 @@ const DEMO = path.join(ROOT, "public/demo");
 const tmp = mkdtempSync(path.join(tmpdir(), "corelag-cli-"));
 
 function corelag(...args: string[]) {
-  const r = spawnSync(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), path.join(ROOT, "lib/cli/main.ts"), ...args], {
+  // The bundled CLI (tests/globalSetup.ts builds it), as users run it.
+  const r = spawnSync(process.execPath, [path.join(ROOT, "dist/cli/corelag.mjs"), ...args], {
     cwd: ROOT,
     encoding: "utf8",
   });

@@ -1,0 +1,78 @@
+// Help texts of the command line. Kept free of engine imports so that `--help` and `--version` start at once.
+
+const IMPORT_OPTIONS = `import options (every command that reads a trace):
+  --sheet NAME            sheet of an .xlsx workbook (default: the first)
+  --time-col NAME         column with the date-time (or the time, with --date-col)
+  --date-col NAME         separate date column
+  --air-col NAME          air-temperature column
+  --product-col NAME      product-probe (or simulant) column
+  --unit C|F|K            temperature unit when the headers do not say
+  --tz ZONE               IANA time zone of local times without an offset (e.g. Europe/Lisbon)
+  --date-order dmy|mdy|ymd
+  --time-format datetime|unix-s|unix-ms|elapsed-s|elapsed-min|elapsed-h
+  --start ISO             start time for elapsed times
+  --decimal .|,           decimal separator
+  --delimiter ,|;|tab||   field delimiter
+  --missing CODE,CODE     codes that mean "no reading" (e.g. --missing -999,9999)
+  --plausible-min C       readings below are flagged and left out (default -60)
+  --plausible-max C       readings above are flagged and left out (default 80)
+  --gap-multiple N        a pause longer than N × the median interval is a gap (default 3)
+FILE may be - for standard input.`;
+
+export const COMMAND_HELP: Record<string, string> = {
+  import: `corelag import FILE [import options] [--format json]
+Reads a logger file and prints what was read: samples, channels, start, end, median interval, gaps, warnings, settings.
+
+${IMPORT_OPTIONS}`,
+  predict: `corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction] [--out FILE.csv|-] [import options]
+Predicts the core, surface and mean temperature through the recorded air. Prints the screening (Biot number, tau,
+resistances, model and why) and the series as JSON; with --out the series go to a CSV file (--out - : CSV on standard
+output, and nothing else is printed there).
+
+${IMPORT_OPTIONS}`,
+  review: `corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction]
+               [--window START/END] [--uncertainty U.json] [import options] [--format json]
+Predicts the core and judges every rule of the limit set (pass, fail or inconclusive under the guard band); prints the
+review as JSON with the suggested outcome and its cautions.
+
+${IMPORT_OPTIONS}`,
+  calibrate: `corelag calibrate --trace FILE [--product-col NAME] [--product P.json] [--pack K.json] [--fit-initial] [--fit-offset]
+                  [--mismatch-factor F] [import options] --format json
+Fits the lumped time constant (and optionally the initial temperature and a sensor offset) to a probe test.
+
+${IMPORT_OPTIONS}`,
+  size: `corelag size --profile FILE(.csv|.json) --product P.json --pack K.json --limits L.json
+             --vary layer:N:thickness_m|coolant:N:mass_kg|product:initial_C --min X --max Y [--model M] --format json
+Finds the smallest insulation thickness or coolant mass (or the warmest start) that keeps every rule passing.`,
+  verify: `corelag verify [--review ID]
+Checks the audit chain and re-runs stored reviews (all, or one) to confirm they reproduce bit for bit.
+Reads the database named by DATABASE_URL (environment, else .env). Exits 1 when anything does not verify.`,
+};
+
+const SUMMARY: Record<string, string> = {
+  import: "read a logger file and show what was read",
+  predict: "predict the core temperature through the recorded air",
+  review: "predict the core and judge a limit set; suggest an outcome",
+  calibrate: "fit the time constant to a probe test",
+  size: "size insulation or coolant against a profile and a limit set",
+  verify: "check the audit chain and re-run stored reviews",
+};
+
+export const PROGRAM_HELP = `corelag: predicts product core temperature from cold-chain logger traces and judges it against your limits.
+
+usage: corelag <command> [options]     (npm run -s corelag -- <command> …, or npx corelag …)
+
+commands:
+${Object.entries(SUMMARY)
+  .map(([name, text]) => `  ${name.padEnd(10)} ${text}`)
+  .join("\n")}
+
+global options:
+  --help, -h        this text, or a command's (corelag review --help)
+  --version         program and engine version
+  --debug           on an unexpected failure, print the stack trace
+
+exit codes: 0 done; 1 verify found a problem; 2 bad input (one line on stderr naming the file and the row, column
+or field); 3 unexpected failure (one line on stderr; rerun with --debug for the stack).
+
+Predictions are model estimates: food-safety decisions follow local regulations and a responsible professional.`;
