@@ -13,8 +13,8 @@ const START_UTC_MS = Date.UTC(2026, 5, 16, 3, 0, 0); // 05:00 local (UTC+02:00)
 const STEP_MIN = 2;
 const HOURS = 12;
 
-/** Air temperature inside the van around the tote, °C, at minute m of the route. */
-function airAt(m: number): number {
+/** Air temperature inside the van around the tote, °C, at minute m of the route (with or without the dock delay). */
+function airAt(m: number, dockDelay = true): number {
   const setpoint = 3.0;
   const drops = [95, 190, 300, 470, 560]; // door opens for each drop (minutes from departure)
   let a = setpoint;
@@ -23,6 +23,7 @@ function airAt(m: number): number {
     if (m >= d && m < d + 8) a = 11.5; // doors open at the drop
     else if (m >= d + 8 && m < d + 30) a = setpoint + 8.5 * Math.exp(-(m - d - 8) / 7);
   }
+  if (!dockDelay) return a;
   if (m >= 310 && m < 370) a = 14.5 + 1.5 * Math.sin(((m - 310) / 60) * Math.PI); // tote left on the dock
   if (m >= 370 && m < 405) a = setpoint + 11.5 * Math.exp(-(m - 370) / 9);
   return a;
@@ -47,6 +48,16 @@ function main(): void {
   // Metadata lines use ';' as exported by the logger's software; the data block is comma-separated.
   const csv = lines.map((l, i) => (i < 3 ? l.replace(";", ": ") : l)).join("\r\n") + "\r\n";
   writeFileSync(path.join(OUT, "route7-tote3.csv"), csv, "utf8");
+
+  // The same route a week earlier, without the dock delay: the demo's signed, historic review.
+  const earlyRand = mulberry32(20260609);
+  const earlyStart = START_UTC_MS - 7 * 86_400_000;
+  const early = ["Logger serial: HX-20417", "Trip: Route 7 north, tote 3 of 8", "Exported: 2026-06-09 18:02", "", "Timestamp,Air temperature (°C)"];
+  for (let m = 0; m <= HOURS * 60; m += STEP_MIN) {
+    const local = new Date(earlyStart + m * 60_000 + 2 * 3600_000).toISOString().slice(0, 19);
+    early.push(`${local}+02:00,${(airAt(m, false) + (earlyRand() - 0.5) * 0.3).toFixed(1)}`);
+  }
+  writeFileSync(path.join(OUT, "route7-tote3-0609.csv"), early.join("\r\n") + "\r\n", "utf8");
 
   const product = {
     name: "Ready meal tray 450 g (in tote)",

@@ -1,36 +1,76 @@
 import Link from "next/link";
-import { listAudit } from "@/lib/db/audit";
-import { verifyAuditChain } from "@/lib/review/audit";
+import { queryAudit, auditHead, AUDIT_ACTIONS } from "@/lib/db/auditQueries";
+import { Pager } from "@/app/components/Pager";
+import { auditFilter, auditQueryParams, parseAuditParams } from "./filters";
+import { ChainCheck } from "./ChainCheck";
 
 export const dynamic = "force-dynamic";
 
-export default async function AuditPage() {
-  const entries = await listAudit();
-  const check = verifyAuditChain(entries);
-  const link = (e: (typeof entries)[number]) => (e.entity === "review" ? <Link href={`/reviews/${e.entityId}`}>{e.entityId}</Link> : e.entity === "trace" ? <Link href={`/traces/${e.entityId}`}>{e.entityId}</Link> : e.entityId);
+const fmtUtc = (d: Date) => d.toISOString().slice(0, 19).replace("T", " ");
+const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review" };
+
+export default async function AuditPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  const raw = await searchParams;
+  const p = parseAuditParams(raw);
+  const [list, head] = await Promise.all([queryAudit({ ...auditFilter(p), page: p.page }), auditHead()]);
+  const params = auditQueryParams(p);
+  const csv = new URLSearchParams(Object.entries(params).filter((e): e is [string, string] => !!e[1])).toString();
+  const filtered = Object.values(params).some(Boolean);
   return (
     <>
       <h1>Audit log</h1>
       <section className="card">
-        <p data-testid="chain-status" className={check.ok ? "status-pass" : "status-fail"}>
-          {check.ok ? `Hash chain intact: ${check.entries} entries.` : `Hash chain broken: ${check.problems.join("; ")}`}
+        <ChainCheck head={head} verify={raw.verify === "1"} />
+      </section>
+      <section className="card">
+        <form className="filters no-print" aria-label="Filter the audit log" data-testid="audit-filters">
+          <label>Kind of record
+            <select name="entity" defaultValue={p.entity ?? ""} data-testid="filter-entity">
+              <option value="">any</option><option value="trace">trace</option><option value="definition">definition</option><option value="review">review</option>
+            </select>
+          </label>
+          <label>Action
+            <select name="action" defaultValue={p.action ?? ""} data-testid="filter-action">
+              <option value="">any</option>
+              {AUDIT_ACTIONS.map((a) => <option key={a} value={a}>{a}</option>)}
+            </select>
+          </label>
+          <label>Object id <input name="object" defaultValue={p.object} size={26} placeholder="exact id" data-testid="filter-object" /></label>
+          <label>From (UTC) <input type="date" name="from" defaultValue={p.from} data-testid="filter-from" /></label>
+          <label>to (UTC) <input type="date" name="to" defaultValue={p.to} data-testid="filter-to" /></label>
+          <label>Search <input type="search" name="q" defaultValue={p.q} maxLength={100} placeholder="name, title, id, hash, who" size={28} data-testid="search-input" /></label>
+          <button type="submit" className="secondary">Show</button>
+          {filtered && <Link href="/audit">Clear</Link>}
+        </form>
+        <p className="no-print">
+          <a href={`/audit/export.csv${csv ? `?${csv}` : ""}`} data-testid="audit-csv" download>Export {filtered ? "these entries" : "the whole log"} as CSV</a>
+          <span className="muted"> (every matching entry, oldest first, with names, links, details and hashes; formula-like cells neutralised)</span>
         </p>
-        <p className="muted">Each entry carries the SHA-256 of the one before it; the database refuses edits and deletions. <code>npm run -s corelag -- verify</code> also re-runs every stored review to confirm that it reproduces bit for bit.</p>
-        <table>
-          <thead><tr><th className="num">#</th><th>When (UTC)</th><th>Action</th><th>Record</th><th>By</th><th>Hash</th></tr></thead>
-          <tbody>
-            {[...entries].reverse().map((e) => (
-              <tr key={e.seq}>
-                <td className="num">{e.seq}</td>
-                <td>{e.at.toISOString().slice(0, 19).replace("T", " ")}</td>
-                <td>{e.action}</td>
-                <td>{e.entity} {link(e)}</td>
-                <td>{e.actor}</td>
-                <td><code className="hash">{e.hash.slice(0, 16)}…</code></td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />
+        {list.rows.length > 0 && (
+          <table data-testid="audit-table">
+            <thead><tr><th className="num">#</th><th>When (UTC)</th><th>Action</th><th>Record</th><th>By</th><th>Details</th><th>Hash</th></tr></thead>
+            <tbody>
+              {list.rows.map((e) => (
+                <tr key={e.seq} data-testid={`audit-row-${e.seq}`}>
+                  <td className="num">{e.seq}</td>
+                  <td style={{ whiteSpace: "nowrap" }}>{fmtUtc(e.at)}</td>
+                  <td>{e.action}{e.format && <> <span data-testid="audit-format">({e.format})</span></>}{e.action === "verify" && <> <strong className={(e.details as { reproduced?: boolean }).reproduced ? "status-pass" : "status-fail"}>{(e.details as { reproduced?: boolean }).reproduced ? "reproduced" : "did not reproduce"}</strong></>}</td>
+                  <td>
+                    {ENTITY_WORDS[e.entity] ?? e.entity}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}
+                    {e.subject.href && e.subject.name ? <Link href={e.subject.href} data-testid="audit-subject">{e.subject.name}</Link> : <span className="muted">not found</span>}
+                    <div className="raw-id"><Link href={`/audit?object=${e.entityId}`} title="every entry for this object">{e.entityId}</Link></div>
+                  </td>
+                  <td>{e.actor}</td>
+                  <td><details><summary>show</summary><pre style={{ whiteSpace: "pre-wrap", fontSize: "0.78rem", margin: 0 }}>{JSON.stringify(e.details, null, 1)}</pre></details></td>
+                  <td style={{ whiteSpace: "nowrap" }}><code title={`${e.hash}\nprevious ${e.prevHash}`} style={{ fontSize: "0.8rem" }}>{e.hash.slice(0, 10)}…</code></td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+        {list.rows.length === 0 && <p className="muted">No entries match.</p>}
+        <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />
       </section>
     </>
   );

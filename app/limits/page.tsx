@@ -3,17 +3,9 @@ import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
 import type { LimitSet } from "@/lib/exposure/limits";
 import { LIMIT_TEMPLATES } from "@/lib/exposure/templates";
 import { LimitSetEditor } from "./LimitSetEditor";
+import { describeRule } from "@/lib/review/parameters";
 
 export const dynamic = "force-dynamic";
-
-function describeRule(r: LimitSet["rules"][number]): string {
-  const parts = [`${r.channel} ${r.above_C !== undefined ? `above ${r.above_C}` : `below ${r.below_C}`} °C`];
-  if (r.max_cumulative_min !== undefined) parts.push(`at most ${r.max_cumulative_min} min in all`);
-  if (r.max_continuous_min !== undefined) parts.push(`at most ${r.max_continuous_min} min at a stretch`);
-  if (r.max_peak_C !== undefined) parts.push(`never beyond ${r.max_peak_C} °C`);
-  if (parts.length === 1) parts.push("no time allowed");
-  return parts.join(", ");
-}
 
 export default async function LimitsPage({ searchParams }: { searchParams: Promise<{ saved?: string; edit?: string }> }) {
   const { saved, edit } = await searchParams;

@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import type { ImportOptions, ResolvedImportSettings } from "@/lib/trace/settings";
 import type { ImportedChannel } from "@/lib/trace/importCsv";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
+import { DuplicateWarning } from "./DuplicateWarning";
 
 interface PreviewResult {
   samples: number;
@@ -223,6 +224,7 @@ export function TraceUploader() {
           />
         </section>
       )}
+      <DuplicateWarning bytes={bytes} />
       <button type="button" disabled={!result || phase.kind === "uploading"} onClick={() => result && upload(result)}>
         {phase.kind === "uploading" ? "Uploading…" : "Upload and import"}
       </button>

@@ -1,11 +1,15 @@
 import Link from "next/link";
-import { listTraces } from "@/lib/db/traces";
+import { searchTraces } from "@/lib/db/traces";
+import { Pager, SearchBox } from "@/app/components/Pager";
+import { listParamsSchema, nonEmpty } from "@/app/components/listParams";
 import { TraceUploader } from "./TraceUploader";
 
 export const dynamic = "force-dynamic";
 
-export default async function TracesPage() {
-  const traces = await listTraces();
+export default async function TracesPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  const p = listParamsSchema.parse(nonEmpty(await searchParams));
+  const traces = await searchTraces({ q: p.q, page: p.page });
+  const params = { q: p.q };
   return (
     <>
       <h1>Traces</h1>
@@ -15,15 +19,17 @@ export default async function TracesPage() {
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>Stored traces</h2>
-        {traces.length === 0 ? (
-          <p className="muted">No traces yet.</p>
+        <SearchBox params={params} q={p.q} label="Search traces" placeholder="name, file name, SHA-256 or id" />
+        <Pager path="/traces" params={params} page={traces.page} pages={traces.pages} total={traces.total} pageSize={traces.pageSize} noun="traces" />
+        {traces.rows.length === 0 ? (
+          <p className="muted">{p.q ? "No traces match." : "No traces yet."}</p>
         ) : (
-          <table>
+          <table data-testid="trace-list">
             <thead>
-              <tr><th>Name</th><th>File</th><th className="num">Samples</th><th>From (UTC)</th><th>To (UTC)</th><th>Channels</th><th>Warnings</th></tr>
+              <tr><th>Name</th><th>File</th><th className="num">Samples</th><th>From (UTC)</th><th>To (UTC)</th><th>Channels</th><th>Warnings</th><th>Reviews</th></tr>
             </thead>
             <tbody>
-              {traces.map((t) => (
+              {traces.rows.map((t) => (
                 <tr key={t.id}>
                   <td><Link href={`/traces/${t.id}`}>{t.name}</Link></td>
                   <td>{t.fileName}</td>
@@ -32,11 +38,13 @@ export default async function TracesPage() {
                   <td>{t.endAt.toISOString().slice(0, 16).replace("T", " ")}</td>
                   <td>{t.hasProbe ? "air + product probe" : "air"}</td>
                   <td>{t.warnings.length || ""}</td>
+                  <td>{t.reviewCount > 0 ? t.reviewCount : <Link href={`/reviews/new?trace=${t.id}`} className="status-hold">never reviewed</Link>}</td>
                 </tr>
               ))}
             </tbody>
           </table>
         )}
+        <Pager path="/traces" params={params} page={traces.page} pages={traces.pages} total={traces.total} pageSize={traces.pageSize} noun="traces" />
       </section>
     </>
   );

@@ -5,7 +5,7 @@ import { auditHash, GENESIS_HASH, type AuditEntryRecord } from "../review/audit"
 export type Tx = Prisma.TransactionClient;
 
 export interface AuditEvent {
-  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename";
+  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify";
   entity: "trace" | "definition" | "review";
   entityId: string;
   /** who did it: the reviewer's name at sign-off, "web" or "cli" otherwise (there are no accounts yet) */
@@ -44,4 +44,14 @@ export async function listAudit(filter?: { entityId?: string }): Promise<AuditEn
 /** Records an export (outside any other change). */
 export async function logExport(reviewId: string, format: string, sha256: string): Promise<void> {
   await db.$transaction((tx) => appendAudit(tx, { action: "export", entity: "review", entityId: reviewId, actor: "web", details: { format, sha256 } }));
+}
+
+/** Records a download of a trace's original bytes, with the SHA-256 of the bytes served. */
+export async function logOriginalDownload(traceId: string, sha256: string): Promise<void> {
+  await db.$transaction((tx) => appendAudit(tx, { action: "export", entity: "trace", entityId: traceId, actor: "web", details: { format: "original", sha256 } }));
+}
+
+/** Records the result of re-checking a stored review (re-import and re-run, as `corelag verify --review` does). */
+export async function logRecheck(reviewId: string, actor: string, details: { reproduced: boolean; problems: string[]; engineVersion: string; resultSha256: string }): Promise<AuditEntryRecord> {
+  return db.$transaction((tx) => appendAudit(tx, { action: "verify", entity: "review", entityId: reviewId, actor, details }));
 }

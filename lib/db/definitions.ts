@@ -63,3 +63,8 @@ export async function listLatestDefinitions<T>(kind: DefinitionKind): Promise<St
   for (const r of rows) if (!latest.has(r.lineage)) latest.set(r.lineage, r);
   return [...latest.values()].sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime()).map((r) => toStored<T>(r));
 }
+
+/** Every version of one lineage, oldest first (identity only, no bodies). */
+export async function definitionVersions(lineage: string): Promise<Array<{ id: string; version: number; name: string; sha256: string; createdAt: Date }>> {
+  return db.definition.findMany({ where: { lineage }, select: { id: true, version: true, name: true, sha256: true, createdAt: true }, orderBy: { version: "asc" } });
+}

@@ -1,4 +1,5 @@
 import { db } from "./client";
+import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import { appendAudit } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
 import type { ReviewComputation, ReviewResult } from "../review";
@@ -139,21 +140,52 @@ export interface ReviewFilter {
   to?: Date;
 }
 
+const reviewListSelect = {
+  id: true, title: true, outcome: true, status: true, decision: true, signedBy: true, createdAt: true, correctsId: true,
+  trace: { select: { name: true } },
+  product: { select: { name: true, version: true, lineage: true } },
+} as const;
+
+function reviewWhere(filter: ReviewFilter & { q?: string }) {
+  const t = searchText(filter.q);
+  return {
+    outcome: filter.outcome,
+    status: filter.status,
+    product: filter.productLineage ? { lineage: filter.productLineage } : undefined,
+    createdAt: filter.from || filter.to ? { gte: filter.from, lt: filter.to } : undefined,
+    // text search over the title, the trace's and product's names, the reviewer and the id (SQLite LIKE)
+    ...(t ? { OR: [{ title: { contains: t } }, { trace: { name: { contains: t } } }, { product: { name: { contains: t } } }, { signedBy: { contains: t } }, { id: t }] } : {}),
+  };
+}
+
 export async function listReviews(filter: ReviewFilter = {}) {
-  return db.review.findMany({
-    where: {
-      outcome: filter.outcome,
-      status: filter.status,
-      product: filter.productLineage ? { lineage: filter.productLineage } : undefined,
-      createdAt: filter.from || filter.to ? { gte: filter.from, lt: filter.to } : undefined,
-    },
-    select: {
-      id: true, title: true, outcome: true, status: true, decision: true, signedBy: true, createdAt: true, correctsId: true,
-      trace: { select: { name: true } },
-      product: { select: { name: true, version: true, lineage: true } },
-    },
-    orderBy: { createdAt: "desc" },
-  });
+  return db.review.findMany({ where: reviewWhere(filter), select: reviewListSelect, orderBy: { createdAt: "desc" } });
+}
+
+/** One page of reviews, newest first, filtered and searched. */
+export async function searchReviews(filter: ReviewFilter & { q?: string } & PageRequest = {}): Promise<Paged<Awaited<ReturnType<typeof listReviews>>[number]>> {
+  const where = reviewWhere(filter);
+  const total = await db.review.count({ where });
+  const p = resolvePage(filter, total);
+  const rows = await db.review.findMany({ where, select: reviewListSelect, orderBy: [{ createdAt: "desc" }, { id: "asc" }], skip: p.skip, take: p.pageSize });
+  return { rows, total, page: p.page, pageSize: p.pageSize, pages: p.pages };
+}
+
+/**
+ * What the home page asks a reviewer to look at, counted in the database (no whole-table load): open
+ * reviews suggesting hold or reject (the first few), open reviews suggesting accept, and signed
+ * reviews whose decision differs from the suggestion.
+ */
+export async function reviewAttention(take = 5) {
+  const openAttentionWhere = { status: "open", outcome: { not: "accept" } };
+  const [openAttention, openAttentionCount, openAcceptCount, overriddenCount] = await Promise.all([
+    db.review.findMany({ where: openAttentionWhere, select: { id: true, title: true }, orderBy: { createdAt: "desc" }, take }),
+    db.review.count({ where: openAttentionWhere }),
+    db.review.count({ where: { status: "open", outcome: "accept" } }),
+    // at most 3 × 3 groups, whatever the number of reviews
+    db.review.groupBy({ by: ["outcome", "decision"], where: { status: "signed" }, _count: { _all: true } }),
+  ]).then(([a, b, c, groups]) => [a, b, c, groups.filter((g) => g.decision !== g.outcome).reduce((n, g) => n + g._count._all, 0)] as const);
+  return { openAttention, openAttentionCount, openAcceptCount, overriddenCount };
 }
 
 /** Ids of every stored review, oldest first (for verification). */

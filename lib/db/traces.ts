@@ -1,6 +1,7 @@
 import { db } from "./client";
 import { appendAudit } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
+import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import { sha256Hex, type TraceImport, type TraceSeries, type ResolvedImportSettings } from "../trace";
 
 export interface StoredTraceMeta {
@@ -61,17 +62,71 @@ function toMeta(row: { warnings: unknown; importSettings: unknown } & Omit<Store
   return { ...row, warnings: row.warnings as string[], importSettings, hasProbe: importSettings.productColumn !== undefined };
 }
 
+/** Every trace's metadata, newest first (for the choosers on the review and design forms). */
 export async function listTraces(): Promise<StoredTraceMeta[]> {
   const rows = await db.trace.findMany({ select: metaSelect, orderBy: { createdAt: "desc" } });
   return rows.map(toMeta);
 }
 
-export async function getTrace(id: string): Promise<{ meta: StoredTraceMeta; series: TraceSeries; original: Uint8Array } | null> {
-  const row = await db.trace.findUnique({ where: { id }, select: { ...metaSelect, timesS: true, airC: true, probeC: true, original: true } });
+export interface TraceListRow extends StoredTraceMeta {
+  reviewCount: number;
+}
+
+function traceSearchWhere(q: string | undefined) {
+  const t = searchText(q);
+  if (!t) return undefined;
+  return { OR: [{ name: { contains: t } }, { fileName: { contains: t } }, { sha256: { startsWith: t.toLowerCase() } }, { id: t }] };
+}
+
+/**
+ * One page of traces, newest first, with a text search over the name, the file name, the start of
+ * the SHA-256 and the id (SQLite LIKE: case-insensitive for ASCII letters).
+ */
+export async function searchTraces(filter: { q?: string } & PageRequest = {}): Promise<Paged<TraceListRow>> {
+  const where = traceSearchWhere(filter.q);
+  const total = await db.trace.count({ where });
+  const p = resolvePage(filter, total);
+  const rows = await db.trace.findMany({
+    where,
+    select: { ...metaSelect, _count: { select: { reviews: true } } },
+    orderBy: [{ createdAt: "desc" }, { id: "asc" }],
+    skip: p.skip,
+    take: p.pageSize,
+  });
+  return { rows: rows.map(({ _count, ...r }) => ({ ...toMeta(r), reviewCount: _count.reviews })), total, page: p.page, pageSize: p.pageSize, pages: p.pages };
+}
+
+/** Uploaded traces that no review has used yet, newest first: the first `take` and how many in all. */
+export async function unreviewedTraces(take = 5): Promise<{ rows: Array<{ id: string; name: string; createdAt: Date }>; total: number }> {
+  const where = { reviews: { none: {} } };
+  const [rows, total] = await Promise.all([
+    db.trace.findMany({ where, select: { id: true, name: true, createdAt: true }, orderBy: { createdAt: "desc" }, take }),
+    db.trace.count({ where }),
+  ]);
+  return { rows, total };
+}
+
+/** Stored traces whose original bytes have this SHA-256 (the same file uploaded before), oldest first. */
+export async function tracesWithSha256(sha256: string, exceptId?: string): Promise<Array<{ id: string; name: string; fileName: string; createdAt: Date }>> {
+  return db.trace.findMany({
+    where: { sha256: sha256.toLowerCase(), ...(exceptId ? { id: { not: exceptId } } : {}) },
+    select: { id: true, name: true, fileName: true, createdAt: true },
+    orderBy: { createdAt: "asc" },
+  });
+}
+
+/** The metadata and parsed series of one trace. The original bytes are not loaded: see `getTraceOriginal`. */
+export async function getTrace(id: string): Promise<{ meta: StoredTraceMeta; series: TraceSeries } | null> {
+  const row = await db.trace.findUnique({ where: { id }, select: { ...metaSelect, timesS: true, airC: true, probeC: true } });
   if (!row) return null;
   return {
     meta: toMeta(row),
     series: { t_s: bytesToFloat64(row.timesS), air_C: bytesToFloat64(row.airC), ...(row.probeC ? { probe_C: bytesToFloat64(row.probeC) } : {}) },
-    original: row.original,
   };
+}
+
+/** The exact bytes as uploaded, with the recorded SHA-256: only for download and verification. */
+export async function getTraceOriginal(id: string): Promise<{ id: string; fileName: string; sha256: string; bytes: Uint8Array } | null> {
+  const row = await db.trace.findUnique({ where: { id }, select: { id: true, fileName: true, sha256: true, original: true } });
+  return row ? { id: row.id, fileName: row.fileName, sha256: row.sha256, bytes: row.original } : null;
 }

@@ -17,7 +17,19 @@ export function seriesCsv(t_s: Float64Array, channels: Array<{ name: string; val
  * excursion. Text cells go through csvRow, which neutralises spreadsheet formulas (a rule id or title
  * such as "=cmd|…" is written as text).
  */
-export function findingsCsv(meta: { id: string; title: string; traceSha256: string; resultSha256: string; decision: string | null; signedBy: string | null }, r: ReviewResult): string {
+export interface FindingsMeta {
+  id: string;
+  title: string;
+  traceSha256: string;
+  resultSha256: string;
+  /** the sign-off: null fields while the review is open */
+  decision: string | null;
+  signComment: string | null;
+  signedBy: string | null;
+  signedAt: Date | null;
+}
+
+export function findingsCsv(meta: FindingsMeta, r: ReviewResult): string {
   const rows: Array<Array<string | number>> = [
     ["review", meta.id],
     ["title", meta.title],
@@ -26,8 +38,11 @@ export function findingsCsv(meta: { id: string; title: string; traceSha256: stri
     ["engine_version", r.engine_version],
     ["window", `${r.window.start}/${r.window.end}`],
     ["suggested_outcome", r.outcome],
+    ["status", meta.decision ? "signed" : "open"],
     ["decision", meta.decision ?? "not signed off"],
+    ["decision_comment", meta.signComment ?? ""],
     ["signed_by", meta.signedBy ?? ""],
+    ["signed_at_utc", meta.signedAt ? meta.signedAt.toISOString() : ""],
     [],
     ["rule", "channel", "direction", "threshold_C", "cumulative_min", "longest_continuous_min", "extreme_C", "guard_K", "status", "reason"],
     ...r.rules.map((x) => [x.id, x.channel, x.direction, x.threshold_C, x.cumulative_min, x.longest_continuous_min, x.extreme_C, x.guard_K, x.status, x.reason]),

@@ -7,20 +7,35 @@ import { limitSetSchema } from "../exposure/limits";
 import { createTrace } from "../db/traces";
 import { createDefinition } from "../db/definitions";
 import { db } from "../db/client";
-import { runAndStoreReview } from "./reviews";
+import { getReview } from "../db/reviews";
+import { runAndStoreReview, signOff } from "./reviews";
 
 const DEMO = path.resolve(__dirname, "..", "..", "public", "demo");
 
 /** Loads the invented demo scenario (public/demo, written by scripts/generate-demo.ts) into an empty database. */
 export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   if ((await db.trace.count()) > 0 || (await db.definition.count()) > 0) return "skipped";
-  const fileName = "route7-tote3.csv";
-  const bytes = readFileSync(path.join(DEMO, fileName));
-  const traceId = await createTrace({ name: "Route 7 north, tote 3 (demo)", fileName, bytes, imported: importCsv(bytes) });
   const product = productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
   const limits = limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
   const p = await createDefinition("product", product);
   const l = await createDefinition("limits", limits);
+  // A historic record an auditor can open: the same route a week earlier, reviewed and signed off.
+  const earlyName = "route7-tote3-0609.csv";
+  const earlyBytes = readFileSync(path.join(DEMO, earlyName));
+  const earlyTrace = await createTrace({ name: "Route 7 north, tote 3, 9 June (demo)", fileName: earlyName, bytes: earlyBytes, imported: importCsv(earlyBytes) });
+  const early = await runAndStoreReview({ title: "Route 7, 9 June: tote 3, door openings only (demo)", traceId: earlyTrace, productId: p.id, limitsId: l.id });
+  if (!early.ok) throw new Error(`demo review failed: ${early.message}`);
+  const signed = await signOff(early.reviewId, {
+    reviewer: "Mara Quellen (QA, invented)",
+    decision: "accept",
+    comment: "Air rose only at the five drops; the core estimate stayed below 5 °C. Released.",
+    suggested: (await getReview(early.reviewId))!.outcome as "accept" | "hold" | "reject",
+  });
+  if (!signed.ok) throw new Error(`demo sign-off failed: ${signed.message}`);
+  // The open review: the dock delay of 16 June, awaiting a decision.
+  const fileName = "route7-tote3.csv";
+  const bytes = readFileSync(path.join(DEMO, fileName));
+  const traceId = await createTrace({ name: "Route 7 north, tote 3 (demo)", fileName, bytes, imported: importCsv(bytes) });
   const res = await runAndStoreReview({ title: "Route 7, 16 June: tote 3 after the dock delay (demo)", traceId, productId: p.id, limitsId: l.id });
   if (!res.ok) throw new Error(`demo review failed: ${res.message}`);
   // For the design pages: a probe test, a shaped product in a tote with a gel pack, and example profiles.

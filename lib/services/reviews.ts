@@ -4,7 +4,7 @@ import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product }
 import { limitSetSchema, type LimitSet } from "../exposure/limits";
 import { runReview, tryRunReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewOptions } from "../review";
 import { importTraceFile, optionsFromSettings, sha256Hex } from "../trace";
-import { getTrace } from "../db/traces";
+import { getTrace, getTraceOriginal } from "../db/traces";
 import { getDefinition } from "../db/definitions";
 import { createReview, getReview, signReview } from "../db/reviews";
 import { uncertaintySpecSchema } from "../uncertainty/monteCarlo";
@@ -138,9 +138,10 @@ export async function verifyStoredReview(id: string): Promise<ReproductionCheck>
   if (!review) return { id, title: "", reproduced: false, problems: ["no such review"] };
   const problems: string[] = [];
   const trace = (await getTrace(review.traceId))!;
-  if (sha256Hex(trace.original) !== trace.meta.sha256) problems.push("the trace's original bytes no longer match their SHA-256");
+  const original = (await getTraceOriginal(review.traceId))!.bytes;
+  if (sha256Hex(original) !== trace.meta.sha256) problems.push("the trace's original bytes no longer match their SHA-256");
   try {
-    const again = await importTraceFile(trace.original, optionsFromSettings(trace.meta.importSettings));
+    const again = await importTraceFile(original, optionsFromSettings(trace.meta.importSettings));
     const same = (x: Float64Array, y: Float64Array) => x.length === y.length && Buffer.compare(Buffer.from(x.buffer, x.byteOffset, x.byteLength), Buffer.from(y.buffer, y.byteOffset, y.byteLength)) === 0;
     const probeSame = again.series.probe_C === undefined ? trace.series.probe_C === undefined : trace.series.probe_C !== undefined && same(again.series.probe_C, trace.series.probe_C);
     if (!same(again.series.t_s, trace.series.t_s) || !same(again.series.air_C, trace.series.air_C) || !probeSame) problems.push("re-importing the original bytes with the recorded settings gives a different series");

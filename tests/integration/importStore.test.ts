@@ -37,28 +37,28 @@ describe("importAndStoreTrace", () => {
 
   it("stores an accepted file with its resolved settings, and the stored settings repeat the import exactly", async () => {
     const { importAndStoreTrace } = await import("@/lib/services/traces");
-    const { getTrace } = await import("@/lib/db/traces");
+    const { getTrace, getTraceOriginal } = await import("@/lib/db/traces");
     const { importCsv, optionsFromSettings } = await import("@/lib/trace");
     const bytes = readFileSync(path.join(CORPUS, "good", "12-three-channels.csv"));
     const res = await importAndStoreTrace(bytes, { fileName: "12-three-channels.csv", options: {} });
     expect(res.ok).toBe(true);
     const t = (await getTrace((res as { traceId: string }).traceId))!;
     expect(t.meta.hasProbe).toBe(true);
-    const again = importCsv(t.original, optionsFromSettings(t.meta.importSettings));
+    const again = importCsv((await getTraceOriginal(t.meta.id))!.bytes, optionsFromSettings(t.meta.importSettings));
     expect(Array.from(again.series.probe_C!)).toEqual(Array.from(t.series.probe_C!));
     expect(Array.from(again.series.air_C)).toEqual(Array.from(t.series.air_C));
   });
 
   it("stores a workbook as its own bytes, and its stored settings repeat the import exactly", async () => {
     const { importAndStoreTrace } = await import("@/lib/services/traces");
-    const { getTrace } = await import("@/lib/db/traces");
+    const { getTrace, getTraceOriginal } = await import("@/lib/db/traces");
     const { importTraceFile, optionsFromSettings, sha256Hex } = await import("@/lib/trace");
     const bytes = readFileSync(path.join(CORPUS, "good", "20-workbook-date-cells.xlsx"));
     const res = await importAndStoreTrace(bytes, { fileName: "20-workbook-date-cells.xlsx", options: {} });
     const t = (await getTrace((res as { traceId: string }).traceId))!;
     expect(t.meta.sha256).toBe(sha256Hex(bytes));
     expect(t.meta.importSettings).toMatchObject({ source: "xlsx", sheet: "Sheet1" });
-    const again = await importTraceFile(t.original, optionsFromSettings(t.meta.importSettings));
+    const again = await importTraceFile((await getTraceOriginal(t.meta.id))!.bytes, optionsFromSettings(t.meta.importSettings));
     expect(Array.from(again.series.t_s)).toEqual(Array.from(t.series.t_s));
     expect(Array.from(again.series.air_C)).toEqual(Array.from(t.series.air_C));
   });

@@ -4,6 +4,8 @@ import { getReview } from "@/lib/db/reviews";
 import { getTrace } from "@/lib/db/traces";
 import { HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "./parts";
 import { RenameForm, SignOffForm } from "./SignOffForm";
+import { RecheckButton } from "./RecheckButton";
+import { lastAuditEntry } from "@/lib/db/auditQueries";
 
 export const dynamic = "force-dynamic";
 
@@ -13,6 +15,7 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
   if (!review) notFound();
   const trace = await getTrace(review.traceId);
   if (!trace) notFound();
+  const lastCheck = await lastAuditEntry(id, "verify");
   const q = new URLSearchParams({ trace: review.traceId, product: review.productId, limits: review.limitsId, model: String((review.options as { model?: string }).model ?? "auto") });
   if (review.packId) q.set("pack", review.packId);
   return (
@@ -31,6 +34,10 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
         <HistoryCard review={review} />
       </div>
       <RulesCard review={review} />
+      <section className="card no-print">
+        <h2 style={{ marginTop: 0 }}>Re-check</h2>
+        <RecheckButton reviewId={id} last={lastCheck ? { seq: lastCheck.seq, at: lastCheck.at.toISOString(), reproduced: (lastCheck.details as { reproduced?: boolean } | null)?.reproduced === true } : null} />
+      </section>
       {review.status === "open" ? (
         <div className="grid2 no-print">
           <section className="card">

@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { getTrace } from "@/lib/db/traces";
+import { getTrace, tracesWithSha256 } from "@/lib/db/traces";
 import { findGaps, medianInterval_s } from "@/lib/trace/series";
 import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
@@ -12,6 +12,7 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
   const trace = await getTrace(id);
   if (!trace) notFound();
   const { meta, series } = trace;
+  const same = await tracesWithSha256(meta.sha256, meta.id);
   const gaps = findGaps(series, meta.importSettings.gapMultiple);
   const s = meta.importSettings;
   return (
@@ -21,6 +22,17 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
         <dl className="facts">
           <dt>File</dt><dd>{meta.fileName}</dd>
           <dt>SHA-256 of the original bytes</dt><dd><code className="hash" data-testid="trace-sha256">{meta.sha256}</code></dd>
+          <dt>Original file</dt>
+          <dd>
+            <a href={`/traces/${meta.id}/original`} download data-testid="download-original">Download {meta.fileName}</a>{" "}
+            <span className="muted">(the exact bytes as uploaded; their SHA-256 is the one above; each download is recorded in the <Link href={`/audit?object=${meta.id}`}>audit log</Link>)</span>
+          </dd>
+          {same.length > 0 && (
+            <>
+              <dt>Same file stored as</dt>
+              <dd data-testid="same-file">{same.map((t, i) => <span key={t.id}>{i > 0 && ", "}<Link href={`/traces/${t.id}`}>{t.name}</Link> ({t.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC)</span>)}</dd>
+            </>
+          )}
           <dt>Samples</dt><dd data-testid="trace-samples">{meta.sampleCount}</dd>
           <dt>From – to (UTC)</dt><dd>{meta.startAt.toISOString()} – {meta.endAt.toISOString()}</dd>
           <dt>Median interval</dt><dd>{readableDuration(medianInterval_s(series.t_s))}</dd>

@@ -3,6 +3,7 @@ import { getReview } from "@/lib/db/reviews";
 import { getTrace } from "@/lib/db/traces";
 import { HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "../parts";
 import { PrintButton } from "./PrintButton";
+import { DefinitionParameters } from "@/app/components/DefinitionParameters";
 
 export const dynamic = "force-dynamic";
 
@@ -20,6 +21,14 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
       <p className="muted">Report generated {new Date().toISOString().slice(0, 16).replace("T", " ")} UTC from review {review.id}.</p>
       <ReviewHeader review={review} />
       <ReviewChart review={review} series={trace.series} />
+      <section className="card" data-testid="report-parameters">
+        <h2 style={{ marginTop: 0 }}>Inputs used</h2>
+        <p className="muted">The exact definition versions this review ran on, with every parameter as stored (shown to at most 6 significant digits; the JSON export holds the exact values).</p>
+        <DefinitionParameters def={review.product} />
+        {review.pack ? <DefinitionParameters def={review.pack} /> : <p>No pack: the product&apos;s own surface coefficient was used.</p>}
+        <DefinitionParameters def={review.limits} />
+        <p data-testid="report-options">Model choice: {String((review.options as { model?: string }).model ?? "auto")}; engine {review.engineVersion}.</p>
+      </section>
       <ScreeningCard review={review} />
       <RulesCard review={review} />
       <HistoryCard review={review} />

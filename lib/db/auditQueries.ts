@@ -1,0 +1,141 @@
+import { db } from "./client";
+import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
+import type { AuditEntryRecord } from "../review/audit";
+
+export const AUDIT_ENTITIES = ["trace", "definition", "review"] as const;
+export const AUDIT_ACTIONS = ["import", "create", "edit", "run", "sign", "rename", "export", "verify"] as const;
+
+export interface AuditFilter {
+  entity?: (typeof AUDIT_ENTITIES)[number];
+  action?: (typeof AUDIT_ACTIONS)[number];
+  /** one object: the exact id of a trace, definition version or review */
+  object?: string;
+  /** entries at or after this instant */
+  from?: Date;
+  /** entries before this instant */
+  to?: Date;
+  /** text search: names and titles of the objects, ids, hashes (their start), the actor */
+  q?: string;
+}
+
+/** What an entry is about, in words, with where to open it. */
+export interface AuditSubject {
+  /** the trace's name, "product Ready meal v2", the review's title; null when the object is not found */
+  name: string | null;
+  /** the definition's kind, for definitions */
+  kind?: string;
+  href: string | null;
+}
+
+export interface AuditRow extends AuditEntryRecord {
+  subject: AuditSubject;
+  /** the export's format (series.csv, findings.csv, review.json, original), for export entries */
+  format: string | null;
+}
+
+/** Ids whose object matches a search text: at most this many per kind of object, newest first. */
+const SEARCH_ID_CAP = 2000;
+
+/** Where a definition version is shown read-only. */
+export const definitionHref = (id: string) => `/definitions/${id}`;
+
+async function matchingIds(t: string): Promise<string[]> {
+  const hex = /^[0-9a-f]{4,64}$/i.test(t) ? t.toLowerCase() : null;
+  const [traces, defs, reviews] = await Promise.all([
+    db.trace.findMany({
+      where: { OR: [{ name: { contains: t } }, { fileName: { contains: t } }, ...(hex ? [{ sha256: { startsWith: hex } }] : [])] },
+      select: { id: true }, orderBy: { createdAt: "desc" }, take: SEARCH_ID_CAP,
+    }),
+    db.definition.findMany({
+      where: { OR: [{ name: { contains: t } }, ...(hex ? [{ sha256: { startsWith: hex } }] : [])] },
+      select: { id: true }, orderBy: { createdAt: "desc" }, take: SEARCH_ID_CAP,
+    }),
+    db.review.findMany({
+      where: { OR: [{ title: { contains: t } }, ...(hex ? [{ resultSha256: { startsWith: hex } }] : [])] },
+      select: { id: true }, orderBy: { createdAt: "desc" }, take: SEARCH_ID_CAP,
+    }),
+  ]);
+  return [...traces, ...defs, ...reviews].map((r) => r.id);
+}
+
+async function auditWhere(f: AuditFilter) {
+  const t = searchText(f.q);
+  const hex = t && /^[0-9a-f]{4,64}$/i.test(t) ? t.toLowerCase() : null;
+  return {
+    entity: f.entity,
+    action: f.action,
+    entityId: f.object,
+    at: f.from || f.to ? { gte: f.from, lt: f.to } : undefined,
+    ...(t
+      ? {
+          OR: [
+            { entityId: { contains: t } },
+            { actor: { contains: t } },
+            ...(hex ? [{ hash: { startsWith: hex } }] : []),
+            ...(/^\d+$/.test(t) ? [{ seq: Number(t) }] : []),
+            { entityId: { in: await matchingIds(t) } },
+          ],
+        }
+      : {}),
+  };
+}
+
+/** Names and links for the objects of a batch of entries, in three queries whatever the batch size. */
+async function subjects(entries: ReadonlyArray<{ entity: string; entityId: string }>): Promise<Map<string, AuditSubject>> {
+  const ids = (entity: string) => [...new Set(entries.filter((e) => e.entity === entity).map((e) => e.entityId))];
+  const [traces, defs, reviews] = await Promise.all([
+    db.trace.findMany({ where: { id: { in: ids("trace") } }, select: { id: true, name: true } }),
+    db.definition.findMany({ where: { id: { in: ids("definition") } }, select: { id: true, name: true, kind: true, version: true } }),
+    db.review.findMany({ where: { id: { in: ids("review") } }, select: { id: true, title: true } }),
+  ]);
+  const out = new Map<string, AuditSubject>();
+  for (const t of traces) out.set(`trace:${t.id}`, { name: t.name, href: `/traces/${t.id}` });
+  for (const d of defs) out.set(`definition:${d.id}`, { name: `${d.name} v${d.version}`, kind: d.kind, href: definitionHref(d.id) });
+  for (const r of reviews) out.set(`review:${r.id}`, { name: r.title, href: `/reviews/${r.id}` });
+  return out;
+}
+
+async function withSubjects(rows: Array<Omit<AuditEntryRecord, "details"> & { details: unknown }>): Promise<AuditRow[]> {
+  const names = await subjects(rows);
+  return rows.map((r) => {
+    const details = r.details as Record<string, unknown> | null;
+    const format = r.action === "export" && details && typeof details.format === "string" ? details.format : null;
+    return { ...r, subject: names.get(`${r.entity}:${r.entityId}`) ?? { name: null, href: null }, format };
+  });
+}
+
+/** One page of the audit log, newest first, with each object's name and link. */
+export async function queryAudit(filter: AuditFilter & PageRequest = {}): Promise<Paged<AuditRow>> {
+  const where = await auditWhere(filter);
+  const total = await db.auditEntry.count({ where });
+  const p = resolvePage(filter, total);
+  const rows = await db.auditEntry.findMany({ where, orderBy: { seq: "desc" }, skip: p.skip, take: p.pageSize });
+  return { rows: await withSubjects(rows), total, page: p.page, pageSize: p.pageSize, pages: p.pages };
+}
+
+/**
+ * Every entry that matches, oldest first, in batches of `batch` (for the CSV export: the whole log is
+ * never held in memory at once).
+ */
+export async function* auditBatches(filter: AuditFilter = {}, batch = 500): AsyncGenerator<AuditRow[]> {
+  const where = await auditWhere(filter);
+  let after = 0;
+  for (;;) {
+    const rows = await db.auditEntry.findMany({ where: { AND: [where, { seq: { gt: after } }] }, orderBy: { seq: "asc" }, take: batch });
+    if (rows.length === 0) return;
+    yield await withSubjects(rows);
+    after = rows[rows.length - 1]!.seq;
+    if (rows.length < batch) return;
+  }
+}
+
+/** The newest entry for one object and action (e.g. the last re-check of a review), or null. */
+export async function lastAuditEntry(entityId: string, action: (typeof AUDIT_ACTIONS)[number]): Promise<AuditEntryRecord | null> {
+  return db.auditEntry.findFirst({ where: { entityId, action }, orderBy: { seq: "desc" } });
+}
+
+/** How many entries the log holds, and the newest one's number and hash (cheap: no re-hashing). */
+export async function auditHead(): Promise<{ entries: number; seq: number | null; hash: string | null; at: Date | null }> {
+  const [entries, last] = await Promise.all([db.auditEntry.count(), db.auditEntry.findFirst({ orderBy: { seq: "desc" }, select: { seq: true, hash: true, at: true } })]);
+  return { entries, seq: last?.seq ?? null, hash: last?.hash ?? null, at: last?.at ?? null };
+}
