@@ -7,7 +7,6 @@ import { limitSetSchema } from "../exposure/limits";
 import { createTrace } from "../db/traces";
 import { createDefinition } from "../db/definitions";
 import { db } from "../db/client";
-import { getReview } from "../db/reviews";
 import { runAndStoreReview, signOff } from "./reviews";
 
 const DEMO = path.resolve(__dirname, "..", "..", "public", "demo");
@@ -29,7 +28,6 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
     reviewer: "Mara Quellen (QA, invented)",
     decision: "accept",
     comment: "Air rose only at the five drops; the core estimate stayed below 5 °C. Released.",
-    suggested: (await getReview(early.reviewId))!.outcome as "accept" | "hold" | "reject",
   });
   if (!signed.ok) throw new Error(`demo sign-off failed: ${signed.message}`);
   // The open review: the dock delay of 16 June, awaiting a decision.

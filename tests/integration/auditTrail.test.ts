@@ -32,7 +32,7 @@ beforeAll(async () => {
   if (!a.ok || !b.ok) throw new Error("review failed");
   const outcome = (await dbm.getReview(b.reviewId))!.outcome as "accept" | "hold" | "reject";
   const decision = outcome === "hold" ? "reject" : "hold";
-  const signed = await signOff(b.reviewId, { reviewer: "Ada Vintner", decision, comment: "probe the pallet, then decide", suggested: outcome });
+  const signed = await signOff(b.reviewId, { reviewer: "Ada Vintner", decision, comment: "probe the pallet, then decide" });
   if (!signed.ok) throw new Error(signed.message);
   ids = { traceId, otherTraceId, productId: p.id, limitsId: l.id, reviewId: a.reviewId, signedId: b.reviewId };
 });
