@@ -8,6 +8,7 @@ import type { Product } from "../lib/thermal/definitions";
 import { centreTheta } from "../tests/helpers/series";
 import { benchImport } from "./import";
 import { benchDesign } from "./design";
+import { benchCli } from "./cli";
 
 
 function best<T>(runs: number, fn: () => T): { ms: number; value: T } {
@@ -76,3 +77,4 @@ benchLumped();
 benchTimeBeyond();
 benchSphere();
 benchDesign();
+benchCli();

@@ -1,6 +1,7 @@
 // Corelag command line: `npm run -s corelag -- <command> [options]`. Prints JSON on stdout; on bad input
 // prints one line naming the file and the row or field at fault to stderr and exits 2.
-import { closeSync, openSync, readFileSync, writeSync } from "node:fs";
+import { readFileSync } from "node:fs";
+import { writeSeriesCsv } from "./seriesCsv";
 import { parseArgs } from "node:util";
 import { z } from "zod";
 import { importTraceFile, importOptionsSchema, medianInterval_s, sha256Hex, TraceImportError, bridgeGaps, type ImportOptions, type TraceImport } from "../trace";
@@ -9,7 +10,6 @@ import { predict } from "../thermal/predict";
 import { limitSetSchema } from "../exposure/limits";
 import { tryRunReview, unsupportedRule } from "../review";
 import { CAUTIONS } from "../review/cautions";
-import { csvRow } from "../review/csv";
 import { calibrateLumped } from "../design/calibrate";
 import { profileSchema, profileSeries } from "../design/profile";
 import { parseVariable } from "../design/vary";
@@ -181,7 +181,7 @@ async function predictCommand(argv: string[]): Promise<unknown> {
   if (values.out) {
     const toStdout = values.out === "-";
     try {
-      writeSeriesCsv(toStdout ? 1 : String(values.out), series.t_s, air, p);
+      writeSeriesCsv(toStdout ? 1 : String(values.out), { t_s: series.t_s, air, core: p.core, surface: p.surface, mean: p.mean, coolant: p.coolant });
     } catch (e) {
       throw new CliError(`${values.out}: cannot be written (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
     }
@@ -203,37 +203,6 @@ async function predictCommand(argv: string[]): Promise<unknown> {
     },
     cautions: CAUTIONS,
   };
-}
-
-/** The predicted series as CSV, written in chunks (no whole-file string); `target` 1 is standard output. */
-function writeSeriesCsv(target: string | 1, t_s: Float64Array, air: Float64Array, p: { core: Float64Array; surface: Float64Array; mean: Float64Array; coolant?: Float64Array | null }): void {
-  const fd = target === 1 ? 1 : openSync(target, "w");
-  try {
-    let chunk = csvRow(["time_utc", "air_C", "core_C", "surface_C", "mean_C", ...(p.coolant ? ["coolant_C"] : [])]) + "\r\n";
-    for (let i = 0; i < t_s.length; i++) {
-      chunk += `${iso(t_s[i]!)},${air[i]!.toFixed(4)},${p.core[i]!.toFixed(4)},${p.surface[i]!.toFixed(4)},${p.mean[i]!.toFixed(4)}${p.coolant ? `,${p.coolant[i]!.toFixed(4)}` : ""}\r\n`;
-      if (chunk.length > 1 << 16) {
-        writeAll(fd, chunk);
-        chunk = "";
-      }
-    }
-    writeAll(fd, chunk);
-  } finally {
-    if (fd !== 1) closeSync(fd);
-  }
-}
-
-function writeAll(fd: number, text: string): void {
-  const buf = Buffer.from(text, "utf8");
-  let off = 0;
-  while (off < buf.length) {
-    try {
-      off += writeSync(fd, buf, off);
-    } catch (e) {
-      // A pipe reader that is slower than us: wait for it rather than fail.
-      if ((e as NodeJS.ErrnoException).code !== "EAGAIN") throw e;
-    }
-  }
 }
 
 async function reviewCommand(argv: string[]): Promise<unknown> {
