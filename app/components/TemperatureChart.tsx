@@ -10,6 +10,14 @@ export interface ChartLine {
   dashed?: boolean;
 }
 
+/** A filled band between two series (e.g. the 5th and 95th percentiles), drawn under the lines. */
+export interface ChartBand {
+  label: string;
+  color: string;
+  lower: number[];
+  upper: number[];
+}
+
 export interface ChartThreshold {
   label: string;
   value_C: number;
@@ -20,6 +28,7 @@ interface Props {
   times_ms: number[];
   lines: ChartLine[];
   thresholds?: ChartThreshold[];
+  bands?: ChartBand[];
   /** spans bridged over missing data, ms */
   gaps?: Array<[number, number]>;
   height?: number;
@@ -32,11 +41,11 @@ const WIDTH = 960;
 const M = { top: 12, right: 110, bottom: 32, left: 48 };
 
 /** Temperature against time for one or more channels, with threshold lines and a hover readout (UTC). */
-export function TemperatureChart({ times_ms, lines, thresholds = [], gaps = [], height = 340, title, unit = "°C" }: Props) {
+export function TemperatureChart({ times_ms, lines, thresholds = [], bands = [], gaps = [], height = 340, title, unit = "°C" }: Props) {
   const [hover, setHover] = useState<number | null>(null);
-  const { x, y, paths, xTicks, yTicks } = useMemo(() => {
+  const { x, y, paths, areas, xTicks, yTicks } = useMemo(() => {
     const x = d3.scaleUtc().domain(d3.extent(times_ms) as [number, number]).range([M.left, WIDTH - M.right]);
-    const all = lines.flatMap((l) => l.values.filter(Number.isFinite)).concat(thresholds.map((t) => t.value_C));
+    const all = lines.flatMap((l) => l.values.filter(Number.isFinite)).concat(thresholds.map((t) => t.value_C), bands.flatMap((b) => [...b.lower, ...b.upper].filter(Number.isFinite)));
     const [lo, hi] = d3.extent(all) as [number, number];
     const pad = Math.max(0.5, (hi - lo) * 0.06);
     const y = d3.scaleLinear().domain([lo - pad, hi + pad]).nice().range([height - M.bottom, M.top]);
@@ -48,8 +57,16 @@ export function TemperatureChart({ times_ms, lines, thresholds = [], gaps = [], 
         .y((v) => y(v));
       return gen(l.values) ?? "";
     });
-    return { x, y, paths, xTicks: x.ticks(6), yTicks: y.ticks(6) };
-  }, [times_ms, lines, thresholds, height]);
+    const areas = bands.map((b) =>
+      d3
+        .area<number>()
+        .defined((_, i) => Number.isFinite(b.lower[i]) && Number.isFinite(b.upper[i]))
+        .x((_, i) => x(times_ms[i]!))
+        .y0((_, i) => y(b.lower[i]!))
+        .y1((_, i) => y(b.upper[i]!))(b.lower) ?? "",
+    );
+    return { x, y, paths, areas, xTicks: x.ticks(6), yTicks: y.ticks(6) };
+  }, [times_ms, lines, thresholds, bands, height]);
 
   const bisect = d3.bisector((t: number) => t).center;
   const onMove = (e: React.MouseEvent<SVGRectElement>) => {
@@ -84,6 +101,11 @@ export function TemperatureChart({ times_ms, lines, thresholds = [], gaps = [], 
         ))}
         <text x={14} y={M.top + (height - M.top - M.bottom) / 2} transform={`rotate(-90 14 ${M.top + (height - M.top - M.bottom) / 2})`} textAnchor="middle" fontSize={11} fill="#5b6575">{unit}</text>
         <line x1={M.left} x2={WIDTH - M.right} y1={height - M.bottom} y2={height - M.bottom} stroke="#aab3bf" />
+        {bands.map((b, i) => (
+          <path key={`band${b.label}`} d={areas[i]} fill={b.color} fillOpacity={0.28} stroke="none" data-testid={`band-${b.label.toLowerCase().replace(/\W+/g, "-")}`}>
+            <title>{b.label}</title>
+          </path>
+        ))}
         {thresholds.map((t) => (
           <g key={`th${t.label}`} data-testid="limit-line">
             <line x1={M.left} x2={WIDTH - M.right} y1={y(t.value_C)} y2={y(t.value_C)} stroke="var(--limit)" strokeDasharray="6 4" />
@@ -104,6 +126,13 @@ export function TemperatureChart({ times_ms, lines, thresholds = [], gaps = [], 
         <rect x={M.left} y={M.top} width={WIDTH - M.left - M.right} height={height - M.top - M.bottom} fill="transparent" onMouseMove={onMove} onMouseLeave={() => setHover(null)} />
       </svg>
       <figcaption className="legend">
+        {bands.map((b) => (
+          <span key={`band${b.label}`}>
+            <span className="swatch" style={{ background: b.color, opacity: 0.4 }} />
+            {b.label}
+            {hover !== null && Number.isFinite(b.lower[hover]) ? `: ${b.lower[hover]!.toFixed(2)} to ${b.upper[hover]!.toFixed(2)} ${unit}` : ""}
+          </span>
+        ))}
         {lines.map((l) => (
           <span key={l.label}>
             <span className="swatch" style={{ background: l.color }} />

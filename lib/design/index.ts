@@ -2,3 +2,5 @@ export * from "./calibrate";
 export * from "./profile";
 export * from "./vary";
 export * from "./sizing";
+export * from "./governing";
+export * from "./ruleNotes";

@@ -4,6 +4,10 @@ import type { LimitSet } from "../exposure/limits";
 import type { RuleStatus } from "../exposure/rules";
 import { timeBeyond } from "../exposure/timeAbove";
 import { runReview } from "../review/runReview";
+import { governingCurve, type GoverningCurve } from "./governing";
+import { independentRules, type RuleNote } from "./ruleNotes";
+
+export type { RuleNote } from "./ruleNotes";
 import { describeVariable, displayOf, formatVariable, largerIsBetter, precisionOf, withValue, type DesignVariable, type VariableDisplay } from "./vary";
 
 export interface SizingInput {
@@ -39,15 +43,6 @@ export interface CurvePoint {
   rules: Record<string, RuleMeasure>;
 }
 
-/** A rule that the chosen variable cannot bring to a pass, found before the search, with what to do about it. */
-export interface RuleNote {
-  id: string;
-  channel: string;
-  /** "independent": the rule judges the air, which the variable does not change; "fails-throughout": it fails at both ends of the range */
-  kind: "independent" | "fails-throughout";
-  advice: string;
-}
-
 export interface SizingResult {
   /** the variable's key, e.g. "layer:1:thickness_m" */
   variable: string;
@@ -67,24 +62,13 @@ export interface SizingResult {
   rule_notes: RuleNote[];
   /** the rules that set the boundary (those that fail just short of it) or, with no feasible value, those that fail at the best end */
   governing: Array<{ id: string; status: RuleStatus; reason: string }>;
+  /** what to plot against the variable for the first governing rule, with its limit line; null when every value passes */
+  chart: GoverningCurve | null;
   /** the most favourable end of the range (the largest thickness or coolant mass, the coldest start) */
   best_x: number;
   runs: number;
   /** the guard band the rules were judged with (the limit set's sensor accuracy), K */
   guard_K: number;
-}
-
-/** Air rules judge the ambient itself: no pack, coolant or start temperature changes them. */
-export function independentRules(limits: LimitSet, variable: DesignVariable, pack: Pack | undefined): RuleNote[] {
-  const name = displayOf(variable, pack).name;
-  return limits.rules
-    .filter((r) => r.channel === "air")
-    .map((r) => ({
-      id: r.id,
-      channel: r.channel,
-      kind: "independent" as const,
-      advice: `rule ${r.id} judges the air, which no ${name} changes: drop it from the limit set used for design, or change the ambient profile; judge real shipments against it in a review`,
-    }));
 }
 
 interface Evaluation {
@@ -166,10 +150,14 @@ export function size(input: SizingInput): SizingResult {
   }
 
   const warnings: string[] = [];
-  const result = (value: number | null, e: Evaluation | null, governing: SizingResult["governing"], reason: string): SizingResult => ({
-    variable: describeVariable(variable), display, value, feasible: value !== null, metric_at_value: e ? e.metric : null, metric: metricName, curve,
-    core_at_value: e ? e.core : null, precision, reason: [reason, ...warnings].join("; "), rule_notes: notes, governing, best_x, runs, guard_K: u,
-  });
+  const result = (value: number | null, e: Evaluation | null, governing: SizingResult["governing"], reason: string, at?: Evaluation): SizingResult => {
+    const rule = governing[0] ? limits.rules.find((r) => r.id === governing[0]!.id) : undefined;
+    return {
+      variable: describeVariable(variable), display, value, feasible: value !== null, metric_at_value: e ? e.metric : null, metric: metricName, curve,
+      core_at_value: e ? e.core : null, precision, reason: [reason, ...warnings].join("; "), rule_notes: notes, governing,
+      chart: rule && at ? governingCurve(rule, u, at.rules[rule.id]!) : null, best_x, runs, guard_K: u,
+    };
+  };
   const ruleList = (g: SizingResult["governing"]) => g.map((f) => (f.status === "fail" ? `rule ${f.id} ${f.reason}` : `rule ${f.id} is inconclusive, ${f.reason}`)).join("; ");
 
   // Order the curve from the worst end to the best; the feasible region must be a tail of it.
@@ -179,7 +167,7 @@ export function size(input: SizingInput): SizingResult {
   while (k > 0 && ordered[k - 1]!.feasible) k--;
   if (k === ordered.length) {
     const governing = failingOf(best);
-    return result(null, null, governing, `no ${display.name} between ${fmtX(min)} and ${fmtX(max)} passes every rule. At ${fmtX(best_x)}, the best end of the range, ${ruleList(governing)}`);
+    return result(null, null, governing, `no ${display.name} between ${fmtX(min)} and ${fmtX(max)} passes every rule. At ${fmtX(best_x)}, the best end of the range, ${ruleList(governing)}`, best);
   }
   const strays = ordered.slice(0, k).filter((c) => c.feasible);
   if (strays.length > 0) {
@@ -225,5 +213,5 @@ export function size(input: SizingInput): SizingResult {
   input.onProgress?.(1);
   const governing = failingOf(ge);
   const precisionText = `${(precision * display.factor).toFixed(display.decimals === 0 ? 0 : display.decimals)} ${display.unit}`;
-  return result(value, fe, governing, `${up ? "smallest" : "largest"} feasible ${display.name}, to within ${precisionText}; set by ${governing.map((x) => `rule ${x.id}`).join(", ")}, which ${governing.length === 1 ? "does" : "do"} not pass just ${up ? "below" : "above"} it`);
+  return result(value, fe, governing, `${up ? "smallest" : "largest"} feasible ${display.name}, to within ${precisionText}; set by ${governing.map((x) => `rule ${x.id}`).join(", ")}, which ${governing.length === 1 ? "does" : "do"} not pass just ${up ? "below" : "above"} it`, ge);
 }

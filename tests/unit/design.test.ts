@@ -3,6 +3,7 @@ import { size } from "@/lib/design/sizing";
 import { monteCarlo } from "@/lib/uncertainty/monteCarlo";
 import { profileSeries, EXAMPLE_PROFILES, profileSchema } from "@/lib/design/profile";
 import { parseVariable } from "@/lib/design/vary";
+import { governingCurve } from "@/lib/design/governing";
 import { predict } from "@/lib/thermal/predict";
 import type { Pack, Product } from "@/lib/thermal/definitions";
 import { expectClose } from "../helpers/numeric";
@@ -167,5 +168,46 @@ describe("size says why", () => {
     expect(Math.abs(r.value! * 1e4 - Math.round(r.value! * 1e4))).toBeLessThan(1e-6);
     expect(r.value!).toBeGreaterThan(0.01);
     expect(r.value!).toBeLessThan(0.1);
+  });
+});
+
+describe("governingCurve", () => {
+  const m = (extreme_C: number, cumulative_min: number, longest_min: number) => ({ status: "fail" as const, extreme_C, cumulative_min, longest_min });
+
+  it("governingCurve plots the peak against a peak limit, with the guard band's pass line", () => {
+    const g = governingCurve({ id: "core-peak-8C", channel: "core", above_C: 8, max_peak_C: 8 }, 0.5, m(7.7, 30, 30));
+    // 7.7 + 0.5 > 8: the peak allowance is what fails
+    expect(g).toMatchObject({ quantity: "extreme_C", label: "peak core temperature, °C", limit: { value: 8 }, pass: { value: 7.5 } });
+  });
+
+  it("governingCurve plots time beyond the guard-banded threshold against a cumulative allowance", () => {
+    const g = governingCurve({ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }, 0.5, m(6, 150, 60));
+    expect(g).toMatchObject({ quantity: "cumulative_min", limit: { value: 120 }, pass: null });
+    expect(g.label).toBe("time of the core above 4.5 °C (the 5 °C threshold less the 0.5 K guard band), min");
+  });
+
+  it("governingCurve treats a rule without allowances as a peak limited by its threshold", () => {
+    const g = governingCurve({ id: "core-8", channel: "core", above_C: 8 }, 0, m(9, 10, 10));
+    expect(g).toMatchObject({ quantity: "extreme_C", limit: { value: 8 }, pass: null });
+  });
+
+  it("size gives the chart of the rule that sets the boundary", () => {
+    const demo = (f: string) => JSON.parse(readFileSync(path.join(DEMO, f), "utf8"));
+    const r = size({
+      series: profileSeries(profileSchema.parse(demo("summer-route.profile.json"))),
+      product: productSchema.parse(demo("ready-meal-shaped.product.json")),
+      pack: packSchema.parse(demo("tote.pack.json")),
+      limits: limitSetSchema.parse(demo("tote-design.limits.json")),
+      variable: parseVariable("layer:1:thickness_m")!,
+      min: 0.001,
+      max: 0.15,
+      curvePoints: 11,
+    });
+    expect(r.chart).toMatchObject({ rule_id: "core-above-5C", quantity: "cumulative_min", limit: { value: 120 } });
+    // the plotted measure crosses the limit between the last failing and the first passing curve point
+    const pts = r.curve.map((c) => ({ x: c.x, y: c.rules["core-above-5C"]!.cumulative_min, ok: c.feasible }));
+    const lastBad = pts.filter((p) => !p.ok).at(-1)!, firstGood = pts.find((p) => p.ok)!;
+    expect(lastBad.y).toBeGreaterThan(120);
+    expect(firstGood.y).toBeLessThanOrEqual(120);
   });
 });

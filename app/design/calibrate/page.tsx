@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { z } from "zod";
 import { listTraces } from "@/lib/db/traces";
 import { listLatestDefinitions } from "@/lib/db/definitions";
 import { runCalibration } from "@/lib/services/calibration";
@@ -10,13 +11,22 @@ export const dynamic = "force-dynamic";
 
 type Q = { trace?: string; product?: string; pack?: string; fitInitial?: string; fitOffset?: string; factor?: string };
 
+/** The mismatch factor as typed: blank means the default of 2; anything else must be a number above 1. */
+const factorSchema = z
+  .string()
+  .trim()
+  .transform((s) => (s === "" ? 2 : Number(s)))
+  .pipe(z.number({ error: "must be a number greater than 1 (e.g. 2)" }).finite({ message: "must be a number greater than 1 (e.g. 2)" }).gt(1, { message: "must be a number greater than 1 (e.g. 2)" }));
+
 export default async function CalibratePage({ searchParams }: { searchParams: Promise<Q> }) {
   const q = await searchParams;
   const [traces, products, packs] = await Promise.all([listTraces(), listLatestDefinitions("product"), listLatestDefinitions("pack")]);
   const withProbe = traces.filter((t) => t.hasProbe);
   const fitInitial = q.fitInitial === "1", fitOffset = q.fitOffset === "1";
-  const factor = q.factor ? Number(q.factor) : 2;
-  const out = q.trace ? await runCalibration({ traceId: q.trace, productId: q.product || undefined, packId: q.pack || undefined, fitInitial, fitOffset, mismatchFactor: Number.isFinite(factor) && factor > 1 ? factor : 2 }) : null;
+  // A refused value is shown as typed, with its message, and nothing is fitted (never replaced silently).
+  const factorParsed = factorSchema.safeParse(q.factor ?? "");
+  const factorError = factorParsed.success ? undefined : `Warn when R differs by more than ×: '${q.factor}' ${factorParsed.error.issues[0]!.message}`;
+  const out = q.trace && factorParsed.success ? await runCalibration({ traceId: q.trace, productId: q.product || undefined, packId: q.pack || undefined, fitInitial, fitOffset, mismatchFactor: factorParsed.data }) : null;
   const ci = (a: [number, number], f: (x: number) => string) => `${f(a[0])} to ${f(a[1])}`;
   return (
     <>
@@ -31,24 +41,25 @@ export default async function CalibratePage({ searchParams }: { searchParams: Pr
             </select>
           </label>
           <label>Product (for R and h)
-            <select name="product" defaultValue={q.product ?? ""}>
+            <select name="product" defaultValue={q.product ?? ""} data-testid="cal-product">
               <option value="">(none)</option>
               {products.map((p) => <option key={p.id} value={p.id}>{p.name} v{p.version}</option>)}
             </select>
           </label>
           <label>Pack to compare with
-            <select name="pack" defaultValue={q.pack ?? ""}>
+            <select name="pack" defaultValue={q.pack ?? ""} data-testid="cal-pack">
               <option value="">(none)</option>
               {packs.map((p) => <option key={p.id} value={p.id}>{p.name} v{p.version}</option>)}
             </select>
           </label>
-          <label style={{ fontWeight: 400 }}><input type="checkbox" name="fitInitial" value="1" defaultChecked={fitInitial} /> fit the initial temperature</label>
-          <label style={{ fontWeight: 400 }}><input type="checkbox" name="fitOffset" value="1" defaultChecked={fitOffset} /> fit a sensor offset</label>
-          <label>Warn when R differs by more than ×<input name="factor" size={4} defaultValue={String(factor)} /></label>
+          <label className="choice"><input type="checkbox" name="fitInitial" value="1" defaultChecked={fitInitial} data-testid="cal-fit-initial" /> fit the initial temperature</label>
+          <label className="choice"><input type="checkbox" name="fitOffset" value="1" defaultChecked={fitOffset} data-testid="cal-fit-offset" /> fit a sensor offset</label>
+          <label>Warn when R differs by more than ×<input name="factor" size={4} defaultValue={q.factor ?? "2"} aria-invalid={factorError ? true : undefined} data-testid="cal-factor" /></label>
           <button type="submit">Fit</button>
         </form>
         {withProbe.length === 0 && <p className="muted" data-testid="no-probe">No stored trace has a product-probe channel yet.</p>}
       </section>
+      {factorError && <p className="form-error" data-testid="cal-error">{factorError}</p>}
       {out && !out.ok && <p className="form-error" data-testid="cal-error">{out.message}</p>}
       {out && out.ok && (
         <>

@@ -3,16 +3,19 @@
 import { useEffect, useRef, useState } from "react";
 import type { Pack, Product } from "@/lib/thermal/definitions";
 import type { LimitSet } from "@/lib/exposure/limits";
-import type { DesignVariable } from "@/lib/design/vary";
+import { displayOf, type DesignVariable, type VariableDisplay } from "@/lib/design/vary";
+import type { SizingResult } from "@/lib/design/sizing";
+import { independentRules, type RuleNote } from "@/lib/design/ruleNotes";
+import { SizeOutcome } from "./SizeOutcome";
+import { limitLines } from "./limitLines";
 import { num } from "@/app/components/NumberField";
-import { CurveChart } from "@/app/components/CurveChart";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { Caution } from "@/app/components/Caution";
 
 interface Props { t_s: number[]; air_C: number[]; product: Product; pack?: Pack; limits: LimitSet }
 type Run = { kind: "idle" } | { kind: "running"; what: string; fraction: number; started: number } | { kind: "error"; message: string };
-interface SizeResult { variable: string; value: number | null; feasible: boolean; metric_at_value: number | null; metric: string; curve: Array<{ x: number; metric: number; feasible: boolean }>; core_at_value: number[] | null; reason: string; precision: number }
-interface McResult { samples: number; seed: number; p05: number[]; p50: number[]; p95: number[]; half_width_K: number; fail_fraction: Record<string, number>; redraws: number }
+type SizeResult = Omit<SizingResult, "core_at_value"> & { core_at_value: number[] | null };
+interface McResult { samples: number; seed: number; p05: number[]; p50: number[]; p95: number[]; deterministic: number[]; half_width_K: number; fail_fraction: Record<string, number>; redraws: number }
 interface InputRow { path: string; plusminus: string; percent: boolean; distribution: "normal" | "uniform" }
 
 /** The numeric fields of the product and pack that can carry an uncertainty, as paths. */
@@ -29,15 +32,20 @@ function numericPaths(product: Product, pack?: Pack): string[] {
 }
 
 export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
-  const variables: Array<{ key: string; label: string; v: DesignVariable; min: number; max: number }> = [
-    ...(pack?.layers ?? []).map((l, i) => ({ key: `layer:${i + 1}:thickness_m`, label: `${l.name} thickness (m)`, v: { kind: "layer" as const, index: i, field: "thickness_m" as const }, min: 0.001, max: 0.15 })),
-    ...(pack?.coolants ?? []).map((c, i) => ({ key: `coolant:${i + 1}:mass_kg`, label: `${c.name} mass (kg)`, v: { kind: "coolant" as const, index: i, field: "mass_kg" as const }, min: 0, max: 5 })),
-    { key: "product:initial_C", label: "product initial temperature (°C)", v: { kind: "product" as const, field: "initial_C" as const }, min: -10, max: 10 },
+  // The range is entered in the variable's display unit (mm, g, °C) and converted to SI once, here.
+  const variable = (key: string, v: DesignVariable, min: number, max: number) => ({ key, v, d: displayOf(v, pack), min, max });
+  const variables: Array<{ key: string; v: DesignVariable; d: VariableDisplay; min: number; max: number }> = [
+    ...(pack?.layers ?? []).map((_, i) => variable(`layer:${i + 1}:thickness_m`, { kind: "layer", index: i, field: "thickness_m" }, 1, 150)),
+    ...(pack?.coolants ?? []).map((_, i) => variable(`coolant:${i + 1}:mass_kg`, { kind: "coolant", index: i, field: "mass_kg" }, 0, 5000)),
+    variable("product:initial_C", { kind: "product", field: "initial_C" }, -10, 10),
   ];
   const [varKey, setVarKey] = useState(variables[0]!.key);
   const chosen = variables.find((v) => v.key === varKey)!;
   const [min, setMin] = useState(String(chosen.min));
   const [max, setMax] = useState(String(chosen.max));
+  const [rangeErrors, setRangeErrors] = useState<{ min?: string; max?: string }>({});
+  // Known before any run: rules on the air, which no value of the variable changes.
+  const notesBefore: RuleNote[] = independentRules(limits, chosen.v, pack);
   const [run, setRun] = useState<Run>({ kind: "idle" });
   const [sizeResult, setSizeResult] = useState<SizeResult | null>(null);
   const [mc, setMc] = useState<McResult | null>(null);
@@ -72,8 +80,15 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
   };
   const runSize = () => {
     const lo = num(min), hi = num(max);
-    if (lo === undefined || hi === undefined || !(hi > lo)) return setRun({ kind: "error", message: "give a range with max greater than min" });
-    start("Sizing", { type: "size", variable: chosen.v, min: lo, max: hi }, (r) => setSizeResult(r as SizeResult));
+    const unit = chosen.d.unit;
+    const errors: { min?: string; max?: string } = {};
+    if (lo === undefined || !Number.isFinite(lo)) errors.min = `from: '${min}' is not a number of ${unit}`;
+    if (hi === undefined || !Number.isFinite(hi)) errors.max = `to: '${max}' is not a number of ${unit}`;
+    else if (lo !== undefined && Number.isFinite(lo) && !(hi > lo)) errors.max = `to: must be greater than from (${lo} ${unit})`;
+    if (chosen.v.kind !== "product" && lo !== undefined && lo < 0) errors.min = `from: a ${chosen.d.name} cannot be negative`;
+    setRangeErrors(errors);
+    if (errors.min || errors.max) return setRun({ kind: "error", message: [errors.min, errors.max].filter(Boolean).join("; ") });
+    start("Sizing", { type: "size", variable: chosen.v, min: lo! / chosen.d.factor, max: hi! / chosen.d.factor }, (r) => setSizeResult(r as SizeResult));
   };
   const runMc = () => {
     const n = num(samples), s = num(seed);
@@ -89,25 +104,19 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
         <h2 style={{ marginTop: 0 }}>Size one design variable</h2>
         <div style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end" }}>
           <label>Variable
-            <select value={varKey} onChange={(e) => { const v = variables.find((x) => x.key === e.target.value)!; setVarKey(v.key); setMin(String(v.min)); setMax(String(v.max)); }} data-testid="size-variable">
-              {variables.map((v) => <option key={v.key} value={v.key}>{v.label} [{v.key}]</option>)}
+            <select value={varKey} onChange={(e) => { const v = variables.find((x) => x.key === e.target.value)!; setVarKey(v.key); setMin(String(v.min)); setMax(String(v.max)); setRangeErrors({}); }} data-testid="size-variable">
+              {variables.map((v) => <option key={v.key} value={v.key}>{v.d.label}</option>)}
             </select>
           </label>
-          <label>min<input value={min} onChange={(e) => setMin(e.target.value)} size={7} data-testid="size-min" /></label>
-          <label>max<input value={max} onChange={(e) => setMax(e.target.value)} size={7} data-testid="size-max" /></label>
+          <label>from ({chosen.d.unit})<input value={min} onChange={(e) => setMin(e.target.value)} size={7} data-testid="size-min" aria-invalid={rangeErrors.min ? true : undefined} /></label>
+          <label>to ({chosen.d.unit})<input value={max} onChange={(e) => setMax(e.target.value)} size={7} data-testid="size-max" aria-invalid={rangeErrors.max ? true : undefined} /></label>
           <button type="button" onClick={runSize} disabled={busy}>Find the boundary</button>
         </div>
-        {sizeResult && (
-          <div data-testid="size-result" style={{ marginTop: "0.8rem" }}>
-            <p><strong>{sizeResult.feasible ? `${sizeResult.variable} = ${sizeResult.value}` : "No feasible value in this range"}</strong> — {sizeResult.reason}{sizeResult.metric_at_value !== null ? `; ${sizeResult.metric} there: ${sizeResult.metric_at_value.toFixed(2)}` : ""}.</p>
-            <CurveChart points={sizeResult.curve} xLabel={sizeResult.variable} yLabel={sizeResult.metric} chosen={sizeResult.value} />
-            {sizeResult.core_at_value && (
-              <TemperatureChart title="Air and predicted core at the boundary value" height={240} times_ms={t_s.map((t) => t * 1000)}
-                lines={[{ label: "Air (profile)", color: "var(--air)", values: air_C }, { label: "Core at the boundary", color: "var(--core)", values: sizeResult.core_at_value }]}
-                thresholds={[...new Set(limits.rules.map((r) => (r.above_C ?? r.below_C)!))].map((v) => ({ label: `${v} °C`, value_C: v }))} />
-            )}
-          </div>
+        {(rangeErrors.min || rangeErrors.max) && <p className="field-error" data-testid="size-range-error">{[rangeErrors.min, rangeErrors.max].filter(Boolean).join("; ")}</p>}
+        {notesBefore.length > 0 && !sizeResult && (
+          <ul className="warnings" data-testid="rule-notes-before">{notesBefore.map((n) => <li key={n.id}>{n.advice}.</li>)}</ul>
         )}
+        {sizeResult && <SizeOutcome result={sizeResult} t_s={t_s} air_C={air_C} limits={limits} />}
       </section>
 
       <section className="card">
@@ -137,8 +146,10 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
           <div data-testid="mc-result" style={{ marginTop: "0.8rem" }}>
             <p>{mc.samples} samples (seed {mc.seed}); the 5–95 % band of the core is at most ±{mc.half_width_K.toFixed(2)} K wide{mc.redraws ? `; ${mc.redraws} non-physical draws were repeated` : ""}.</p>
             <ul>{Object.entries(mc.fail_fraction).map(([id, f]) => <li key={id}>rule {id} fails in {(f * 100).toFixed(1)} % of samples</li>)}</ul>
-            <TemperatureChart title="Core temperature band" height={240} times_ms={t_s.map((t) => t * 1000)}
-              lines={[{ label: "Air", color: "var(--air)", values: air_C }, { label: "Core 95th percentile", color: "#9b1f2e", values: mc.p95, dashed: true }, { label: "Core median", color: "var(--core)", values: mc.p50 }, { label: "Core 5th percentile", color: "#2b8a7e", values: mc.p05, dashed: true }]} />
+            <TemperatureChart title="Core temperature band" height={260} times_ms={t_s.map((t) => t * 1000)}
+              bands={[{ label: "Core 5–95 % band", color: "#23577a", lower: mc.p05, upper: mc.p95 }]}
+              lines={[{ label: "Air", color: "var(--air)", values: air_C }, { label: "Core, nominal inputs", color: "var(--core)", values: mc.deterministic }]}
+              thresholds={limitLines(limits, ["core"])} />
           </div>
         )}
       </section>

@@ -3,6 +3,7 @@
 import { size } from "@/lib/design/sizing";
 import { monteCarlo, type UncertaintySpec } from "@/lib/uncertainty/monteCarlo";
 import type { DesignVariable } from "@/lib/design/vary";
+import { predict } from "@/lib/thermal/predict";
 import type { Pack, Product, ModelChoice } from "@/lib/thermal/definitions";
 import type { LimitSet } from "@/lib/exposure/limits";
 
@@ -20,7 +21,9 @@ self.onmessage = (e: MessageEvent<Job>) => {
       self.postMessage({ type: "done", result: { ...r, core_at_value: r.core_at_value ? Array.from(r.core_at_value) : null } });
     } else {
       const r = monteCarlo(series, job.product, job.pack, job.limits, job.spec, job.model, { onProgress: progress });
-      self.postMessage({ type: "done", result: { ...r, p05: Array.from(r.p05), p50: Array.from(r.p50), p95: Array.from(r.p95) } });
+      // the prediction with every input at its nominal value, drawn over the band
+      const nominal = predict(job.product, job.pack, series.t_s, series.air_C, { model: job.model }).core;
+      self.postMessage({ type: "done", result: { ...r, p05: Array.from(r.p05), p50: Array.from(r.p50), p95: Array.from(r.p95), deterministic: Array.from(nominal) } });
     }
   } catch (err) {
     self.postMessage({ type: "error", message: (err as Error).message });
