@@ -21,8 +21,8 @@ export interface CurveLimit {
  * A design curve: the governing rule's measure against the design variable, in the user's units, with
  * the rule's limit line, the feasible range shaded and the chosen value marked.
  */
-export function CurveChart({ points, xLabel, yLabel, chosen, limits = [] }: { points: CurvePointView[]; xLabel: string; yLabel: string; chosen: number | null; limits?: CurveLimit[] }) {
-  const W = 760, H = 300, M = { top: 14, right: 200, bottom: 44, left: 60 };
+export function CurveChart({ points, xLabel, yLabel, chosen, limits = [], note }: { points: CurvePointView[]; xLabel: string; yLabel: string; chosen: number | null; limits?: CurveLimit[]; note?: string | null }) {
+  const W = 760, H = 300, M = { top: 14, right: 150, bottom: 44, left: 60 };
   const x = d3.scaleLinear().domain(d3.extent(points, (p) => p.x) as [number, number]).range([M.left, W - M.right]);
   const ys = points.map((p) => p.y).filter(Number.isFinite).concat(limits.map((l) => l.value));
   const y = d3.scaleLinear().domain(d3.extent(ys) as [number, number]).nice().range([H - M.bottom, M.top]);
@@ -44,7 +44,10 @@ export function CurveChart({ points, xLabel, yLabel, chosen, limits = [] }: { po
         {limits.map((l) => (
           <g key={`${l.kind}${l.value}`} data-testid={`curve-${l.kind}-line`}>
             <line x1={M.left} x2={W - M.right} y1={y(l.value)} y2={y(l.value)} stroke="var(--limit)" strokeWidth={l.kind === "limit" ? 1.5 : 1} strokeDasharray={l.kind === "limit" ? "6 4" : "2 3"} />
-            <text x={W - M.right + 6} y={y(l.value)} dy="0.32em" fontSize={11} fill="var(--limit)">{l.label}</text>
+            <text x={W - M.right + 6} y={y(l.value)} fontSize={11} fill="var(--limit)">
+              {/* "rule-id: limit" on two lines, so a long rule id fits the margin */}
+              {l.label.split(/(?<=:) /).map((part, i) => <tspan key={i} x={W - M.right + 6} dy={i === 0 ? "-0.2em" : "1.2em"}>{part}</tspan>)}
+            </text>
           </g>
         ))}
         <path d={line} fill="none" stroke="var(--core)" strokeWidth={2} />
@@ -65,6 +68,7 @@ export function CurveChart({ points, xLabel, yLabel, chosen, limits = [] }: { po
       <figcaption className="legend">
         <span><span className="swatch" style={{ background: "#e4f1e6", height: 10 }} />feasible range</span>
         <span className="muted">green points pass every rule, red points fail one (hover for which)</span>
+        {note && <span className="muted" data-testid="curve-note">{note}</span>}
       </figcaption>
     </figure>
   );

@@ -8,6 +8,8 @@ export interface GoverningCurve {
   quantity: "extreme_C" | "cumulative_min" | "longest_min";
   /** axis label in words and units: "peak core temperature, °C", "time of the core above 4.5 °C, min" */
   label: string;
+  /** what the label's threshold is, when the guard band moved it: "4.5 °C is the 5 °C threshold less the 0.5 K guard band" */
+  note: string | null;
   /** the rule's limit on that quantity, as written */
   limit: { value: number; label: string };
   /** where a pass must stay once the guard band is taken off a peak limit; null for time limits (their measure already includes it) */
@@ -30,27 +32,30 @@ export function governingCurve(rule: Rule, u_K: number, at: RuleMeasure): Govern
   const strictThreshold = r2(above ? threshold - u_K : threshold + u_K);
   const word = above ? "above" : "below";
   const extremeWord = above ? "peak" : "lowest";
-  const band = u_K > 0 ? ` (the ${threshold} °C threshold ${above ? "less" : "plus"} the ${u_K} K guard band)` : "";
+  const note = u_K > 0 ? `${strictThreshold} °C is rule ${rule.id}'s ${threshold} °C threshold ${above ? "less" : "plus"} the ${u_K} K guard band` : null;
   const peakLimit = rule.max_peak_C ?? (rule.max_cumulative_min === undefined && rule.max_continuous_min === undefined ? threshold : undefined);
   const peak = (): GoverningCurve => ({
     rule_id: rule.id,
     quantity: "extreme_C",
     label: `${extremeWord} ${rule.channel} temperature, °C`,
+    note: u_K > 0 ? `a pass needs the ${extremeWord} ${u_K} K inside the limit (the guard band)` : null,
     limit: { value: peakLimit!, label: `${rule.id}: ${extremeWord} ${above ? "≤" : "≥"} ${peakLimit} °C` },
-    pass: u_K > 0 ? { value: r2(above ? peakLimit! - u_K : peakLimit! + u_K), label: `pass needs ${r2(above ? peakLimit! - u_K : peakLimit! + u_K)} °C (${u_K} K guard band)` } : null,
+    pass: u_K > 0 ? { value: r2(above ? peakLimit! - u_K : peakLimit! + u_K), label: `pass: ${above ? "≤" : "≥"} ${r2(above ? peakLimit! - u_K : peakLimit! + u_K)} °C (guard band)` } : null,
   });
   const cumulative = (): GoverningCurve => ({
     rule_id: rule.id,
     quantity: "cumulative_min",
-    label: `time of the ${rule.channel} ${word} ${strictThreshold} °C${band}, min`,
-    limit: { value: rule.max_cumulative_min!, label: `${rule.id}: at most ${rule.max_cumulative_min} min in all` },
+    label: `time of the ${rule.channel} ${word} ${strictThreshold} °C, min`,
+    note,
+    limit: { value: rule.max_cumulative_min!, label: `${rule.id}: ≤ ${rule.max_cumulative_min} min in all` },
     pass: null,
   });
   const continuous = (): GoverningCurve => ({
     rule_id: rule.id,
     quantity: "longest_min",
-    label: `longest time of the ${rule.channel} ${word} ${strictThreshold} °C${band}, min`,
-    limit: { value: rule.max_continuous_min!, label: `${rule.id}: at most ${rule.max_continuous_min} min at a stretch` },
+    label: `longest time of the ${rule.channel} ${word} ${strictThreshold} °C, min`,
+    note,
+    limit: { value: rule.max_continuous_min!, label: `${rule.id}: ≤ ${rule.max_continuous_min} min at a stretch` },
     pass: null,
   });
   const peakExceeded = peakLimit !== undefined && (above ? at.extreme_C + u_K > peakLimit : at.extreme_C - u_K < peakLimit);

@@ -183,7 +183,8 @@ describe("governingCurve", () => {
   it("governingCurve plots time beyond the guard-banded threshold against a cumulative allowance", () => {
     const g = governingCurve({ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }, 0.5, m(6, 150, 60));
     expect(g).toMatchObject({ quantity: "cumulative_min", limit: { value: 120 }, pass: null });
-    expect(g.label).toBe("time of the core above 4.5 °C (the 5 °C threshold less the 0.5 K guard band), min");
+    expect(g.label).toBe("time of the core above 4.5 °C, min");
+    expect(g.note).toBe("4.5 °C is rule core-above-5C's 5 °C threshold less the 0.5 K guard band");
   });
 
   it("governingCurve treats a rule without allowances as a peak limited by its threshold", () => {

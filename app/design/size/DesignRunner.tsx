@@ -50,7 +50,7 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
   const [sizeResult, setSizeResult] = useState<SizeResult | null>(null);
   const [mc, setMc] = useState<McResult | null>(null);
   const paths = numericPaths(product, pack);
-  const [inputs, setInputs] = useState<InputRow[]>([{ path: paths.find((p) => /k_W_mK|h_outside/.test(p)) ?? paths[0]!, plusminus: "10", percent: true, distribution: "normal" }]);
+  const [inputs, setInputs] = useState<InputRow[]>([{ path: (paths.find((p) => /^pack\.layers\.\d+\.k_W_mK$/.test(p)) ?? paths.find((p) => /k_W_mK|h_outside/.test(p))) ?? paths[0]!, plusminus: "10", percent: true, distribution: "normal" }]);
   const [samples, setSamples] = useState("500");
   const [seed, setSeed] = useState("1");
   const worker = useRef<Worker | null>(null);

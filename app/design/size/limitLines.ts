@@ -1,7 +1,7 @@
 import type { LimitSet } from "@/lib/exposure/limits";
 import type { ChartThreshold } from "@/app/components/TemperatureChart";
 
-/** The limit set's thresholds on the given channels as chart lines, each labelled with its rules and channel. */
+/** The limit set's thresholds on the given channels as chart lines, each labelled with the rules it belongs to. */
 export function limitLines(limits: LimitSet, channels: readonly string[]): ChartThreshold[] {
   const byValue = new Map<number, string[]>();
   for (const r of limits.rules) {
@@ -9,5 +9,6 @@ export function limitLines(limits: LimitSet, channels: readonly string[]): Chart
     const v = (r.above_C ?? r.below_C)!;
     byValue.set(v, [...(byValue.get(v) ?? []), r.id]);
   }
-  return [...byValue].map(([value_C, ids]) => ({ value_C, label: `${value_C} °C: ${ids.join(", ")}` }));
+  // the rule ids only: the value is on the axis, and the chart's label margin is narrow
+  return [...byValue].map(([value_C, ids]) => ({ value_C, label: ids.join(", ") }));
 }
