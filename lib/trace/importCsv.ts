@@ -21,8 +21,8 @@ export interface TraceImport {
   channels: ImportedChannel[];
   gaps: Gap[];
   warnings: string[];
-  /** the header and the first rows as written, for a preview */
-  preview: { header: string[]; rows: string[][] };
+  /** the header, the first rows as written and the metadata lines above and below the data, for a preview */
+  preview: { header: string[]; rows: string[][]; metadata: MetadataLine[] };
 }
 
 type Delimiter = (typeof DELIMITERS)[number];
@@ -63,16 +63,77 @@ function detectDelimiter(head: string): Delimiter {
 const numberish = (c: string) => /^[+-]?[\d.,]+\s*(°?\s*[CFK])?$/i.test(c.trim()) && /\d/.test(c);
 const timeish = (c: string) => parseWallClock(c, "dmy") !== null || parseWallClock(c, "mdy") !== null || !Number.isNaN(parseTimeOfDay_s(c));
 
-/** Index of the header: the first row of names followed by a row with a time-like cell and a number. */
+const blank = (row: string[]) => row.every((c) => c.trim() === "");
+/**
+ * A row that reads as data: a time-like cell (or a number: Unix or elapsed time) with readings beside
+ * it (cells with digits, or missing codes). "Start;28.03.2026 23:00" is not: "Start" is a word.
+ * A reading that is there but unreadable ("3.1\u0007") still counts, so that it is reported by row.
+ */
+const looksLikeData = (row: string[]) => {
+  let t = row.findIndex(timeish);
+  if (t < 0) t = row.findIndex(numberish); // Unix or elapsed time
+  if (t < 0) return false;
+  const others = row.filter((_, j) => j !== t);
+  return others.length > 0 && others.every((c) => /\d/.test(c) || isMissingToken(c, NO_CODES));
+};
+const NO_CODES = new Set<string>();
+/** Rows after a header candidate that must agree with it before it is taken as the header. */
+const STABLE_ROWS = 5;
+
+/**
+ * Index of the header: the first row of names (two or more cells, none a number or a time) after
+ * which the rows keep its number of fields and read as data (a time plus a number). Logger exports put
+ * `key;value` metadata above the header with the same delimiter ("Logger serial;A1234",
+ * "Start;28.03.2026 23:00"): such a line is not a header, because the lines after it are not data.
+ * Up to STABLE_ROWS following rows are checked, up to the first blank line or change of field count:
+ * the first must read as data, and at least half of them.
+ */
 function findHeaderRow(rows: string[][]): number {
   for (let i = 0; i + 1 < rows.length && i < 500; i++) {
     const head = rows[i]!;
-    const next = rows[i + 1]!;
-    if (head.length < 2 || next.length !== head.length) continue;
-    if (head.some((c) => c.trim() !== "" && numberish(c))) continue;
-    if (next.some(timeish) || next.filter(numberish).length >= 2) return i;
+    if (head.length < 2 || blank(head)) continue;
+    if (head.some((c) => c.trim() !== "" && (numberish(c) || timeish(c)))) continue;
+    const run: string[][] = [];
+    for (let j = i + 1; j < rows.length && run.length < STABLE_ROWS; j++) {
+      const r = rows[j]!;
+      if (blank(r) || r.length !== head.length) break;
+      run.push(r);
+    }
+    // the first row must be data, and most of the run: a bad cell further down is reported by row later
+    if (run.length > 0 && looksLikeData(run[0]!) && run.filter(looksLikeData).length * 2 >= run.length) return i;
   }
   return fail("no header row was found: expected a row of column names followed by rows with a time and a temperature");
+}
+
+/** A metadata line ("Logger serial;A1234", "Start time: 2026-03-02 06:00") as a key and a value. */
+export interface MetadataLine {
+  /** 1-based line of the file */
+  row: number;
+  /** empty for a line without a key (a title) */
+  key: string;
+  value: string;
+}
+
+/**
+ * Key and value of a metadata line: "Key: value" (or "Key = value") within the first cell, else the
+ * first cell is the key and the other cells, joined by the file's delimiter, the value. A line of one
+ * cell without a colon (a title) has an empty key.
+ */
+function metadataOf(row: string[], rowNo: number, delimiter: string): MetadataLine | null {
+  const cells = row.map((c) => c.trim());
+  while (cells.length > 0 && cells[cells.length - 1] === "") cells.pop();
+  if (cells.every((c) => c === "")) return null;
+  const join = delimiter === "\t" ? ", " : `${delimiter} `;
+  const m = /^([^:=]{1,60}?)\s*[:=]\s*(.*)$/.exec(cells[0]!);
+  if (m) return { row: rowNo, key: m[1]!.trim(), value: [m[2]!.trim(), ...cells.slice(1)].filter((c) => c !== "").join(join) };
+  if (cells.length === 1) return { row: rowNo, key: "", value: cells[0]! };
+  return { row: rowNo, key: cells[0]!, value: cells.slice(1).filter((c) => c !== "").join(join) };
+}
+
+/** A line that can be footer metadata: its first non-blank cell is a label (letters), not a time or a number. */
+function isMetadataLine(row: string[]): boolean {
+  const first = row.find((c) => c.trim() !== "");
+  return first !== undefined && /\p{L}/u.test(first) && !timeish(first) && !numberish(first);
 }
 
 function columnIndex(header: string[], name: string, what: string): number {
@@ -114,6 +175,8 @@ interface Plan {
   airIdx: number;
   productIdx: number;
   channels: ImportedChannel[];
+  /** an elapsed-time start found in the header lines without a UTC offset (read in the import's zone) */
+  startWithoutOffset?: string;
 }
 
 /** Works out every setting not given, from the first megabyte of the file. */
@@ -169,12 +232,14 @@ function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedIm
     }
   }
   let startTime = options.startTime;
+  let startWithoutOffset: string | undefined;
   if (timeFormat.startsWith("elapsed") && !startTime) {
     const found = startFromMetadata(headRows, headerIdx) ?? fail(`column '${header[timeIdx]}' holds elapsed times: give the start time (ISO 8601 with an offset)`);
     // A start written without an offset is read in the import's time zone, then kept as UTC.
     const wall = parseWallClock(found, "ymd");
     if (!wall) fail(`the start time '${found}' in the file's header lines is not a date and time`);
     startTime = new Date(new ZoneResolver(options.timeZone ?? "UTC").toEpochMs(wall!, -Infinity)).toISOString();
+    if (wall!.offsetMin === undefined) startWithoutOffset = found;
   }
 
   // Day-first or month-first, from dates such as 13/04 or 04/13 in the data.
@@ -247,7 +312,7 @@ function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedIm
     plausibleMax_C: options.plausibleMax_C ?? PLAUSIBLE_RANGE_C.max,
     gapMultiple: options.gapMultiple ?? DEFAULT_GAP_MULTIPLE,
   };
-  return { settings, headerIdx, header, timeIdx, dateIdx, airIdx, productIdx, channels };
+  return { settings, headerIdx, header, timeIdx, dateIdx, airIdx, productIdx, channels, ...(startWithoutOffset ? { startWithoutOffset } : {}) };
 }
 
 /**
@@ -266,6 +331,11 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
   const headRows = Papa.parse<string[]>(head, { delimiter, skipEmptyLines: false }).data;
   const p = plan(headRows, options, encoding, delimiter);
   const s = p.settings;
+  const metadata: MetadataLine[] = [];
+  for (let i = 0; i < p.headerIdx; i++) {
+    const m = metadataOf(headRows[i]!, i + 1, delimiter);
+    if (m) metadata.push(m);
+  }
   const extraMissing = new Set(s.missing);
   const zone = new ZoneResolver(s.timeZone);
   const startMs = s.startTime ? Date.parse(s.startTime) : Number.NaN;
@@ -280,16 +350,51 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
   const implausible: number[] = [];
   let prevMs = -Infinity;
   let rowNo = 0;
+  /** rows whose time carried no UTC offset (read in s.timeZone) */
+  let withoutOffset = 0;
+  /** a blank line since the last data row: the lines after it may be a footer */
+  let afterBlank = false;
+  /** first line of the footer (metadata after the data), once one has begun */
+  let footerFrom = 0;
   const headerLen = p.header.length;
   const total = text.length;
   const preview: string[][] = [];
 
+  /**
+   * Lines after the data can be footer metadata ("Samples;48", "End;29.03.2026 11:00"): a line that
+   * is not data and whose first cell is a label begins the footer when it follows a blank line or has
+   * another number of fields than the header; every line after it must be metadata too. A line that
+   * begins with a time, or a label line straight after data with the header's field count, is still
+   * refused as a bad data row.
+   */
   const handle = (row: string[], cursor: number) => {
     rowNo++;
     if (rowNo <= p.headerIdx + 1) return;
-    if (row.length === 1 && row[0]!.trim() === "") return; // blank line
+    if (blank(row)) {
+      afterBlank = n > 0;
+      return;
+    }
+    if (footerFrom > 0) {
+      if (!isMetadataLine(row)) fail(`row ${rowNo}: a data row after the footer lines that begin on row ${footerFrom}; a file must hold one table`, rowNo);
+      metadata.push(metadataOf(row, rowNo, delimiter)!);
+      return;
+    }
+    if (n > 0 && (afterBlank || row.length !== headerLen) && isMetadataLine(row)) {
+      try {
+        readRow(row, cursor);
+      } catch (e) {
+        if (!(e instanceof TraceImportError)) throw e;
+        footerFrom = rowNo;
+        metadata.push(metadataOf(row, rowNo, delimiter)!);
+      }
+      return;
+    }
+    readRow(row, cursor);
+  };
+
+  const readRow = (row: string[], cursor: number) => {
     if (row.length !== headerLen) fail(`row ${rowNo}: expected ${headerLen} fields but found ${row.length}`, rowNo);
-    if (preview.length < 20) preview.push(row);
+    afterBlank = false;
     // time
     const tText = row[p.timeIdx]!;
     let ms: number;
@@ -303,6 +408,7 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
         if (Number.isNaN(sod)) fail(`row ${rowNo}, column '${s.timeColumn}': '${show(tText)}' is not a time of day`, rowNo, s.timeColumn);
         const wallMs = wallAsUtcMs(d!) + sod * 1000;
         const w = new Date(wallMs);
+        withoutOffset++;
         ms = zone.toEpochMs({ y: w.getUTCFullYear(), mo: w.getUTCMonth() + 1, d: w.getUTCDate(), h: w.getUTCHours(), mi: w.getUTCMinutes(), s: w.getUTCSeconds(), ms: w.getUTCMilliseconds() }, prevMs);
       } else {
         const w = parseWallClock(tText, s.dateOrder);
@@ -311,6 +417,7 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
           fail(`row ${rowNo}, column '${s.timeColumn}': '${show(tText)}' is outside the years ${YEAR_RANGE.min}–${YEAR_RANGE.max}; was the logger's clock set?`, rowNo, s.timeColumn);
         }
         ms = zone.toEpochMs(w!, prevMs);
+        if (w!.offsetMin === undefined) withoutOffset++;
       }
     } else {
       const x = Number(tText.trim());
@@ -366,6 +473,7 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
     times[n] = ms / 1000;
     rowsOf[n] = rowNo;
     n++;
+    if (preview.length < 20) preview.push(row);
     if (onProgress && (n & 0xffff) === 0) onProgress(cursor / total);
   };
 
@@ -388,6 +496,11 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
   if (n < 2) fail("the file has fewer than two data rows");
 
   const warnings: string[] = [];
+  if (options.timeZone === undefined && (withoutOffset > 0 || p.startWithoutOffset)) {
+    const what = p.startWithoutOffset ? `the start time '${p.startWithoutOffset}'` : withoutOffset === n ? "the times" : `${withoutOffset} of ${n} rows' times`;
+    const [verb, it] = p.startWithoutOffset ? ["carries", "it was"] : ["carry", "they were"];
+    warnings.push(`${what} ${verb} no UTC offset and no time zone was chosen, so ${it} read as UTC; if the logger kept local time, choose its time zone`);
+  }
   if (implausible.length > 0) {
     warnings.push(`${implausible.length} reading(s) outside ${s.plausibleMin_C} to ${s.plausibleMax_C} °C were excluded as implausible (rows ${listRows(implausible)})`);
   }
@@ -398,7 +511,8 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
   if (series.t_s.length < 2) fail("fewer than two valid air readings remain after import");
   const gaps = findGaps(series, s.gapMultiple);
   if (gaps.length > 0) warnings.push(`${gaps.length} gap(s) in the air readings (missing values, or pauses over ${s.gapMultiple} median intervals); the models bridge them linearly and rules across them are at best inconclusive`);
-  return { series, settings: s, channels: p.channels, gaps, warnings, preview: { header: p.header, rows: preview } };
+  if (metadata.length > 0) s.metadata = metadata;
+  return { series, settings: s, channels: p.channels, gaps, warnings, preview: { header: p.header, rows: preview, metadata } };
 }
 
 function orderAndDeduplicate(times: Float64Array, vals: Float64Array, k: number, rows: Int32Array, warnings: string[]): TraceSeries {

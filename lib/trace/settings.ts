@@ -71,13 +71,16 @@ export interface ResolvedImportSettings {
   plausibleMin_C: number;
   plausibleMax_C: number;
   gapMultiple: number;
+  /** metadata lines above the header and below the data ("Logger serial" → "A1234"), with their line numbers */
+  metadata?: Array<{ row: number; key: string; value: string }>;
 }
 
 /** Stored settings back into options: importing with them repeats the import exactly. */
 export function optionsFromSettings(s: ResolvedImportSettings): ImportOptions {
-  const { parser: _p, source: _s, airUnit, productUnit, ...rest } = s;
+  const { parser: _p, source: _s, metadata: _m, airUnit, productUnit, ...rest } = s;
   void _p;
   void _s;
+  void _m;
   // each column's resolved unit is kept by passing the air unit as the shared unit when they agree
   return { ...rest, unit: s.unit ?? (productUnit === undefined || productUnit === airUnit ? airUnit : undefined) };
 }
