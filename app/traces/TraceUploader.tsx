@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import type { ImportOptions, ResolvedImportSettings } from "@/lib/trace/settings";
 import type { ImportedChannel } from "@/lib/trace/importCsv";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
+import { MetadataList } from "@/app/components/MetadataList";
 import { DuplicateWarning } from "./DuplicateWarning";
 
 interface PreviewResult {
@@ -15,7 +16,7 @@ interface PreviewResult {
   channels: ImportedChannel[];
   warnings: string[];
   gaps: number;
-  preview: { header: string[]; rows: string[][] };
+  preview: { header: string[]; rows: string[][]; metadata: Array<{ row: number; key: string; value: string }> };
   first: Array<{ t_s: number; air_C: number; probe_C: number | null }>;
   chart: { t_s: number[]; air_C: number[]; probe_C: number[] | null };
 }
@@ -193,6 +194,12 @@ export function TraceUploader() {
             {s!.productColumn ? `; product probe from '${s!.productColumn}'` : ""}; decimal {JSON.stringify(s!.decimal)}.
           </p>
           {result.warnings.length > 0 && <ul className="warnings" data-testid="preview-warnings">{result.warnings.map((w) => <li key={w}>{w}</li>)}</ul>}
+          {result.preview.metadata.length > 0 && (
+            <>
+              <h4>Metadata lines in the file <span className="hint">kept with the trace</span></h4>
+              <MetadataList lines={result.preview.metadata} testId="preview-metadata" />
+            </>
+          )}
           <div className="grid2">
             <div>
               <h4>First rows as written</h4>

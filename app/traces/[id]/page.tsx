@@ -4,6 +4,7 @@ import { getTrace, tracesWithSha256 } from "@/lib/db/traces";
 import { findGaps, medianInterval_s } from "@/lib/trace/series";
 import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
+import { MetadataList } from "@/app/components/MetadataList";
 
 export const dynamic = "force-dynamic";
 
@@ -43,6 +44,12 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
             {s.productColumn ? `; product probe ‘${s.productColumn}’` : ""}; gaps over {s.gapMultiple} median intervals; plausible {s.plausibleMin_C} to {s.plausibleMax_C} °C
             {s.missing.length ? `; “no reading” codes ${s.missing.join(", ")}` : ""}
           </dd>
+          {s.metadata && s.metadata.length > 0 && (
+            <>
+              <dt>Metadata lines in the file</dt>
+              <dd><MetadataList lines={s.metadata} testId="trace-metadata" /></dd>
+            </>
+          )}
           <dt>Gaps</dt>
           <dd data-testid="trace-gaps">
             {gaps.length === 0 ? "none" : `${gaps.length} (bridged linearly by the models; rules judged across them are at best inconclusive)`}
