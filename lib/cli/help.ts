@@ -44,9 +44,20 @@ ${IMPORT_OPTIONS}`,
   size: `corelag size --profile FILE(.csv|.json) --product P.json --pack K.json --limits L.json
              --vary layer:N:thickness_m|coolant:N:mass_kg|product:initial_C --min X --max Y [--model M] --format json
 Finds the smallest insulation thickness or coolant mass (or the warmest start) that keeps every rule passing.`,
-  verify: `corelag verify [--review ID]
-Checks the audit chain and re-runs stored reviews (all, or one) to confirm they reproduce bit for bit.
-Reads the database named by DATABASE_URL (environment, else .env). Exits 1 when anything does not verify.`,
+  verify: `corelag verify [--review ID] [--anchor FILE_OR_JSON] [--json]
+Checks the database file (integrity check, foreign keys), the audit chain and its Ed25519 signatures, every trace,
+definition and review against the content hash its latest audit entry recorded (and every entry against its row),
+and re-runs stored reviews (all, or one) to confirm they reproduce bit for bit. With --anchor (a line printed by
+corelag anchor, or a file holding it) it also fails when the chain no longer contains that head or was signed by
+another key. Prints JSON listing every finding with its kind, table, row and audit entry; exits 1 on any finding.
+Reads the database named by DATABASE_URL (environment, else .env).`,
+  anchor: `corelag anchor
+Prints the audit chain's head as one JSON line: {seq, hash, at, key_fingerprint, chain, anchored_at}. Keep it outside
+this machine (mail it, print it, commit it elsewhere); corelag verify --anchor then detects removed or rewritten entries.`,
+  key: `corelag key rotate
+Makes a new signing key, records it in the audit chain signed by the outgoing key, and deletes the old private key.`,
+  seal: `corelag seal
+Once after upgrading: records the content hash of every row whose audit entries were written before entries carried one.`,
 };
 
 const SUMMARY: Record<string, string> = {
@@ -55,7 +66,10 @@ const SUMMARY: Record<string, string> = {
   review: "predict the core and judge a limit set; suggest an outcome",
   calibrate: "fit the time constant to a probe test",
   size: "size insulation or coolant against a profile and a limit set",
-  verify: "check the audit chain and re-run stored reviews",
+  verify: "check the database, the signed audit chain, every record against it; re-run reviews",
+  anchor: "print the chain head as one JSON line to keep elsewhere",
+  key: "rotate the audit signing key (key rotate)",
+  seal: "record content hashes for rows written before they existed",
 };
 
 export const PROGRAM_HELP = `corelag: predicts product core temperature from cold-chain logger traces and judges it against your limits.

@@ -15,6 +15,7 @@ import { profileSchema, profileSeries } from "../design/profile";
 import { parseVariable } from "../design/vary";
 import { size } from "../design/sizing";
 import { uncertaintySpecSchema } from "../uncertainty/monteCarlo";
+import { RECORD_COMMANDS, RecordsUsageError } from "./records";
 
 class CliError extends Error {}
 
@@ -26,7 +27,10 @@ const USAGE = `usage:
   corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction] [--window START/END] [import options] [--format json]
   corelag calibrate --trace FILE [--air-col NAME] [--product-col NAME] [--product P.json] [--pack K.json] [--fit-initial] [--fit-offset] [--mismatch-factor F] [import options] --format json
   corelag size --profile FILE(.csv|.json) --product P.json --pack K.json --limits L.json --vary layer:N:thickness_m|coolant:N:mass_kg|product:initial_C --min X --max Y [--model M] --format json
-  corelag verify [--review ID]          (checks the audit chain and re-runs stored reviews; uses DATABASE_URL)
+  corelag verify [--review ID] [--anchor FILE_OR_JSON] [--json]   (storage, audit chain, signatures, every row against the chain, re-runs stored reviews; exit 1 on any finding; uses DATABASE_URL)
+  corelag anchor                        (prints the chain head as one JSON line to keep outside the database)
+  corelag key rotate                    (a new signing key, endorsed in the chain by the old one)
+  corelag seal                          (once after upgrading: content hashes for rows recorded before them)
   review also takes --uncertainty U.json (Monte Carlo: inputs, samples, seed, use_in_guard_band)`;
 
 const IMPORT_FLAGS = {
@@ -331,14 +335,6 @@ function parseWindow(text: string): { start_s: number; end_s: number } {
   return { start_s, end_s };
 }
 
-async function verifyCommand(argv: string[]): Promise<{ output: unknown; ok: boolean }> {
-  const { values } = parseArgs({ args: argv, options: { review: { type: "string" }, format: { type: "string", default: "json" } }, strict: true });
-  // Loaded lazily so that the other commands never open the database.
-  const { verifyDatabase } = await import("../services/verify");
-  const result = await verifyDatabase(values.review);
-  return { output: result, ok: result.ok };
-}
-
 const COMMANDS: Record<string, (argv: string[]) => Promise<unknown>> = {
   import: importCommand,
   predict: predictCommand,
@@ -353,22 +349,24 @@ export async function runCli(args: string[]): Promise<number> {
   const argv = args.filter((a) => a !== "--debug");
   const [command, ...rest] = argv;
   const run = command ? COMMANDS[command] : undefined;
-  if (!run && command !== "verify") {
+  const records = command ? RECORD_COMMANDS[command] : undefined;
+  if (!run && !records) {
     process.stderr.write(`${command ? `unknown command '${command}'` : "no command given"}\n${USAGE}\n`);
     return 2;
   }
   try {
-    if (command === "verify") {
-      // Exit 1 when the chain is broken or a review does not reproduce; the JSON says which and why.
-      const { output, ok } = await verifyCommand(rest);
-      process.stdout.write(JSON.stringify(output, null, 2) + "\n");
-      return ok ? 0 : 1;
+    if (records) {
+      // verify: exit 1 on any finding, the JSON lists each with its kind, row and audit entry.
+      const r = await records(rest);
+      process.stdout.write(r.stdout);
+      if (r.stderr) process.stderr.write(r.stderr);
+      return r.code;
     }
     const output = await run!(rest);
     if (output !== undefined) process.stdout.write(JSON.stringify(output, null, 2) + "\n");
     return 0;
   } catch (e) {
-    if (e instanceof CliError) {
+    if (e instanceof CliError || e instanceof RecordsUsageError) {
       process.stderr.write(`corelag ${command}: ${e.message}\n`);
       return 2;
     }

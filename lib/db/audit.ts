@@ -1,25 +1,28 @@
 import type { Prisma } from "../../generated/prisma/client";
 import { db } from "./client";
 import { auditHash, GENESIS_HASH, type AuditEntryRecord } from "../review/audit";
+import { publicKeyText, signEntry } from "../review/signature";
+import { definitionContentHash, reviewContentHash, traceContentHash } from "../review/content";
+import { CONTENT_ACTIONS, type SignatureRecord } from "../review/records";
+import { loadSigningKey, prepareKeyRotation, SigningKeyError, type SigningKey } from "./signingKey";
 
 export type Tx = Prisma.TransactionClient;
 
 export interface AuditEvent {
-  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify";
-  entity: "trace" | "definition" | "review";
+  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal";
+  entity: "trace" | "definition" | "review" | "key";
   entityId: string;
   /** who did it: the reviewer's name at sign-off, "web" or "cli" otherwise (there are no accounts yet) */
   actor: string;
   details: Record<string, unknown>;
+  /** SHA-256 of the canonical content of the row as this change left it (lib/review/content.ts); every change but an export has one */
+  contentSha256?: string;
 }
 
-/**
- * Appends one entry to the hash chain, inside the caller's transaction so the entry and the change
- * it records are written together or not at all. SQLite serialises write transactions, so the
- * entry read as "last" stays the last until this one is added.
- */
-export async function appendAudit(tx: Tx, e: AuditEvent, at: Date = new Date()): Promise<AuditEntryRecord> {
+/** Writes one entry and its signature; the caller has checked that `signer` is the key in force. */
+async function writeEntry(tx: Tx, e: AuditEvent, signer: SigningKey, at: Date): Promise<AuditEntryRecord> {
   const last = await tx.auditEntry.findFirst({ orderBy: { seq: "desc" }, select: { seq: true, hash: true } });
+  const details = { ...e.details, ...(e.contentSha256 ? { contentSha256: e.contentSha256 } : {}) };
   const fields = {
     seq: (last?.seq ?? 0) + 1,
     at,
@@ -27,18 +30,72 @@ export async function appendAudit(tx: Tx, e: AuditEvent, at: Date = new Date()):
     entity: e.entity,
     entityId: e.entityId,
     actor: e.actor,
-    details: JSON.parse(JSON.stringify(e.details)) as unknown,
+    details: JSON.parse(JSON.stringify(details)) as unknown,
     prevHash: last?.hash ?? GENESIS_HASH,
   };
   const hash = auditHash(fields);
   await tx.auditEntry.create({ data: { ...fields, details: fields.details as object, hash } });
+  await tx.auditSignature.create({ data: { seq: fields.seq, keyFingerprint: signer.fingerprint, signature: signEntry(signer.privateKey, fields.seq, hash) } });
   return { ...fields, hash };
+}
+
+const keyEvent = (k: SigningKey, previous: string | null, actor: string): AuditEvent => ({
+  action: "key",
+  entity: "key",
+  entityId: k.fingerprint,
+  actor,
+  details: { fingerprint: k.fingerprint, publicKey: publicKeyText(k.privateKey), previous },
+});
+
+/** The fingerprint of the key the chain says is in force (null before the first key entry). */
+async function chainKey(tx: Tx): Promise<string | null> {
+  return (await tx.auditEntry.findFirst({ where: { action: "key" }, orderBy: { seq: "desc" }, select: { entityId: true } }))?.entityId ?? null;
+}
+
+/**
+ * Appends one entry to the hash chain, signed, inside the caller's transaction so the entry and the
+ * change it records are written together or not at all. SQLite serialises write transactions, so the
+ * entry read as "last" stays the last until this one is added. The first write records the signing
+ * key in the chain; a key that is not the chain's key is refused (rotate with `corelag key rotate`).
+ */
+export async function appendAudit(tx: Tx, e: AuditEvent, at: Date = new Date()): Promise<AuditEntryRecord> {
+  const signer = loadSigningKey({ create: true })!;
+  const inForce = await chainKey(tx);
+  if (inForce === null) await writeEntry(tx, keyEvent(signer, null, "system"), signer, at);
+  else if (inForce !== signer.fingerprint) {
+    throw new SigningKeyError(
+      `the signing key ${signer.fingerprint.slice(0, 16)}… (${signer.source}) is not the key this audit chain is signed with (${inForce.slice(0, 16)}…): restore that key, or rotate keys with \`corelag key rotate\``,
+    );
+  }
+  return writeEntry(tx, e, signer, at);
+}
+
+/** A new signing key, recorded in the chain and endorsed by the outgoing key; the old private key is deleted. */
+export async function rotateSigningKey(actor = "cli"): Promise<{ from: string; to: string; seq: number }> {
+  const r = prepareKeyRotation();
+  try {
+    const entry = await db.$transaction(async (tx) => {
+      const inForce = await chainKey(tx);
+      if (inForce !== null && inForce !== r.old.fingerprint) throw new SigningKeyError(`the current key file is not the chain's key (${inForce.slice(0, 16)}…); rotation needs the key in force`);
+      if (inForce === null) await writeEntry(tx, keyEvent(r.old, null, "system"), r.old, new Date());
+      return writeEntry(tx, keyEvent(r.next, r.old.fingerprint, actor), r.old, new Date());
+    });
+    r.commit();
+    return { from: r.old.fingerprint, to: r.next.fingerprint, seq: entry.seq };
+  } catch (e) {
+    r.abandon();
+    throw e;
+  }
 }
 
 /** Every entry in chain order. */
 export async function listAudit(filter?: { entityId?: string }): Promise<AuditEntryRecord[]> {
   const rows = await db.auditEntry.findMany({ where: filter?.entityId ? { entityId: filter.entityId } : undefined, orderBy: { seq: "asc" } });
   return rows.map((r) => ({ ...r, details: r.details as unknown }));
+}
+
+export async function listSignatures(): Promise<SignatureRecord[]> {
+  return db.auditSignature.findMany({ orderBy: { seq: "asc" } });
 }
 
 /** Records an export (outside any other change). */
@@ -54,4 +111,26 @@ export async function logOriginalDownload(traceId: string, sha256: string): Prom
 /** Records the result of re-checking a stored review (re-import and re-run, as `corelag verify --review` does). */
 export async function logRecheck(reviewId: string, actor: string, details: { reproduced: boolean; problems: string[]; engineVersion: string; resultSha256: string }): Promise<AuditEntryRecord> {
   return db.$transaction((tx) => appendAudit(tx, { action: "verify", entity: "review", entityId: reviewId, actor, details }));
+}
+
+/**
+ * Once after upgrading: rows whose latest entry was written before entries carried content hashes get a
+ * "seal" entry with their current content hash. Rows with no entry at all are left for verify to report.
+ */
+export async function sealUnsealedRows(actor = "system"): Promise<number> {
+  const entries = await db.auditEntry.findMany({ where: { entity: { in: ["trace", "definition", "review"] }, action: { in: [...CONTENT_ACTIONS] } }, orderBy: { seq: "asc" }, select: { entity: true, entityId: true, details: true } });
+  const latest = new Map<string, boolean>();
+  for (const e of entries) latest.set(`${e.entity}:${e.entityId}`, typeof (e.details as { contentSha256?: unknown } | null)?.contentSha256 === "string");
+  const unsealed = [...latest].filter(([, sealed]) => !sealed).map(([k]) => k);
+  for (const k of unsealed) {
+    const [entity, id] = [k.slice(0, k.indexOf(":")), k.slice(k.indexOf(":") + 1)];
+    await db.$transaction(async (tx) => {
+      const hash =
+        entity === "trace" ? await tx.trace.findUnique({ where: { id } }).then((r) => r && traceContentHash(r))
+        : entity === "definition" ? await tx.definition.findUnique({ where: { id } }).then((r) => r && definitionContentHash(r))
+        : await tx.review.findUnique({ where: { id } }).then((r) => r && reviewContentHash(r));
+      if (hash) await appendAudit(tx, { action: "seal", entity: entity as AuditEvent["entity"], entityId: id, actor, details: { reason: "content hash recorded after upgrade" }, contentSha256: hash });
+    });
+  }
+  return unsealed.length;
 }

@@ -3,6 +3,7 @@ import { db } from "./client";
 import { appendAudit } from "./audit";
 import { canonicalJson } from "../review/canonical";
 import { sha256Hex } from "../trace/hash";
+import { definitionContentHash } from "../review/content";
 
 export type DefinitionKind = "product" | "pack" | "limits" | "profile";
 
@@ -27,7 +28,7 @@ export async function createDefinition<T extends { name: string }>(kind: Definit
     const row = await tx.definition.create({
       data: { kind, lineage: randomUUID(), version: 1, name: body.name, body: body as object, sha256: sha256Hex(canonicalJson(body)) },
     });
-    await appendAudit(tx, { action: "create", entity: "definition", entityId: row.id, actor, details: { kind, name: row.name, lineage: row.lineage, version: 1, sha256: row.sha256 } });
+    await appendAudit(tx, { action: "create", entity: "definition", entityId: row.id, actor, details: { kind, name: row.name, lineage: row.lineage, version: 1, sha256: row.sha256 }, contentSha256: definitionContentHash(row) });
     return toStored<T>(row);
   });
 }
@@ -46,6 +47,7 @@ export async function reviseDefinition<T extends { name: string }>(lineage: stri
       entityId: row.id,
       actor,
       details: { kind: row.kind, name: row.name, lineage, version: row.version, previous: latest.id, sha256: row.sha256 },
+      contentSha256: definitionContentHash(row),
     });
     return toStored<T>(row);
   });

@@ -4,6 +4,10 @@ import { appendAudit } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
 import type { ReviewComputation, ReviewResult } from "../review";
 import type { Outcome } from "../exposure/rules";
+import { reviewContentHash } from "../review/content";
+
+/** What a sign-off means, recorded with it when the signer gives no other wording. */
+export const DEFAULT_SIGN_MEANING = "I reviewed this record; the decision above is mine";
 
 export interface NewReview {
   title: string;
@@ -41,8 +45,9 @@ export async function createReview(r: NewReview): Promise<string> {
         outcome: c.result.outcome,
         correctsId: r.correctsId ?? null,
       },
-      select: { id: true, trace: { select: { sha256: true } } },
+      include: { trace: { select: { sha256: true } } },
     });
+    const { trace: _trace, ...stored } = row;
     await appendAudit(tx, {
       action: "run",
       entity: "review",
@@ -60,6 +65,7 @@ export async function createReview(r: NewReview): Promise<string> {
         outcome: c.result.outcome,
         corrects: r.correctsId ?? null,
       },
+      contentSha256: reviewContentHash(stored),
     });
     return row.id;
   });
@@ -76,7 +82,7 @@ export const COMMENT_REQUIRED_MESSAGE = "a decision that differs from the sugges
  * needs a comment; this is checked here, inside the transaction, against the row itself, so no form
  * field (a hidden "suggested" value, say) can waive it.
  */
-export async function signReview(id: string, s: { reviewer: string; decision: Outcome; comment?: string }): Promise<ReviewChange> {
+export async function signReview(id: string, s: { reviewer: string; decision: Outcome; comment?: string; meaning?: string }): Promise<ReviewChange> {
   return db.$transaction(async (tx) => {
     const row = await tx.review.findUnique({ where: { id }, select: { status: true, outcome: true } });
     if (!row) return { ok: false, reason: "not-found", message: "that review does not exist" };
@@ -85,10 +91,18 @@ export async function signReview(id: string, s: { reviewer: string; decision: Ou
       return { ok: false, reason: "comment-required", message: COMMENT_REQUIRED_MESSAGE };
     }
     const signedAt = new Date();
-    await tx.review.update({ where: { id }, data: { status: "signed", signedBy: s.reviewer, signedAt, decision: s.decision, signComment: s.comment ?? null } });
+    const meaning = s.meaning ?? DEFAULT_SIGN_MEANING;
+    const signed = await tx.review.update({ where: { id }, data: { status: "signed", signedBy: s.reviewer, signedAt, decision: s.decision, signComment: s.comment ?? null, signMeaning: meaning } });
     await appendAudit(
       tx,
-      { action: "sign", entity: "review", entityId: id, actor: s.reviewer, details: { decision: s.decision, suggested: row.outcome, comment: s.comment ?? null } },
+      {
+        action: "sign",
+        entity: "review",
+        entityId: id,
+        actor: s.reviewer,
+        details: { decision: s.decision, suggested: row.outcome, comment: s.comment ?? null, meaning, signedAt: signedAt.toISOString() },
+        contentSha256: reviewContentHash(signed),
+      },
       signedAt,
     );
     return { ok: true };
@@ -101,8 +115,8 @@ export async function renameReview(id: string, title: string): Promise<ReviewCha
     const row = await tx.review.findUnique({ where: { id }, select: { status: true, title: true } });
     if (!row) return { ok: false, reason: "not-found", message: "that review does not exist" };
     if (row.status === "signed") return { ok: false, reason: "signed", message: "a signed review cannot be edited; start a correction instead" };
-    await tx.review.update({ where: { id }, data: { title } });
-    await appendAudit(tx, { action: "rename", entity: "review", entityId: id, actor: "web", details: { from: row.title, to: title } });
+    const renamed = await tx.review.update({ where: { id }, data: { title } });
+    await appendAudit(tx, { action: "rename", entity: "review", entityId: id, actor: "web", details: { from: row.title, to: title }, contentSha256: reviewContentHash(renamed) });
     return { ok: true };
   });
 }

@@ -2,6 +2,7 @@ import { db } from "./client";
 import { appendAudit } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
 import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
+import { traceContentHash } from "../review/content";
 import { sha256Hex, type TraceImport, type TraceSeries, type ResolvedImportSettings } from "../trace";
 
 export interface StoredTraceMeta {
@@ -39,7 +40,6 @@ export async function createTrace(args: { name: string; fileName: string; bytes:
         endAt: new Date(series.t_s[n - 1]! * 1000),
         warnings,
       },
-      select: { id: true },
     });
     await appendAudit(tx, {
       action: "import",
@@ -47,6 +47,7 @@ export async function createTrace(args: { name: string; fileName: string; bytes:
       entityId: row.id,
       actor: args.actor ?? "web",
       details: { fileName: args.fileName, sha256, samples: n, settings: settings as unknown as object, warnings: warnings.length },
+      contentSha256: traceContentHash(row),
     });
     return row.id;
   });

@@ -137,8 +137,10 @@ export async function verifyStoredReview(id: string): Promise<ReproductionCheck>
   const review = await getReview(id);
   if (!review) return { id, title: "", reproduced: false, problems: ["no such review"] };
   const problems: string[] = [];
-  const trace = (await getTrace(review.traceId))!;
-  const original = (await getTraceOriginal(review.traceId))!.bytes;
+  const trace = await getTrace(review.traceId);
+  const stored = await getTraceOriginal(review.traceId);
+  if (!trace || !stored) return { id, title: review.title, reproduced: false, problems: [`its trace ${review.traceId} is missing`] };
+  const original = stored.bytes;
   if (sha256Hex(original) !== trace.meta.sha256) problems.push("the trace's original bytes no longer match their SHA-256");
   try {
     const again = await importTraceFile(original, optionsFromSettings(trace.meta.importSettings));

@@ -1,20 +1,97 @@
-// Verifying the stored records: the audit chain, then each review re-imported and re-run.
-import { listAudit } from "../db/audit";
-import { allReviewIds } from "../db/reviews";
-import { verifyAuditChain } from "../review/audit";
-import { verifyStoredReview } from "./reviews";
+// `corelag verify` and the app's "verified at" line: storage checks, the chain and its signatures, every
+// row against its latest audit entry, an optional external anchor, and (CLI) re-running stored reviews.
+import { readRecordSnapshot } from "../db/recordSnapshot";
+import { loadSigningKey } from "../db/signingKey";
+import { checkRecords, type ChainHead, type Finding } from "../review/records";
+import { checkAnchor, anchorOf, type Anchor } from "../review/anchor";
+import { verifyAuditChain, type ChainCheck } from "../review/audit";
+import { verifyStoredReview, type ReproductionCheck } from "./reviews";
 
-export interface DatabaseVerification {
-  ok: boolean;
-  chain: ReturnType<typeof verifyAuditChain>;
-  reviews: Awaited<ReturnType<typeof verifyStoredReview>>[];
+export interface KeyStatus {
+  /** the key in force according to the chain */
+  chain: string | null;
+  /** this installation's key (key file or environment), when there is one */
+  local: string | null;
+  note?: string;
 }
 
-/** Checks the chain and re-runs one review (reviewId) or every stored review. */
-export async function verifyDatabase(reviewId?: string): Promise<DatabaseVerification> {
-  const chain = verifyAuditChain(await listAudit());
-  const ids = reviewId ? [reviewId] : await allReviewIds();
-  const reviews = [];
-  for (const id of ids) reviews.push(await verifyStoredReview(id));
-  return { ok: chain.ok && reviews.every((r) => r.reproduced), chain, reviews };
+export interface VerifyReport {
+  ok: boolean;
+  checked_at: string;
+  head: ChainHead | null;
+  key: KeyStatus;
+  findings: Finding[];
+  /** the chain check alone (kept for scripts written against earlier versions) */
+  chain: ChainCheck;
+  reviews: ReproductionCheck[];
+  anchor?: { given: Anchor; contained: boolean };
+}
+
+function localKey(): { fp: string | null; note?: string } {
+  try {
+    const k = loadSigningKey({ create: false });
+    return k ? { fp: k.fingerprint } : { fp: null, note: "no signing key on this machine: compare the chain's key fingerprint with an anchor kept elsewhere (--anchor)" };
+  } catch (e) {
+    return { fp: null, note: `the local signing key cannot be used: ${(e as Error).message}` };
+  }
+}
+
+/** Checks the records without re-running the engine; `scope` limits the rows read (the chain is always read whole). */
+export function checkStoredRecords(opts: { scope?: ReadonlySet<string>; anchor?: Anchor; storageChecks?: boolean; now?: Date } = {}) {
+  const { snapshot, storage } = readRecordSnapshot({ scope: opts.scope, storageChecks: opts.storageChecks });
+  const local = localKey();
+  const check = checkRecords(snapshot, { localKeyFingerprint: local.fp });
+  const findings = [...storage, ...check.findings];
+  let anchor: VerifyReport["anchor"];
+  if (opts.anchor) {
+    const af = checkAnchor(snapshot.entries, check.keys, opts.anchor);
+    findings.push(...af);
+    anchor = { given: opts.anchor, contained: af.length === 0 };
+  }
+  const key: KeyStatus = { chain: check.keys.at(-1)?.fingerprint ?? null, local: local.fp, ...(local.note ? { note: local.note } : {}) };
+  return { snapshot, findings, head: check.head, key, anchor, checked_at: (opts.now ?? new Date()).toISOString() };
+}
+
+/** The full check behind `corelag verify`: never throws on a damaged or tampered database; every problem is a finding. */
+export async function verifyRecords(opts: { reviewId?: string; anchor?: Anchor; reproduce?: boolean } = {}): Promise<VerifyReport> {
+  const r = checkStoredRecords({ anchor: opts.anchor });
+  const findings = [...r.findings];
+  const reviews: ReproductionCheck[] = [];
+  if (opts.reproduce !== false) {
+    const ids = opts.reviewId ? [opts.reviewId] : r.snapshot.reviews.map((x) => x.id);
+    for (const id of ids) {
+      let rc: ReproductionCheck;
+      try {
+        rc = await verifyStoredReview(id);
+      } catch (e) {
+        rc = { id, title: "", reproduced: false, problems: [`cannot be re-run: ${(e as Error).message.split("\n")[0]}`] };
+      }
+      reviews.push(rc);
+      for (const p of rc.problems) findings.push({ kind: "review-not-reproduced", table: "Review", row: id, message: `review ${id}: ${p}` });
+    }
+  }
+  return { ok: findings.length === 0, checked_at: r.checked_at, head: r.head, key: r.key, findings, chain: verifyAuditChain(r.snapshot.entries), reviews, ...(r.anchor ? { anchor: r.anchor } : {}) };
+}
+
+/** The head to keep outside the database; null with a reason when there is nothing signed to anchor. */
+export function currentAnchor(now = new Date()): { anchor: Anchor } | { anchor: null; reason: string; findings: Finding[] } {
+  const r = checkStoredRecords({ storageChecks: false, now });
+  const a = anchorOf(r.head, now);
+  if (a) return { anchor: a };
+  return { anchor: null, reason: r.head ? "the chain's newest entry is not signed by the key in force" : "the audit chain is empty", findings: r.findings };
+}
+
+export interface RecordVerification {
+  ok: boolean;
+  checked_at: string;
+  head: ChainHead | null;
+  key: KeyStatus;
+  findings: Finding[];
+}
+
+/** The app's per-review check: the chain and signatures whole, this review and its inputs against it. */
+export function verifyReviewRecord(ids: { reviewId: string; traceId: string; productId: string; packId?: string | null; limitsId: string }): RecordVerification {
+  const scope = new Set([ids.reviewId, ids.traceId, ids.productId, ids.limitsId, ...(ids.packId ? [ids.packId] : [])]);
+  const r = checkStoredRecords({ scope, storageChecks: false });
+  return { ok: r.findings.length === 0, checked_at: r.checked_at, head: r.head, key: r.key, findings: r.findings };
 }

@@ -49,14 +49,15 @@ describe("review records", () => {
   it("records every create, import and run in the audit chain", async () => {
     const { listAudit } = await import("@/lib/db/audit");
     const entries = await listAudit();
-    expect(entries.map((e) => `${e.action} ${e.entity}`)).toEqual(["import trace", "create definition", "create definition", "run review"]);
-    expect(entries[3]!.details).toMatchObject({ productId: ids.productId, limitsId: ids.limitsId, engineVersion: "0.3.0" });
+    // the first write records the signing key in the chain
+    expect(entries.map((e) => `${e.action} ${e.entity}`)).toEqual(["key key", "import trace", "create definition", "create definition", "run review"]);
+    expect(entries[4]!.details).toMatchObject({ productId: ids.productId, limitsId: ids.limitsId, engineVersion: "0.3.0" });
   });
 
   it("a stored review reproduces bit for bit (verify --review)", () => {
     const r = verifyCli("--review", reviewId);
     expect(r.code).toBe(0);
-    expect(r.out).toMatchObject({ ok: true, chain: { ok: true, entries: 4 }, reviews: [{ id: reviewId, reproduced: true, problems: [] }] });
+    expect(r.out).toMatchObject({ ok: true, chain: { ok: true, entries: 5 }, findings: [], reviews: [{ id: reviewId, reproduced: true, problems: [] }] });
   });
 
   it("signOff compares the decision with the STORED outcome: a forged 'suggested' field does not waive the comment", async () => {
@@ -100,18 +101,19 @@ describe("review records", () => {
     const { db } = await import("@/lib/db/client");
     await expect(db.auditEntry.update({ where: { seq: 1 }, data: { actor: "x" } })).rejects.toThrow();
     await expect(db.auditEntry.delete({ where: { seq: 1 } })).rejects.toThrow();
-    expect((await db.auditEntry.findUnique({ where: { seq: 1 } }))!.actor).toBe("web");
+    expect((await db.auditEntry.findUnique({ where: { seq: 2 } }))!.actor).toBe("web");
   });
 
   it("verify detects an audit entry changed behind the database's back", async () => {
     const { db } = await import("@/lib/db/client");
     // Someone with direct access to the file drops the guard and edits an entry.
     await db.$executeRawUnsafe(`DROP TRIGGER "AuditEntry_no_update"`);
-    await db.$executeRawUnsafe(`UPDATE "AuditEntry" SET "actor" = 'mallory' WHERE "seq" = 2`);
+    await db.$executeRawUnsafe(`UPDATE "AuditEntry" SET "actor" = 'mallory' WHERE "seq" = 3`);
     const r = verifyCli();
     expect(r.code).toBe(1);
     expect(r.out.ok).toBe(false);
     expect(r.out.chain.problems).toHaveLength(1);
-    expect(r.out.chain.problems[0]).toMatch(/^entry 2 \(create definition \S+\): its content no longer matches its hash$/);
+    expect(r.out.chain.problems[0]).toMatch(/^entry 3 \(create definition \S+\): its content no longer matches its hash$/);
+    expect(r.out.findings).toEqual([{ kind: "entry-altered", table: "AuditEntry", entry: 3, message: r.out.chain.problems[0] }]);
   });
 });

@@ -1,0 +1,22 @@
+// The small part of better-sqlite3's API that the verify reader uses (the package ships no types).
+declare module "better-sqlite3" {
+  namespace Database {
+    interface Statement {
+      all(...params: unknown[]): unknown[];
+      run(...params: unknown[]): { changes: number };
+      get(...params: unknown[]): unknown;
+      iterate(...params: unknown[]): IterableIterator<unknown>;
+      pluck(on?: boolean): Statement;
+    }
+    interface Database {
+      prepare(sql: string): Statement;
+      exec(sql: string): Database;
+      close(): void;
+    }
+  }
+  interface DatabaseConstructor {
+    new (file: string, options?: { readonly?: boolean; fileMustExist?: boolean }): Database.Database;
+  }
+  const Database: DatabaseConstructor;
+  export = Database;
+}

@@ -1,0 +1,136 @@
+// Reads everything `verify` compares, straight from the SQLite file (read-only, without Prisma), so a
+// damaged or tampered file gives findings instead of a crash. A second database gets its own reader
+// returning the same RecordSnapshot; the comparison (lib/review/records.ts) stays as it is.
+import Database from "better-sqlite3";
+import { existsSync } from "node:fs";
+import type { AuditEntryRecord } from "../review/audit";
+import type { DefinitionRowContent, ReviewRowContent, TraceRowContent } from "../review/content";
+import type { Finding, RecordSnapshot, SignatureRecord } from "../review/records";
+import { databaseFile } from "./env";
+
+type Raw = Record<string, unknown>;
+
+const MAX_STORAGE_FINDINGS = 100;
+
+/** JSON text as a value; text that does not parse stays as a marked string, so its hash differs. */
+function json(v: unknown): unknown {
+  if (typeof v !== "string") return v ?? null;
+  try {
+    return JSON.parse(v);
+  } catch {
+    return { unparsable: v };
+  }
+}
+const bytes = (v: unknown): Uint8Array => (v instanceof Uint8Array ? v : new TextEncoder().encode(String(v ?? "")));
+const blob = (v: unknown): Uint8Array | null => (v === null || v === undefined ? null : bytes(v));
+const str = (v: unknown): string => (v === null || v === undefined ? "" : String(v));
+const strOrNull = (v: unknown): string | null => (v === null || v === undefined ? null : String(v));
+const when = (v: unknown): Date | string => (typeof v === "number" ? new Date(v) : str(v));
+
+function toEntry(r: Raw): AuditEntryRecord {
+  const at = new Date(when(r.at));
+  return { seq: Number(r.seq), at, action: str(r.action), entity: str(r.entity), entityId: str(r.entityId), actor: str(r.actor), details: json(r.details), prevHash: str(r.prevHash), hash: str(r.hash) };
+}
+function toTrace(r: Raw): TraceRowContent {
+  return {
+    id: str(r.id), name: str(r.name), fileName: str(r.fileName), sha256: str(r.sha256), original: bytes(r.original), importSettings: json(r.importSettings),
+    timesS: bytes(r.timesS), airC: bytes(r.airC), probeC: blob(r.probeC), sampleCount: Number(r.sampleCount), startAt: when(r.startAt), endAt: when(r.endAt),
+    warnings: json(r.warnings), createdAt: when(r.createdAt),
+  };
+}
+function toDefinition(r: Raw): DefinitionRowContent {
+  return { id: str(r.id), kind: str(r.kind), lineage: str(r.lineage), version: Number(r.version), name: str(r.name), body: json(r.body), sha256: str(r.sha256), createdAt: when(r.createdAt) };
+}
+function toReview(r: Raw): ReviewRowContent {
+  return {
+    id: str(r.id), title: str(r.title), traceId: str(r.traceId), productId: str(r.productId), packId: strOrNull(r.packId), limitsId: str(r.limitsId),
+    options: json(r.options), engineVersion: str(r.engineVersion), result: json(r.result), coreC: bytes(r.coreC), surfaceC: blob(r.surfaceC), meanC: blob(r.meanC),
+    coolantC: blob(r.coolantC), resultSha256: str(r.resultSha256), outcome: str(r.outcome), status: str(r.status), signedBy: strOrNull(r.signedBy),
+    signedAt: r.signedAt === null || r.signedAt === undefined ? null : when(r.signedAt), decision: strOrNull(r.decision), signComment: strOrNull(r.signComment),
+    signMeaning: strOrNull(r.signMeaning), correctsId: strOrNull(r.correctsId), createdAt: when(r.createdAt),
+  };
+}
+
+export interface SnapshotRead {
+  snapshot: RecordSnapshot;
+  /** damage and foreign-key holes found by the database's own checks, and tables that could not be read */
+  storage: Finding[];
+}
+
+const emptySnapshot = (): RecordSnapshot => ({ entries: [], signatures: [], traces: [], definitions: [], reviews: [], incompleteTables: [] });
+
+/**
+ * Everything verify needs. `scope` limits the rows read to these ids (a review and its inputs), for the
+ * app's per-review check; the chain and signatures are always read whole. Never throws.
+ */
+export function readRecordSnapshot(opts: { file?: string; scope?: ReadonlySet<string>; storageChecks?: boolean } = {}): SnapshotRead {
+  const storage: Finding[] = [];
+  const snapshot = emptySnapshot();
+  if (opts.scope) snapshot.scope = opts.scope;
+  let file: string;
+  try {
+    file = opts.file ?? databaseFile();
+  } catch (e) {
+    storage.push({ kind: "storage-damaged", message: (e as Error).message });
+    return { snapshot, storage };
+  }
+  if (!existsSync(file)) {
+    storage.push({ kind: "storage-damaged", message: `${file}: the database file does not exist` });
+    return { snapshot, storage };
+  }
+  let conn: Database.Database;
+  try {
+    conn = new Database(file, { readonly: true, fileMustExist: true });
+  } catch (e) {
+    storage.push({ kind: "storage-damaged", message: `${file}: cannot be opened (${(e as Error).message})` });
+    return { snapshot, storage };
+  }
+  try {
+    if (opts.storageChecks !== false) {
+      try {
+        const lines = conn.prepare("PRAGMA integrity_check").pluck().all() as string[];
+        for (const line of lines.filter((l) => l !== "ok").slice(0, MAX_STORAGE_FINDINGS)) storage.push({ kind: "storage-damaged", message: `integrity check: ${line}` });
+      } catch (e) {
+        storage.push({ kind: "storage-damaged", message: `integrity check could not run: ${(e as Error).message}` });
+      }
+      try {
+        const holes = conn.prepare("PRAGMA foreign_key_check").all() as { table: string; rowid: number; parent: string; fkid: number }[];
+        for (const h of holes.slice(0, MAX_STORAGE_FINDINGS)) {
+          let row: string | undefined;
+          try {
+            row = str(conn.prepare(`SELECT "id" FROM "${h.table}" WHERE rowid = ?`).pluck().get(h.rowid));
+          } catch {
+            row = undefined;
+          }
+          storage.push({ kind: "foreign-key-hole", table: h.table, ...(row ? { row } : {}), message: `${h.table} ${row ?? `rowid ${h.rowid}`} refers to a ${h.parent} row that does not exist` });
+        }
+      } catch (e) {
+        storage.push({ kind: "storage-damaged", message: `foreign-key check could not run: ${(e as Error).message}` });
+      }
+    }
+    const read = <T>(table: string, sql: string, map: (r: Raw) => T, into: T[], params: unknown[] = []) => {
+      try {
+        for (const r of conn.prepare(sql).iterate(...params) as IterableIterator<Raw>) {
+          try {
+            into.push(map(r));
+          } catch (e) {
+            storage.push({ kind: "table-unreadable", table, message: `${table}: a row cannot be read (${(e as Error).message})` });
+          }
+        }
+      } catch (e) {
+        snapshot.incompleteTables.push(table);
+        storage.push({ kind: "table-unreadable", table, message: `${table}: reading stopped after ${into.length} rows (${(e as Error).message})` });
+      }
+    };
+    read("AuditEntry", `SELECT * FROM "AuditEntry" ORDER BY "seq"`, toEntry, snapshot.entries);
+    read("AuditSignature", `SELECT * FROM "AuditSignature" ORDER BY "seq"`, (r) => ({ seq: Number(r.seq), keyFingerprint: str(r.keyFingerprint), signature: str(r.signature) }) as SignatureRecord, snapshot.signatures);
+    const ids = opts.scope ? [...opts.scope] : null;
+    const where = ids ? ` WHERE "id" IN (${ids.map(() => "?").join(",") || "NULL"})` : "";
+    read("Trace", `SELECT * FROM "Trace"${where}`, toTrace, snapshot.traces, ids ?? []);
+    read("Definition", `SELECT * FROM "Definition"${where}`, toDefinition, snapshot.definitions, ids ?? []);
+    read("Review", `SELECT * FROM "Review"${where}`, toReview, snapshot.reviews, ids ?? []);
+  } finally {
+    conn.close();
+  }
+  return { snapshot, storage };
+}
