@@ -44,11 +44,9 @@ export async function verifyCommand(argv: string[]): Promise<CommandResult> {
 /** One JSON line: the chain's head, to be kept outside the database. */
 export async function anchorCommand(argv: string[]): Promise<CommandResult> {
   parseArgs({ args: argv, options: {}, strict: true });
-  const { currentAnchor } = await import("../services/verify");
-  const r = currentAnchor();
+  const { takeAnchor } = await import("../services/verify");
+  const r = takeAnchor();
   if (!r.anchor) return { stdout: "", stderr: `corelag anchor: nothing to anchor: ${r.reason}\n`, code: 1 };
-  const { recordAnchor } = await import("../db/anchorLog");
-  recordAnchor(r.anchor);
   return { stdout: JSON.stringify(r.anchor) + "\n", code: 0 };
 }
 
@@ -56,23 +54,17 @@ export async function anchorCommand(argv: string[]): Promise<CommandResult> {
 export async function keyCommand(argv: string[]): Promise<CommandResult> {
   const { positionals } = parseArgs({ args: argv, options: {}, allowPositionals: true, strict: true });
   if (positionals[0] !== "rotate" || positionals.length !== 1) throw new RecordsUsageError("usage: corelag key rotate");
-  const { rotateSigningKey } = await import("../db/audit");
-  const { SigningKeyError } = await import("../db/signingKey");
-  let r;
-  try {
-    r = await rotateSigningKey("cli");
-  } catch (e) {
-    if (e instanceof SigningKeyError) return { stdout: "", stderr: `corelag key: ${e.message}\n`, code: 1 };
-    throw e;
-  }
+  const { rotateKey } = await import("../services/verify");
+  const r = await rotateKey("cli");
+  if (!r.ok) return { stdout: "", stderr: `corelag key: ${r.message}\n`, code: 1 };
   return { stdout: JSON.stringify({ rotated: true, from_key_fingerprint: r.from, key_fingerprint: r.to, entry: r.seq }) + "\n", code: 0 };
 }
 
 /** `seal`: once after upgrading, content hashes for rows whose entries predate them. */
 export async function sealCommand(argv: string[]): Promise<CommandResult> {
   parseArgs({ args: argv, options: {}, strict: true });
-  const { sealUnsealedRows } = await import("../db/audit");
-  return { stdout: JSON.stringify({ sealed: await sealUnsealedRows("cli") }) + "\n", code: 0 };
+  const { sealRows } = await import("../services/verify");
+  return { stdout: JSON.stringify({ sealed: await sealRows("cli") }) + "\n", code: 0 };
 }
 
 export const RECORD_COMMANDS: Record<string, (argv: string[]) => Promise<CommandResult>> = {

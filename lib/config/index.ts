@@ -13,6 +13,10 @@ const configSchema = z.object({
     .string()
     .regex(/^file:.+/, { message: "DATABASE_URL must be a SQLite file: URL, e.g. file:data/corelag.db" })
     .default(`file:${path.join("data", "corelag.db")}`),
+  /** The audit signing key itself, PEM or base64 PKCS#8 DER (for teams that keep it in a secret store). */
+  CORELAG_SIGNING_KEY: z.string().min(1).optional(),
+  /** Path of the audit signing key file; by default the database file's path with ".key" appended. */
+  CORELAG_SIGNING_KEY_FILE: z.string().min(1).optional(),
 });
 export type Config = z.infer<typeof configSchema>;
 

@@ -11,17 +11,9 @@ export function databaseFile(url = databaseUrl()): string {
   return path.resolve(url.replace(/^file:/, ""));
 }
 
-const keyEnvSchema = z.object({
-  /** an Ed25519 private key, PEM or base64 PKCS#8 DER (for teams that keep it in a secret store) */
-  CORELAG_SIGNING_KEY: z.string().min(1).optional(),
-  /** path of the key file; defaults to the database file's path with ".key" appended */
-  CORELAG_SIGNING_KEY_FILE: z.string().min(1).optional(),
-});
-
-/** Where the audit signing key comes from: the environment, or a key file (by default beside the database). */
-export function signingKeySource(url = databaseUrl()): { kind: "env" } | { kind: "file"; path: string } {
-  const parsed = keyEnvSchema.safeParse(process.env);
-  if (!parsed.success) throw new Error(`Invalid environment: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`);
-  if (parsed.data.CORELAG_SIGNING_KEY) return { kind: "env" };
-  return { kind: "file", path: path.resolve(parsed.data.CORELAG_SIGNING_KEY_FILE ?? `${databaseFile(url)}.key`) };
+/** Where the audit signing key comes from: the configuration (a secret), or a key file (by default beside the database). */
+export function signingKeySource(url = databaseUrl()): { kind: "env"; text: string } | { kind: "file"; path: string } {
+  const c = config();
+  if (c.CORELAG_SIGNING_KEY) return { kind: "env", text: c.CORELAG_SIGNING_KEY };
+  return { kind: "file", path: path.resolve(c.CORELAG_SIGNING_KEY_FILE ?? `${databaseFile(url)}.key`) };
 }

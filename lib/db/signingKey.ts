@@ -40,7 +40,7 @@ function newKeyPem(): string {
  */
 export function loadSigningKey(opts: { create: boolean }): SigningKey | null {
   const src = signingKeySource();
-  if (src.kind === "env") return fromText(process.env.CORELAG_SIGNING_KEY!, "CORELAG_SIGNING_KEY");
+  if (src.kind === "env") return fromText(src.text, "CORELAG_SIGNING_KEY");
   if (existsSync(src.path)) return readKeyFile(src.path);
   if (!opts.create) return null;
   mkdirSync(path.dirname(src.path), { recursive: true });

@@ -1,7 +1,9 @@
 // `corelag verify` and the app's "verified at" line: storage checks, the chain and its signatures, every
 // row against its latest audit entry, an optional external anchor, and (CLI) re-running stored reviews.
 import { readRecordSnapshot } from "../db/recordSnapshot";
-import { loadSigningKey } from "../db/signingKey";
+import { loadSigningKey, SigningKeyError } from "../db/signingKey";
+import { recordAnchor } from "../db/anchorLog";
+import { rotateSigningKey, sealUnsealedRows } from "../db/audit";
 import { checkRecords, type ChainHead, type Finding } from "../review/records";
 import { checkAnchor, anchorOf, type Anchor } from "../review/anchor";
 import { verifyAuditChain, type ChainCheck } from "../review/audit";
@@ -94,4 +96,26 @@ export function verifyReviewRecord(ids: { reviewId: string; traceId: string; pro
   const scope = new Set([ids.reviewId, ids.traceId, ids.productId, ids.limitsId, ...(ids.packId ? [ids.packId] : [])]);
   const r = checkStoredRecords({ scope, storageChecks: false });
   return { ok: r.findings.length === 0, checked_at: r.checked_at, head: r.head, key: r.key, findings: r.findings };
+}
+
+/** `corelag anchor`: the current head, also noted in the local anchor log for the audit page. */
+export function takeAnchor(now = new Date()): ReturnType<typeof currentAnchor> {
+  const r = currentAnchor(now);
+  if (r.anchor) recordAnchor(r.anchor);
+  return r;
+}
+
+/** `corelag key rotate`: a key problem comes back as a message, not a crash. */
+export async function rotateKey(actor = "cli"): Promise<{ ok: true; from: string; to: string; seq: number } | { ok: false; message: string }> {
+  try {
+    return { ok: true, ...(await rotateSigningKey(actor)) };
+  } catch (e) {
+    if (e instanceof SigningKeyError) return { ok: false, message: e.message };
+    throw e;
+  }
+}
+
+/** `corelag seal`: content hashes for rows whose entries predate them; returns how many rows were sealed. */
+export async function sealRows(actor = "cli"): Promise<number> {
+  return sealUnsealedRows(actor);
 }

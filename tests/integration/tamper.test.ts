@@ -35,7 +35,7 @@ beforeAll(async () => {
   const { db } = await import("@/lib/db/client");
   const first = (await db.review.findFirst({ orderBy: { createdAt: "asc" } }))!;
   const { signOff, runAndStoreReview } = await import("@/lib/services/reviews");
-  const signed = await signOff(first.id, { reviewer: "Dana Ruiz", decision: "reject", comment: "core above 5 °C for too long", suggested: first.outcome as "reject" });
+  const signed = await signOff(first.id, { reviewer: "Dana Ruiz", decision: "reject", comment: "core above 5 °C for too long" });
   if (!signed.ok) throw new Error(signed.message);
   const second = await runAndStoreReview({ title: "Route 7, lumped check", traceId: first.traceId, productId: first.productId, limitsId: first.limitsId, model: "lumped" });
   if (!second.ok) throw new Error(second.message);
@@ -209,7 +209,7 @@ const CASES: Case[] = [
     expect: ["row-altered", "row-inconsistent"],
     tamper: (f) =>
       sql(f, (d) => {
-        d.exec(`DROP TRIGGER "Review_stored_result_final"; DROP TRIGGER "Review_signed_final"`);
+        d.exec(`DROP TRIGGER "Review_stored_result_final"; DROP TRIGGER "Review_signed_final"; DROP TRIGGER "Review_status_transition"`);
         const r = JSON.parse((d.prepare(`SELECT "result" FROM "Review" WHERE "id" = ?`).pluck().get(ids.signedReview)) as string);
         r.outcome = "accept";
         for (const rule of r.rules) rule.status = "pass";
