@@ -33,7 +33,8 @@ beforeAll(async () => {
   const { loadDemoIfEmpty } = await import("@/lib/services/demo");
   await loadDemoIfEmpty();
   const { db } = await import("@/lib/db/client");
-  const first = (await db.review.findFirst({ orderBy: { createdAt: "asc" } }))!;
+  // the demo's open review (16 June, suggests reject) is signed here; the demo's own signed review stays as it is
+  const first = (await db.review.findFirst({ where: { status: "open" }, orderBy: { createdAt: "asc" } }))!;
   const { signOff, runAndStoreReview } = await import("@/lib/services/reviews");
   const signed = await signOff(first.id, { reviewer: "Dana Ruiz", decision: "reject", comment: "core above 5 °C for too long" });
   if (!signed.ok) throw new Error(signed.message);
@@ -125,7 +126,7 @@ function editDetails(d: Database.Database, seq: number, edit: (x: Record<string,
 }
 
 const latestEntryOf = (d: Database.Database, entity: string, id: string) =>
-  (d.prepare(`SELECT "seq" FROM "AuditEntry" WHERE "entity" = ? AND "entityId" = ? AND "action" != 'export' ORDER BY "seq" DESC LIMIT 1`).get(entity, id) as { seq: number }).seq;
+  (d.prepare(`SELECT "seq" FROM "AuditEntry" WHERE "entity" = ? AND "entityId" = ? AND "action" IN ('create','edit','import','run','sign','rename','seal') ORDER BY "seq" DESC LIMIT 1`).get(entity, id) as { seq: number }).seq;
 
 function rawReview(d: Database.Database, id: string) {
   const r = d.prepare(`SELECT * FROM "Review" WHERE "id" = ?`).get(id) as Record<string, unknown>;
