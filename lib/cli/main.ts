@@ -23,8 +23,8 @@ const USAGE = `usage:
   corelag import FILE [--sheet NAME] [--time-col NAME] [--date-col NAME] [--air-col NAME] [--product-col NAME] [--unit C|F|K] [--tz ZONE]
                       [--date-order dmy|mdy|ymd] [--time-format datetime|unix-s|unix-ms|elapsed-s|elapsed-min|elapsed-h] [--start ISO]
                       [--decimal .|,] [--delimiter ,|;|tab||] [--missing CODE,CODE] [--plausible-min C] [--plausible-max C] [--gap-multiple N] [--format json]
-  corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction] [--out FILE.csv] [import options] [--format json]
-  corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction] [--window START/END] [import options] [--format json]
+  corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction|conduction-1d] [--out FILE.csv] [import options] [--format json]
+  corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction|conduction-1d] [--window START/END] [import options] [--format json]
   corelag calibrate --trace FILE [--air-col NAME] [--product-col NAME] [--product P.json] [--pack K.json] [--fit-initial] [--fit-offset] [--mismatch-factor F] [import options] --format json
   corelag size --profile FILE(.csv|.json) --product P.json --pack K.json --limits L.json --vary layer:N:thickness_m|coolant:N:mass_kg|product:initial_C --min X --max Y [--model M] --format json
   corelag verify [--review ID] [--anchor FILE_OR_JSON] [--json]   (storage, audit chain, signatures, every row against the chain, re-runs stored reviews; exit 1 on any finding; uses DATABASE_URL)
@@ -157,7 +157,7 @@ function modelInputs(values: Values): { product: Product; pack: Pack | undefined
   const model = modelChoiceSchema.safeParse(values.model ?? "auto");
   if (!model.success) throw new CliError(`--model: ${model.error.issues[0]!.message}`);
   if (!pack && product.h_W_m2K === undefined) throw new CliError(`${values.product}: field 'h_W_m2K': give the product's surface coefficient, or a --pack`);
-  if (model.data === "conduction" && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
+  if ((model.data === "conduction" || model.data === "conduction-1d") && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
     throw new CliError(`${values.product}: field 'shape': the conduction model needs the product's shape and conductivity`);
   }
   return { product, pack, model: model.data };

@@ -67,7 +67,7 @@ export async function runAndStoreReview(request: RunReviewRequest, actor = "web"
     return { ok: false, field: "limitsId", message: `rule '${bad.id}' is on the '${bad.channel}' channel, but ${why}` };
   }
   if (!pack && product.h_W_m2K === undefined) return { ok: false, field: "packId", message: "this product has no surface coefficient of its own: choose a pack" };
-  if (req.model === "conduction" && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
+  if ((req.model === "conduction" || req.model === "conduction-1d") && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
     return { ok: false, field: "model", message: "the conduction model needs the product's shape and conductivity" };
   }
   const options: ReviewOptions = { model: req.model, ...(req.uncertainty ? { uncertainty: req.uncertainty } : {}) };

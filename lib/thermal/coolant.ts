@@ -34,3 +34,19 @@ export function coolantEnthalpy(coolants: readonly Coolant[]): EnthalpyCurve {
   const shift = -H[0]! + 1;
   return new EnthalpyCurve(Float64Array.from(T), Float64Array.from(H, (h) => h + shift));
 }
+
+/** Enthalpy of one coolant at t_C, J, relative to its solid at the melt point (the same form as the curve). */
+function ownEnthalpy(c: Coolant, t_C: number): number {
+  return t_C <= c.melt_C ? c.mass_kg * c.cp_solid_J_kgK * (t_C - c.melt_C) : c.mass_kg * (c.latent_J_kg + c.cp_liquid_J_kgK * (t_C - c.melt_C));
+}
+
+/**
+ * The enthalpy, on `curve` (from coolantEnthalpy of the same coolants), of these coolants when each
+ * starts at its own initial temperature: the sum of their own enthalpies, so no heat is lost when
+ * coolants that start at different temperatures share one node (a warm and a cold gel pack).
+ */
+export function coolantStartEnthalpy(coolants: readonly Coolant[], curve: EnthalpyCurve): number {
+  const active = coolants.filter((c) => c.mass_kg > 0);
+  const atLow = active.reduce((s, c) => s + ownEnthalpy(c, curve.T[0]!), 0);
+  return curve.H[0]! + active.reduce((s, c) => s + ownEnthalpy(c, c.initial_C), 0) - atLow;
+}

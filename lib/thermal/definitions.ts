@@ -54,6 +54,23 @@ export const compositionSchema = strictObject({
 export type Composition = z.infer<typeof compositionSchema>;
 
 /**
+ * Heat of respiration of fresh produce, W/kg: a constant, or the correlation of Becker and Fricke (1996),
+ * W = (10.7·f/3600)·(9t/5 + 32)^g with t in °C and commodity coefficients f, g (as reproduced in ASHRAE
+ * Handbook—Refrigeration, "Thermal Properties of Foods"; form recalled from memory of that chapter).
+ * Ranges: W_kg 0…2 W/kg (produce respires below about 0.5 W/kg even warm); f 0…0.1 and g 0…5
+ * (the tabulated coefficients lie far inside).
+ */
+export const respirationSchema = z.discriminatedUnion(
+  "model",
+  [
+    strictObject({ model: z.literal("constant"), W_kg: quantity("respiration W_kg", "W/kg", 0, 2) }),
+    strictObject({ model: z.literal("becker-fricke"), f: quantity("respiration f", "", 0, 0.1, { exclusiveMin: true }), g: quantity("respiration g", "", 0, 5) }),
+  ],
+  { error: "respiration.model must be constant or becker-fricke" },
+);
+export type Respiration = z.infer<typeof respirationSchema>;
+
+/**
  * A product. Either `shape` (with `properties` including density, or `composition`) or the bare
  * lumped form of the first release (`mass_kg`, `properties.cp_J_kgK`, `area_m2`, `h_W_m2K`).
  */
@@ -71,6 +88,8 @@ export const productSchema = strictObject({
     area_m2: quantity("surface area", "m²", 0.0001, 100).optional(),
     /** bare form: surface heat-transfer coefficient, W/(m²·K), used when no pack is given */
     h_W_m2K: filmCoefficient("heat-transfer coefficient").optional(),
+    /** heat of respiration (fresh produce), W per kg of product */
+    respiration: respirationSchema.optional(),
   }).superRefine((p, ctx) => {
     if (!p.properties && !p.composition) {
       ctx.addIssue({ code: "custom", path: ["properties"], message: "give either properties or composition" });
@@ -90,12 +109,23 @@ export const productSchema = strictObject({
   });
 export type Product = z.infer<typeof productSchema>;
 
+/**
+ * A wall layer. With density and specific heat it stores heat (a node, not only a resistance).
+ */
 export const layerSchema = strictObject({
   name: z.string().trim().min(1, { message: "layer name is required" }).max(80),
   /** 10 µm (a film) to 1 m */
   thickness_m: quantity("thickness", "m", 0.00001, 1),
   /** 0.001 (vacuum panels are about 0.004) to 500 W/(m·K) (copper is about 400) */
   k_W_mK: quantity("conductivity", "W/(m·K)", 0.001, 500),
+  /** 1 (aerogel blanket, foams are 15–40) to 9000 kg/m³ (copper); optional, with cp_J_kgK */
+  density_kg_m3: quantity("layer density", "kg/m³", 1, 9000).optional(),
+  /** 100 to 5000 J/(kg·K) (EPS about 1300, cardboard about 1400); optional, with density_kg_m3 */
+  cp_J_kgK: quantity("layer specific heat", "J/(kg·K)", 100, 5000).optional(),
+}).superRefine((l, ctx) => {
+  if ((l.density_kg_m3 === undefined) !== (l.cp_J_kgK === undefined)) {
+    ctx.addIssue({ code: "custom", path: [l.density_kg_m3 === undefined ? "density_kg_m3" : "cp_J_kgK"], message: "give both density_kg_m3 and cp_J_kgK for a layer that stores heat, or neither" });
+  }
 });
 
 export const coolantSchema = strictObject({
@@ -108,6 +138,20 @@ export const coolantSchema = strictObject({
     cp_solid_J_kgK: quantity("solid specific heat", "J/(kg·K)", 100, 10000),
     cp_liquid_J_kgK: quantity("liquid specific heat", "J/(kg·K)", 100, 10000),
     initial_C: coolantCelsius("initial temperature"),
+    /** surface facing the inner air, 1 cm² to 10 m²; with it the coolant is its own node with its own film */
+    area_m2: quantity("coolant area", "m²", 0.0001, 10).optional(),
+    /** film coefficient on that surface, 0.01 to 2000 W/(m²·K); default the pack's inside film */
+    h_W_m2K: filmCoefficient("coolant film coefficient").optional(),
+    /** area in direct contact with the product, 1 cm² to 10 m², with the contact conductance 1 to 5000 W/(m²·K) */
+    contact_area_m2: quantity("contact area", "m²", 0.0001, 10).optional(),
+    h_contact_W_m2K: quantity("contact conductance", "W/(m²·K)", 1, 5000).optional(),
+  }).superRefine((c, ctx) => {
+    if (c.area_m2 === undefined && (c.h_W_m2K !== undefined || c.contact_area_m2 !== undefined)) {
+      ctx.addIssue({ code: "custom", path: ["area_m2"], message: "area_m2 is required for a coolant film or contact: without it the coolant sits at the inner-air temperature" });
+    }
+    if ((c.contact_area_m2 === undefined) !== (c.h_contact_W_m2K === undefined)) {
+      ctx.addIssue({ code: "custom", path: [c.contact_area_m2 === undefined ? "contact_area_m2" : "h_contact_W_m2K"], message: "give both contact_area_m2 and h_contact_W_m2K, or neither" });
+    }
   });
 export type Coolant = z.infer<typeof coolantSchema>;
 
@@ -142,6 +186,11 @@ export const packSchema = strictObject({
   });
 export type Pack = z.infer<typeof packSchema>;
 
-/** Model choice: "auto" picks lumped when Bi < 0.1, 1-D conduction otherwise. */
-export const modelChoiceSchema = z.enum(["auto", "lumped", "conduction"], { error: "model must be auto, lumped or conduction" });
+/**
+ * Model choice: "auto" picks lumped when Bi < 0.1 over the whole temperature range and the product does
+ * not cross its freezing range, conduction otherwise. "conduction" is 3-D for boxes and slabs, r–z for
+ * cylinders, radial for spheres; "conduction-1d" is the 1-D shortcut (slab across its thickness, long
+ * cylinder, sphere of equal V/A for a box), kept by name.
+ */
+export const modelChoiceSchema = z.enum(["auto", "lumped", "conduction", "conduction-1d"], { error: "model must be auto, lumped, conduction or conduction-1d" });
 export type ModelChoice = z.infer<typeof modelChoiceSchema>;

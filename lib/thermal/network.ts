@@ -2,9 +2,10 @@ import type { Pack } from "./definitions";
 import type { ResolvedProduct } from "./resolve";
 import type { Resistances } from "./resistances";
 import { volumeWithin } from "./geometry";
-import { coolantEnthalpy } from "./coolant";
+import { coolantEnthalpy, coolantStartEnthalpy } from "./coolant";
 import type { ChainNetwork } from "./solvers/chain";
 import type { ConductionGeometry } from "./geometry";
+import type { EnthalpyCurve } from "./properties/enthalpyCurve";
 
 export interface BuiltNetwork {
   net: ChainNetwork;
@@ -18,6 +19,8 @@ export interface BuiltNetwork {
   rHalfOuter_K_W: number;
   rOutside_K_W: number;
   initial_C: Float64Array;
+  /** initial enthalpy of every node, J (the coolant node's may lie inside its melting plateau) */
+  initialE_J: Float64Array;
   shells: number;
 }
 
@@ -39,15 +42,18 @@ export function buildNetwork(p: ResolvedProduct, pack: Pack | undefined, r: Resi
   const coolants = pack?.coolants.filter((c) => c.mass_kg > 0) ?? [];
   const hasCoolant = coolants.length > 0;
   const masses: number[] = [];
-  const curves = [];
+  const curves: EnthalpyCurve[] = [];
   const init: number[] = [];
+  let coolantE = Number.NaN;
   const g: number[] = [];
   if (hasCoolant) {
     masses.push(1);
-    curves.push(coolantEnthalpy(coolants));
-    // The node starts at the mass-weighted initial temperature of the coolants.
-    const m = coolants.reduce((s, c) => s + c.mass_kg, 0);
-    init.push(coolants.reduce((s, c) => s + c.mass_kg * c.initial_C, 0) / m);
+    const curve = coolantEnthalpy(coolants);
+    curves.push(curve);
+    // The node starts with the sum of each coolant's own enthalpy (not at the mass-weighted temperature,
+    // which loses the latent heat of a warm pack beside a frozen one).
+    coolantE = coolantStartEnthalpy(coolants, curve);
+    init.push(curve.tAt(coolantE));
   }
   const mat = p.material;
   let radii = new Float64Array(0);
@@ -118,6 +124,7 @@ export function buildNetwork(p: ResolvedProduct, pack: Pack | undefined, r: Resi
     rHalfOuter_K_W: rHalf,
     rOutside_K_W: outside,
     initial_C: Float64Array.from(init),
+    initialE_J: Float64Array.from(init, (t, i) => (i === 0 && hasCoolant ? coolantE : masses[i]! * curves[i]!.hAt(t))),
     shells: model === "lumped" ? 1 : shells,
   };
 }

@@ -21,7 +21,8 @@ function shapeOf(kind: Kind): Product["shape"] {
 function centre(kind: Kind, bi: number, shells?: number) {
   const t = Float64Array.from({ length: 721 }, (_, i) => i * 60);
   const product: Product = { name: "test body", shape: shapeOf(kind), properties: { density_kg_m3: rho, cp_J_kgK: cp, k_W_mK: k }, initial_C: 20, h_W_m2K: (bi * k) / r0 };
-  return { t, p: predict(product, undefined, t, new Float64Array(t.length), { model: "conduction", shells }) };
+  // the 1-D model by name: the series below are for the infinite slab and cylinder
+  return { t, p: predict(product, undefined, t, new Float64Array(t.length), { model: "conduction-1d", shells }) };
 }
 
 describe("1-D conduction (finite volumes) against the exact series", () => {

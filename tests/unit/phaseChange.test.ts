@@ -65,7 +65,8 @@ describe("phase change by the enthalpy method", () => {
     };
     const t = Float64Array.from({ length: 24 * 12 + 1 }, (_, i) => i * 300);
     const air = new Float64Array(t.length).fill(-30);
-    const p = predict(product, undefined, t, air, { model: "conduction" });
+    // Plank's slab is infinite: the 1-D model by name
+    const p = predict(product, undefined, t, air, { model: "conduction-1d" });
     const reached = t[p.core.findIndex((x) => x <= -10)]!;
     // Plank with ρ ≈ 1050 kg/m³ (frozen), L = 0.74·333.6 kJ/kg, k_frozen ≈ 1.4 W/m·K, ΔT = 28.3 K:
     const L = 0.74 * 333_600, a = 0.04, k = 1.4, h = 15, dT = 28.3, rho = 1050;

@@ -52,9 +52,10 @@ export function ReviewForm({ traces, products, packs, limits, initial }: { trace
         label="Model"
         initial={initial.model}
         options={[
-          { id: "auto", label: "auto: lumped when Bi < 0.1, else 1-D conduction" },
+          { id: "auto", label: "auto: lumped when Bi < 0.1 and no freezing range is crossed, else conduction" },
           { id: "lumped", label: "lumped capacitance" },
-          { id: "conduction", label: "1-D conduction" },
+          { id: "conduction", label: "conduction (3-D box, r–z cylinder, radial sphere)" },
+          { id: "conduction-1d", label: "1-D conduction shortcut" },
         ]}
         state={state}
       />

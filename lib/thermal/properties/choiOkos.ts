@@ -78,3 +78,10 @@ export function mixture(x: MassFractions, t_C: number): { density_kg_m3: number;
   }
   return { density_kg_m3: rho, cp_J_kgK: cp, k_W_mK: k };
 }
+
+/** ∫₀ᵗ cp dt, J/kg: the component's sensible enthalpy relative to 0 °C (exact for the polynomials). */
+export function componentEnthalpy(c: Component, t_C: number): number {
+  const poly = c === "water" ? (t_C >= 0 ? CP.waterAbove : CP.waterBelow) : CP[c];
+  const [a, b, k] = poly;
+  return 1000 * (a * t_C + (b * t_C * t_C) / 2 + (k * t_C ** 3) / 3);
+}

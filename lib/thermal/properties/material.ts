@@ -1,5 +1,5 @@
 import type { Composition } from "../definitions";
-import { mixture, type MassFractions } from "./choiOkos";
+import { componentEnthalpy, mixture, type Component, type MassFractions } from "./choiOkos";
 import { iceFraction, LATENT_FUSION_WATER_J_kg } from "./iceFraction";
 import { EnthalpyCurve } from "./enthalpyCurve";
 
@@ -37,14 +37,24 @@ export function constantMaterial(props: { cp_J_kgK: number; density_kg_m3?: numb
 }
 
 /**
- * Properties from composition with the Choi–Okos correlations. Above the initial freezing point the
- * water is liquid; below it, the ice fraction follows Tchigeov's equation and the enthalpy is
- *   h(T) = ∫ c_sensible dT + L·(x_wo − x_ice(T)),
- * with c_sensible the mass-weighted specific heat of solids, ice and unfrozen water (Choi–Okos) and
- * L = 333.6 kJ/kg. The apparent specific heat is dh/dT. Below −40 °C the correlations are extrapolated.
- * Without a freezing point, no freezing is modelled.
+ * Latent heat of fusion of water at t_C, J/kg: L₀ = 333.6 kJ/kg at 0 °C corrected by Kirchhoff's law,
+ * L(t) = L₀ + ∫₀ᵗ (cp_water − cp_ice) dt, with the Choi–Okos specific heats (supercooled-water fit below
+ * 0 °C). About 312 kJ/kg at −10 °C.
  */
-export function compositionMaterial(c: Composition, freezingPoint_C?: number): Material {
+export function latentHeatAt(t_C: number): number {
+  return LATENT_FUSION_WATER_J_kg + componentEnthalpy("water", t_C) - componentEnthalpy("ice", t_C);
+}
+
+/**
+ * Properties from composition with the Choi–Okos correlations. Above the initial freezing point the
+ * water is liquid; below it, the ice fraction follows Tchigeov's equation and the enthalpy is the sum
+ * of each component's own,
+ *   h(T) = Σ_solids xᵢ·Hᵢ(T) + (x_wo − x_ice(T))·H_water(T) + x_ice(T)·(H_ice(T) − L₀),
+ * with Hᵢ(T) = ∫₀ᵀ cpᵢ dt (Choi–Okos) and L₀ = 333.6 kJ/kg at 0 °C, so that the latent heat released at
+ * T is L(T) = H_water − H_ice + L₀ (Kirchhoff), not the 0 °C value. The apparent specific heat is dh/dT.
+ * Below −40 °C the correlations are extrapolated. Without a freezing point, no freezing is modelled.
+ */
+export function compositionMaterial(c: Composition, freezingPoint_C?: number, estimated = false): Material {
   const solids: MassFractions = { protein: c.protein, fat: c.fat, carbohydrate: c.carbohydrate, fiber: c.fiber, ash: c.ash };
   const xIce = (t: number) => (freezingPoint_C === undefined ? 0 : iceFraction(t, c.water, freezingPoint_C));
   const fractionsAt = (t: number): MassFractions => {
@@ -52,6 +62,12 @@ export function compositionMaterial(c: Composition, freezingPoint_C?: number): M
     return { ...solids, water: c.water - ice, ice };
   };
   const props = (t: number) => mixture(fractionsAt(t), t);
+  const hAt = (t: number) => {
+    let h = 0;
+    for (const [k, x] of Object.entries(solids) as Array<[Component, number]>) if (x) h += x * componentEnthalpy(k, t);
+    const ice = xIce(t);
+    return h + (c.water - ice) * componentEnthalpy("water", t) + ice * (componentEnthalpy("ice", t) - LATENT_FUSION_WATER_J_kg);
+  };
 
   // Tabulate h(T): fine steps near and below the freezing point where the curve bends, coarser above.
   const temps: number[] = [];
@@ -64,22 +80,14 @@ export function compositionMaterial(c: Composition, freezingPoint_C?: number): M
     if (t < tf && next > tf) {
       temps.push(tf);
       t = tf + fine;
+    } else if (t < 0 && next > 0) {
+      temps.push(0); // water's cp fit switches at 0 °C
+      t = next;
     } else t = next;
   }
   temps.push(T_MAX);
   const T = Float64Array.from(temps);
-  const H = new Float64Array(T.length);
-  // Sensible part by Simpson's rule on each interval; latent part exact from the ice fraction.
-  let sensible = 0;
-  const cSens = (t: number) => props(t).cp_J_kgK;
-  H[0] = LATENT_FUSION_WATER_J_kg * (c.water - xIce(T[0]!));
-  for (let i = 1; i < T.length; i++) {
-    const a = T[i - 1]!, b = T[i]!;
-    // Water's cp fit switches at 0 °C: integrate each side separately.
-    sensible += simpson(cSens, a, b);
-    H[i] = sensible + LATENT_FUSION_WATER_J_kg * (c.water - xIce(b));
-  }
-  const enthalpy = new EnthalpyCurve(T, H);
+  const enthalpy = new EnthalpyCurve(T, Float64Array.from(T, hAt));
   return {
     density: (t) => props(t).density_kg_m3,
     conductivity: (t) => props(t).k_W_mK,
@@ -92,12 +100,8 @@ export function compositionMaterial(c: Composition, freezingPoint_C?: number): M
     ice: xIce,
     description:
       freezingPoint_C === undefined
-        ? "Choi–Okos (1986) from composition, unfrozen"
-        : `Choi–Okos (1986) from composition; ice fraction by Tchigeov's equation below ${freezingPoint_C} °C`,
+        ? "Choi–Okos (1986) from composition, unfrozen (no freezing point)"
+        : `Choi–Okos (1986) from composition; ice fraction by Tchigeov's equation below ${Number(freezingPoint_C.toFixed(2))} °C${estimated ? " (estimated)" : ""}`,
   };
 }
 
-function simpson(f: (t: number) => number, a: number, b: number): number {
-  if (a < 0 && b > 0) return simpson(f, a, 0) + simpson(f, 0, b);
-  return ((b - a) / 6) * (f(a) + 4 * f((a + b) / 2) + f(b));
-}

@@ -222,7 +222,12 @@ function flowsOf(g: Float64Array, gAmb: number, T: Float64Array, air: number, f:
   return qb;
 }
 
-function runLinear(net: ChainNetwork, t_s: Float64Array, air_C: Float64Array, initial_C: Float64Array, maxStep_s: number): ChainRun {
+/** Equal substeps in interval k: the given count, else enough that none is longer than maxStep_s. */
+function substepsIn(k: number, span: number, maxStep_s: number, substeps?: Int32Array): number {
+  return substeps ? substeps[k - 1]! : Math.max(1, Math.ceil(span / maxStep_s - 1e-9));
+}
+
+function runLinear(net: ChainNetwork, t_s: Float64Array, air_C: Float64Array, initial_C: Float64Array, maxStep_s: number, substeps?: Int32Array): ChainRun {
   const n = net.mass.length;
   const cap = Float64Array.from(net.mass, (m, i) => m / net.curves[i]!.constantSlope);
   const stepper = new LinearStepper(cap, net.g, net.gAmbient);
@@ -235,7 +240,7 @@ function runLinear(net: ChainNetwork, t_s: Float64Array, air_C: Float64Array, in
   let steps = 0;
   for (let k = 1; k < t_s.length; k++) {
     const span = t_s[k]! - t_s[k - 1]!;
-    const m = Math.max(1, Math.ceil(span / maxStep_s - 1e-9));
+    const m = substepsIn(k, span, maxStep_s, substeps);
     const dt = span / m;
     const a0 = air_C[k - 1]!, a1 = air_C[k]!;
     for (let j = 0; j < m; j++) {
@@ -248,17 +253,18 @@ function runLinear(net: ChainNetwork, t_s: Float64Array, air_C: Float64Array, in
 }
 
 /**
- * Integrates the network through the samples with internal steps no longer than maxStep_s, the air
- * linear between samples. A step whose Newton iteration fails is split in two (up to 2⁻¹⁰ of it).
+ * Integrates the network through the samples with internal steps no longer than maxStep_s (or exactly
+ * `substeps[k]` equal steps in interval k, when given), the air linear between samples. A step whose Newton iteration fails is split in two (up to 2⁻¹⁰ of it).
  */
-export function runChain(net: ChainNetwork, t_s: Float64Array, air_C: Float64Array, initial_C: Float64Array, maxStep_s: number): ChainRun {
+export function runChain(net: ChainNetwork, t_s: Float64Array, air_C: Float64Array, initial_C: Float64Array, maxStep_s: number, substeps?: Int32Array, initialE_J?: Float64Array): ChainRun {
   if (net.linear && !net.updateConductances && net.curves.every((c) => Number.isFinite(c.constantSlope))) {
-    return runLinear(net, t_s, air_C, initial_C, maxStep_s);
+    return runLinear(net, t_s, air_C, initial_C, maxStep_s, substeps);
   }
   const n = net.mass.length;
   const ns = t_s.length;
   const ws = new Workspace(n);
-  for (let i = 0; i < n; i++) ws.E[i] = net.mass[i]! * net.curves[i]!.hAt(initial_C[i]!);
+  // an initial enthalpy, when given, can lie inside a melting plateau (a partly melted coolant)
+  for (let i = 0; i < n; i++) ws.E[i] = initialE_J ? initialE_J[i]! : net.mass[i]! * net.curves[i]!.hAt(initial_C[i]!);
   const out = new Float64Array(ns * n);
   temperatures(net, ws.E, ws.T);
   out.set(ws.T, 0);
@@ -286,7 +292,7 @@ export function runChain(net: ChainNetwork, t_s: Float64Array, air_C: Float64Arr
 
   for (let k = 1; k < ns; k++) {
     const span = t_s[k]! - t_s[k - 1]!;
-    const m = Math.max(1, Math.ceil(span / maxStep_s - 1e-9));
+    const m = substepsIn(k, span, maxStep_s, substeps);
     const dt = span / m;
     const a0 = air_C[k - 1]!, a1 = air_C[k]!;
     for (let j = 0; j < m; j++) advance(dt, a0 + ((a1 - a0) * j) / m, a0 + ((a1 - a0) * (j + 1)) / m, 0);
