@@ -31,7 +31,7 @@ describe("definition schemas: unknown fields", () => {
   });
   it("packSchema, limitSetSchema, profileSchema and uncertaintySpecSchema name unknown fields with their path", () => {
     expect(issues(packSchema.safeParse({ ...pack, coolants: [{ ...gel, mass_g: 400 }] }))).toContainEqual(["coolants.0", "unknown field 'mass_g' (did you mean 'mass_kg'?)"]);
-    expect(issues(packSchema.safeParse({ ...pack, layers: [{ ...pack.layers[0], density_kg_m3: 20 }] }))).toContainEqual(["layers.0", "unknown field 'density_kg_m3'"]);
+    expect(issues(packSchema.safeParse({ ...pack, layers: [{ ...pack.layers[0], emissivity: 0.9 }] }))).toContainEqual(["layers.0", "unknown field 'emissivity'"]); // emissivity belongs to the pack, not a layer
     expect(issues(limitSetSchema.safeParse({ name: "l", rules: [{ ...rule, max_minutes: 5 }] }))).toContainEqual(["rules.0", "unknown field 'max_minutes'"]);
     expect(issues(limitSetSchema.safeParse({ name: "l", rules: [rule], accuracy: 0.5 }))).toContainEqual(["", "unknown field 'accuracy'"]);
     expect(issues(profileSchema.safeParse({ name: "p", initial_C: 4, segments: [{ kind: "hold", C: 4, duration_min: 10, note: "x" }] }))).toContainEqual(["segments.0", "unknown field 'note'"]);
