@@ -63,6 +63,8 @@ test("the sizing form keeps every value after a refused range", async ({ page })
 
 test("Monte Carlo shows a filled 5–95 % band with the nominal line and the limit lines on top", async ({ page }) => {
   await chooseDesignInputs(page, "Harrowgate tote design (core rules of the example plan)");
+  // the uncertain input in words: the EPS wall's conductivity, ±10 % (normal)
+  await expect(page.getByLabel("uncertain input 1").locator("option:checked")).toHaveText("EPS wall conductivity, W/(m·K)");
   await page.getByTestId("mc-samples").fill("100");
   await page.getByRole("button", { name: "Run" }).click();
   const result = page.getByTestId("mc-result");

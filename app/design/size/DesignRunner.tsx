@@ -8,6 +8,7 @@ import type { SizingResult } from "@/lib/design/sizing";
 import { independentRules, type RuleNote } from "@/lib/design/ruleNotes";
 import { SizeOutcome } from "./SizeOutcome";
 import { limitLines } from "./limitLines";
+import { inputLabel } from "./inputLabel";
 import { num } from "@/app/components/NumberField";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { Caution } from "@/app/components/Caution";
@@ -127,7 +128,7 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
           <tbody>
             {inputs.map((r, i) => (
               <tr key={i}>
-                <td><select aria-label={`uncertain input ${i + 1}`} value={r.path} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, path: e.target.value } : x)))}>{paths.map((p) => <option key={p} value={p}>{p}</option>)}</select></td>
+                <td><select aria-label={`uncertain input ${i + 1}`} value={r.path} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, path: e.target.value } : x)))}>{paths.map((p) => <option key={p} value={p}>{inputLabel(p, product, pack)}</option>)}</select></td>
                 <td><input aria-label={`uncertainty ${i + 1}`} value={r.plusminus} size={6} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, plusminus: e.target.value } : x)))} /></td>
                 <td><input type="checkbox" aria-label={`in percent ${i + 1}`} checked={r.percent} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, percent: e.target.checked } : x)))} /></td>
                 <td><select value={r.distribution} onChange={(e) => setInputs(inputs.map((x, j) => (j === i ? { ...x, distribution: e.target.value as InputRow["distribution"] } : x)))}><option value="normal">normal</option><option value="uniform">uniform</option></select></td>
