@@ -81,6 +81,7 @@ test("Monte Carlo shows a filled 5–95 % band with the nominal line and the lim
   expect(order.indexOf("band-core-5-95-band")).toBeLessThan(order.indexOf("limit-line"));
   expect(order.indexOf("limit-line")).toBeLessThan(order.indexOf("series-core-nominal-inputs"));
   await result.screenshot({ path: "test-results/monte-carlo.png" });
+  await page.screenshot({ path: "test-results/monte-carlo-page.png", fullPage: true });
 });
 
 test("the calibration form keeps every value after a refused factor, and its checkboxes sit beside their words", async ({ page }) => {
