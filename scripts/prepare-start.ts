@@ -25,6 +25,11 @@ async function main(): Promise<void> {
   const { loadDemoIfEmpty } = await import("../lib/services/demo");
   const demo = await loadDemoIfEmpty();
   console.log(`corelag: database ${url} migrated; demo ${demo === "loaded" ? "loaded" : "already present or not needed"}`);
+  // The audit signing key beside the database (created now if there is none), and content hashes for rows
+  // recorded before entries carried them (once, after upgrading).
+  const { prepareRecords } = await import("../lib/services/verify");
+  const records = await prepareRecords();
+  console.log(`corelag: audit signing key ${records.fingerprint.slice(0, 16)}… (${records.source})${records.sealed ? `; sealed ${records.sealed} rows recorded before content hashes` : ""}`);
   const stamp = sourceStamp();
   const stampFile = path.join(".next", "corelag-source-stamp");
   const built = existsSync(path.join(".next", "BUILD_ID")) && existsSync(stampFile) && readFileSync(stampFile, "utf8") === stamp;

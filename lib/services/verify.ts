@@ -2,7 +2,7 @@
 // row against its latest audit entry, an optional external anchor, and (CLI) re-running stored reviews.
 import { readRecordSnapshot } from "../db/recordSnapshot";
 import { loadSigningKey, SigningKeyError } from "../db/signingKey";
-import { recordAnchor } from "../db/anchorLog";
+import { lastRecordedAnchor, recordAnchor } from "../db/anchorLog";
 import { rotateSigningKey, sealUnsealedRows } from "../db/audit";
 import { checkRecords, type ChainHead, type Finding } from "../review/records";
 import { checkAnchor, anchorOf, type Anchor } from "../review/anchor";
@@ -118,4 +118,35 @@ export async function rotateKey(actor = "cli"): Promise<{ ok: true; from: string
 /** `corelag seal`: content hashes for rows whose entries predate them; returns how many rows were sealed. */
 export async function sealRows(actor = "cli"): Promise<number> {
   return sealUnsealedRows(actor);
+}
+
+/** At start: the signing key exists (created beside the database if needed) and older rows are sealed. */
+export async function prepareRecords(): Promise<{ fingerprint: string; source: string; sealed: number }> {
+  const key = loadSigningKey({ create: true })!;
+  return { fingerprint: key.fingerprint, source: key.source, sealed: await sealUnsealedRows("system") };
+}
+
+export interface AnchorStatus {
+  /** the newest anchor `corelag anchor` noted beside the database, if any */
+  anchor: Anchor | null;
+  /** does the chain still contain it, signed by the same key? */
+  contained: boolean | null;
+  findings: Finding[];
+  head: ChainHead | null;
+  key: KeyStatus;
+  checked_at: string;
+}
+
+/** The audit page's anchor line: the last anchor taken here, checked against the chain as it is now. */
+export function lastAnchorStatus(): AnchorStatus {
+  let anchor: Anchor | null = null;
+  try {
+    anchor = lastRecordedAnchor();
+  } catch {
+    anchor = null;
+  }
+  // no rows are read (empty scope): only the chain, its signatures and the anchor
+  const r = checkStoredRecords({ scope: new Set(), storageChecks: false, ...(anchor ? { anchor } : {}) });
+  const anchorFindings = r.findings.filter((f) => f.kind.startsWith("anchor-"));
+  return { anchor, contained: anchor ? anchorFindings.length === 0 : null, findings: anchorFindings, head: r.head, key: r.key, checked_at: r.checked_at };
 }

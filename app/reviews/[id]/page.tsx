@@ -5,6 +5,7 @@ import { getTrace } from "@/lib/db/traces";
 import { HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "./parts";
 import { RenameForm, SignOffForm } from "./SignOffForm";
 import { RecheckButton } from "./RecheckButton";
+import { RecordVerified } from "./RecordVerified";
 import { lastAuditEntry } from "@/lib/db/auditQueries";
 
 export const dynamic = "force-dynamic";
@@ -28,6 +29,7 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
         <a href={`/reviews/${id}/export/review.json`} data-testid="export-json">whole review (JSON)</a>
       </p>
       <ReviewHeader review={review} />
+      <RecordVerified review={review} />
       <ReviewChart review={review} series={trace.series} />
       <div className="grid2">
         <ScreeningCard review={review} />

@@ -3,6 +3,7 @@ import { getReview } from "@/lib/db/reviews";
 import { getTrace } from "@/lib/db/traces";
 import { HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "../parts";
 import { PrintButton } from "./PrintButton";
+import { RecordVerified } from "../RecordVerified";
 import { DefinitionParameters } from "@/app/components/DefinitionParameters";
 
 export const dynamic = "force-dynamic";
@@ -20,6 +21,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
       <h1>Corelag review report: {review.title}</h1>
       <p className="muted">Report generated {new Date().toISOString().slice(0, 16).replace("T", " ")} UTC from review {review.id}.</p>
       <ReviewHeader review={review} />
+      <RecordVerified review={review} printing />
       <ReviewChart review={review} series={trace.series} />
       <section className="card" data-testid="report-parameters">
         <h2 style={{ marginTop: 0 }}>Inputs used</h2>
