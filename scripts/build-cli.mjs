@@ -1,6 +1,7 @@
-// Bundles the command line ahead of time (esbuild) so that it starts with plain node and no TypeScript
-// compiler: dist/cli/corelag.mjs plus lazily loaded chunks. Run by postinstall, by `npm run build`, and by
-// scripts/corelag.mjs whenever the source is newer than the bundle.
+// Bundles ahead of time (esbuild), so that they run with plain node and no TypeScript compiler:
+// - the command line: dist/cli/corelag.mjs plus lazily loaded chunks;
+// - the engine worker of the server's pool: dist/worker/reviewWorker.mjs (lib/services/enginePool.ts).
+// Run by postinstall, by `npm run build`, and by scripts/corelag.mjs whenever the source is newer.
 import { build } from "esbuild";
 import { readFileSync, rmSync } from "node:fs";
 import path from "node:path";
@@ -8,6 +9,7 @@ import { fileURLToPath } from "node:url";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 export const OUT_DIR = path.join(ROOT, "dist", "cli");
+const WORKER_DIR = path.join(ROOT, "dist", "worker");
 
 function engineVersion() {
   const text = readFileSync(path.join(ROOT, "lib", "review", "runReview.ts"), "utf8");
@@ -36,6 +38,19 @@ export async function buildCli() {
       __CORELAG_VERSION__: JSON.stringify(pkg.version),
       __CORELAG_ENGINE_VERSION__: JSON.stringify(engineVersion()),
     },
+    logLevel: "error",
+    legalComments: "none",
+  });
+  rmSync(WORKER_DIR, { recursive: true, force: true });
+  await build({
+    entryPoints: { reviewWorker: path.join(ROOT, "lib", "services", "workers", "reviewWorker.ts") },
+    outdir: WORKER_DIR,
+    bundle: true,
+    format: "esm",
+    platform: "node",
+    target: "node20",
+    outExtension: { ".js": ".mjs" },
+    banner: { js: "import { createRequire as __corelagRequire } from 'node:module'; const require = __corelagRequire(import.meta.url);" },
     logLevel: "error",
     legalComments: "none",
   });

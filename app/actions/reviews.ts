@@ -3,7 +3,8 @@
 import { redirect } from "next/navigation";
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
-import { runAndStoreReview, runReviewRequestSchema, signOff, signOffSchema } from "@/lib/services/reviews";
+import { runReviewRequestSchema, signOff, signOffSchema } from "@/lib/services/reviews";
+import { startReviewRun, waitForRun } from "@/lib/services/runs";
 import { renameReview } from "@/lib/db/reviews";
 import { fieldErrors, formValues, textField, type FormState } from "@/lib/validation";
 
@@ -34,9 +35,13 @@ export async function startReview(_prev: FormState, form: FormData): Promise<For
     correctsId: textField(form, "correctsId") || undefined,
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
-  const outcome = await runAndStoreReview(parsed.data);
-  if (!outcome.ok) return outcome.field === "form" ? { message: outcome.message, values } : { fieldErrors: { [outcome.field]: outcome.message }, values };
-  redirect(`/reviews/${outcome.reviewId}`);
+  // The engine runs in the worker pool; a quick run opens its review directly, a long one its progress page.
+  const started = await startReviewRun(parsed.data, "web");
+  if (!started.ok) return started.field === "form" ? { message: started.message, values } : { fieldErrors: { [started.field]: started.message }, values };
+  const run = await waitForRun(started.run.id, 2_000);
+  if (run?.status === "failed") return { message: run.message, values };
+  if (run?.status === "done" && run.reviewId) redirect(`/reviews/${run.reviewId}`);
+  redirect(`/runs/${started.run.id}`);
 }
 
 export async function signOffReview(_prev: FormState, form: FormData): Promise<FormState> {

@@ -9,8 +9,9 @@ import { loadSigningKey, prepareKeyRotation, SigningKeyError, type SigningKey } 
 export type Tx = Prisma.TransactionClient;
 
 export interface AuditEvent {
-  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal";
-  entity: "trace" | "definition" | "review" | "key";
+  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel";
+  /** "run": a background run that stored nothing (cancelled); its entityId is the run's id */
+  entity: "trace" | "definition" | "review" | "key" | "run";
   entityId: string;
   /** who did it: the reviewer's name at sign-off, "web" or "cli" otherwise (there are no accounts yet) */
   actor: string;

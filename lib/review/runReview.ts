@@ -116,14 +116,19 @@ export function unsupportedRule(limits: LimitSet, hasProbe = false): { index: nu
 }
 
 /** Runs the model and the rules over one trace. Pure and deterministic: same inputs, same bits. */
-export function runReview(input: ReviewInput): ReviewComputation {
+/** Optional hooks of a long run: progress of the Monte Carlo part, as a fraction of 1. */
+export interface ReviewHooks {
+  onProgress?: (fraction: number) => void;
+}
+
+export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewComputation {
   const { series, product, pack, limits } = input;
   const options = input.options ?? { model: "auto" };
   const gaps = findGaps(series, input.gapMultiple);
   const air = bridgeGaps(series);
   const pred = predict(product, pack, series.t_s, air, { model: options.model });
   const tau = pred.screening.tau_s;
-  const mc = options.uncertainty ? monteCarlo({ t_s: series.t_s, air_C: air }, product, pack, limits, options.uncertainty, options.model) : null;
+  const mc = options.uncertainty ? monteCarlo({ t_s: series.t_s, air_C: air }, product, pack, limits, options.uncertainty, options.model, { onProgress: hooks.onProgress }) : null;
   const modelUncertainty = mc && options.uncertainty!.use_in_guard_band ? mc.half_width_K : (options.model_uncertainty_K ?? 0);
 
   const airSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s]);

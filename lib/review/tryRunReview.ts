@@ -1,4 +1,4 @@
-import { runReview, type ReviewComputation, type ReviewInput } from "./runReview";
+import { runReview, type ReviewComputation, type ReviewHooks, type ReviewInput } from "./runReview";
 
 export type ReviewAttempt = { ok: true; computation: ReviewComputation } | { ok: false; message: string };
 
@@ -8,10 +8,10 @@ export type ReviewAttempt = { ok: true; computation: ReviewComputation } | { ok:
  * increase). The caller reports that as a named failure with the engine's own words, and stores nothing.
  * A result with a non-finite predicted temperature is refused the same way rather than stored.
  */
-export function tryRunReview(input: ReviewInput): ReviewAttempt {
+export function tryRunReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewAttempt {
   let computation: ReviewComputation;
   try {
-    computation = runReview(input);
+    computation = runReview(input, hooks);
   } catch (e) {
     return { ok: false, message: `the engine could not compute this review: ${e instanceof Error ? e.message : String(e)}` };
   }

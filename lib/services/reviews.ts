@@ -2,7 +2,7 @@ import { z } from "zod";
 import { storedRefusal } from "./storedRefusal";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { limitSetSchema, type LimitSet } from "../exposure/limits";
-import { runReview, tryRunReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewOptions } from "../review";
+import { runReview, tryRunReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewComputation, type ReviewInput, type ReviewOptions } from "../review";
 import { importTraceFile, optionsFromSettings, sha256Hex } from "../trace";
 import { getTrace, getTraceOriginal } from "../db/traces";
 import { getDefinition } from "../db/definitions";
@@ -34,8 +34,20 @@ export type RunReviewRequest = z.input<typeof runReviewRequestSchema>;
 type Field = "title" | "traceId" | "productId" | "packId" | "limitsId" | "model" | "windowStart" | "windowEnd" | "correctsId" | "uncertainty" | "form";
 export type RunReviewOutcome = { ok: true; reviewId: string } | { ok: false; field: Field; message: string };
 
-/** Loads the exact stored inputs, runs the engine and stores the review pointing at those versions. */
-export async function runAndStoreReview(request: RunReviewRequest, actor = "web"): Promise<RunReviewOutcome> {
+/** A review ready to run: the engine's input and the exact stored versions it was loaded from. */
+export interface PreparedReview {
+  title: string;
+  input: ReviewInput;
+  traceId: string;
+  productId: string;
+  packId?: string;
+  limitsId: string;
+  correctsId?: string;
+}
+export type PrepareOutcome = { ok: true; prepared: PreparedReview } | { ok: false; field: Field; message: string };
+
+/** Loads and re-validates the exact stored inputs of a review request; refuses by field what cannot run. */
+export async function prepareReview(request: RunReviewRequest): Promise<PrepareOutcome> {
   const req = runReviewRequestSchema.parse(request);
   const trace = await getTrace(req.traceId);
   if (!trace) return { ok: false, field: "traceId", message: "that trace does not exist" };
@@ -86,23 +98,44 @@ export async function runAndStoreReview(request: RunReviewRequest, actor = "web"
     }
     options.window = { start_s, end_s };
   }
-  const attempt = tryRunReview({ series: trace.series, product, pack, limits, options, gapMultiple: trace.meta.importSettings.gapMultiple });
-  if (!attempt.ok) return { ok: false, field: "form", message: attempt.message };
-  const comp = attempt.computation;
-  const reviewId = await createReview({
-    title: req.title,
-    traceId: trace.meta.id,
-    productId: productDef.id,
-    packId: packDef?.id,
-    limitsId: limitsDef.id,
-    options: options as unknown as Record<string, unknown>,
+  return {
+    ok: true,
+    prepared: {
+      title: req.title,
+      input: { series: trace.series, product, pack, limits, options, gapMultiple: trace.meta.importSettings.gapMultiple },
+      traceId: trace.meta.id,
+      productId: productDef.id,
+      packId: packDef?.id,
+      limitsId: limitsDef.id,
+      correctsId: req.correctsId,
+    },
+  };
+}
+
+/** Stores a computed review with its run audit entry (one transaction). */
+export async function storeReview(p: PreparedReview, comp: ReviewComputation, actor: string): Promise<string> {
+  return createReview({
+    title: p.title,
+    traceId: p.traceId,
+    productId: p.productId,
+    packId: p.packId,
+    limitsId: p.limitsId,
+    options: p.input.options as unknown as Record<string, unknown>,
     engineVersion: ENGINE_VERSION,
     computation: comp,
     resultSha256: resultHash(comp.result, comp.core_C),
-    correctsId: req.correctsId,
+    correctsId: p.correctsId,
     actor,
   });
-  return { ok: true, reviewId };
+}
+
+/** Loads the exact stored inputs, runs the engine in this thread and stores the review (CLI, demo, tests). */
+export async function runAndStoreReview(request: RunReviewRequest, actor = "web"): Promise<RunReviewOutcome> {
+  const ready = await prepareReview(request);
+  if (!ready.ok) return ready;
+  const attempt = tryRunReview(ready.prepared.input);
+  if (!attempt.ok) return { ok: false, field: "form", message: attempt.message };
+  return { ok: true, reviewId: await storeReview(ready.prepared, attempt.computation, actor) };
 }
 
 /**
