@@ -49,10 +49,10 @@ describe("configuration", () => {
     );
     expect(store.status, store.stderr).toBe(0);
 
-    // 3. The CLI's verify sees that trace's audit entry.
-    const verify = spawnSync(process.execPath, [path.join(ROOT, "node_modules", "tsx", "dist", "cli.mjs"), "lib/cli/main.ts", "verify"], { cwd: ROOT, env, encoding: "utf8" });
+    // 3. The CLI's verify sees that database's chain: the signing key's entry, then the import.
+    const verify = spawnSync(process.execPath, [path.join(ROOT, "dist", "cli", "corelag.mjs"), "verify"], { cwd: ROOT, env, encoding: "utf8" });
     expect(verify.status, verify.stderr).toBe(0);
-    expect(JSON.parse(verify.stdout).chain.entries).toBe(1);
+    expect(JSON.parse(verify.stdout).chain.entries).toBe(2);
 
     // 4. The server lists it.
     const server = await startServer({ ...env, DATABASE_URL: undefined });
