@@ -1,13 +1,15 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import "./globals.css";
+import { ZonePicker } from "@/app/components/ZonePicker";
+import { chosenZone } from "@/app/displayZone";
 
 export const metadata: Metadata = {
   title: "Corelag",
   description: "Product core temperature from cold-chain logger traces",
 };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
   return (
     <html lang="en">
       <body>
@@ -22,6 +24,7 @@ export default function RootLayout({ children }: { children: React.ReactNode }) 
             <Link href="/design">Design</Link>
             <Link href="/audit">Audit log</Link>
           </nav>
+          <ZonePicker chosen={await chosenZone()} />
         </header>
         <main>{children}</main>
       </body>

@@ -16,7 +16,7 @@ export function NumberField({
         aria-invalid={error ? true : undefined}
         data-testid={testId}
       />
-      {error && <span className="field-error">{error}</span>}
+      {error && <span className="field-error" data-testid={testId ? `error-${testId}` : undefined}>{error}</span>}
     </label>
   );
 }

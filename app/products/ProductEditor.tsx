@@ -152,10 +152,10 @@ export function ProductEditor({ editing, packs }: { editing?: { id: string; line
         <fieldset>
           <legend>Thermal properties</legend>
           <label style={{ fontWeight: 400 }}>
-            <input type="radio" checked={s.source !== "composition"} onChange={() => set("source")("properties")} /> given values
+            <input type="radio" name="source" value="properties" checked={s.source !== "composition"} data-testid="source-properties" onChange={() => set("source")("properties")} /> given values
           </label>
           <label style={{ fontWeight: 400 }}>
-            <input type="radio" checked={s.source === "composition"} onChange={() => set("source")("composition")} data-testid="source-composition" /> from composition (Choi–Okos)
+            <input type="radio" name="source" value="composition" checked={s.source === "composition"} onChange={() => set("source")("composition")} data-testid="source-composition" /> from composition (Choi–Okos)
           </label>
           {s.source !== "composition" ? (
             <div className="stack">

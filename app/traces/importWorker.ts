@@ -2,14 +2,14 @@
 import { importTraceFile } from "@/lib/trace/importFile";
 import { TraceImportError } from "@/lib/trace/errors";
 import type { ImportOptions } from "@/lib/trace/settings";
+import { displaySeries } from "@/lib/display/series";
 
 self.onmessage = async (e: MessageEvent<{ bytes: ArrayBuffer; options: ImportOptions }>) => {
   try {
     const r = await importTraceFile(new Uint8Array(e.data.bytes), e.data.options, (fraction) => self.postMessage({ type: "progress", fraction }));
-    // A thinned series is enough for the preview chart (at most about 2,000 points).
+    // The preview chart draws the extremes of every pixel column (lib/display), so no spike vanishes.
     const n = r.series.t_s.length;
-    const step = Math.max(1, Math.floor(n / 2000));
-    const pick = (a: Float64Array) => Array.from({ length: Math.ceil(n / step) }, (_, i) => a[i * step]!);
+    const chart = displaySeries({ t_s: r.series.t_s, channels: { air: r.series.air_C, probe: r.series.probe_C } });
     self.postMessage({
       type: "done",
       result: {
@@ -22,7 +22,7 @@ self.onmessage = async (e: MessageEvent<{ bytes: ArrayBuffer; options: ImportOpt
         gaps: r.gaps.length,
         preview: r.preview,
         first: Array.from({ length: Math.min(10, n) }, (_, i) => ({ t_s: r.series.t_s[i]!, air_C: r.series.air_C[i]!, probe_C: r.series.probe_C?.[i] ?? null })),
-        chart: { t_s: pick(r.series.t_s), air_C: pick(r.series.air_C), probe_C: r.series.probe_C ? pick(r.series.probe_C) : null },
+        chart: { t_s: chart.times_ms.map((t) => t / 1000), air_C: chart.channels.air!, probe_C: chart.channels.probe ?? null },
       },
     });
   } catch (err) {

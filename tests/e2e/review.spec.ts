@@ -44,7 +44,7 @@ test("upload the demo trace, define a product and a limit set, run a review, see
   await page.getByLabel("Title").fill("E2E route 7");
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByRole("heading", { name: "Review: E2E route 7" })).toBeVisible();
-  await expect(page.getByTestId("tau")).toHaveText("2 h 54 min (10452 s)");
+  await expect(page.getByTestId("tau")).toHaveText("2 h 54 min (10,452 s)");
   await expect(page.getByTestId("temperature-chart")).toBeVisible();
   await expect(page.getByTestId("series-core-predicted-")).toHaveAttribute("d", /^M/);
   await expect(page.getByTestId("limit-line")).toHaveCount(1);

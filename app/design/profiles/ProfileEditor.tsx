@@ -77,7 +77,7 @@ export function ProfileEditor({ examples, editing }: { examples: readonly Profil
       {series && (
         <TemperatureChart title="Profile preview" height={200} times_ms={Array.from(series.t_s, (t) => t * 1000)} lines={[{ label: `Air (${series.t_s.length.toLocaleString("en")} samples)`, color: "var(--air)", values: Array.from(series.air_C) }]} />
       )}
-      {Object.entries(state.fieldErrors ?? {}).map(([k, m]) => <p key={k} className="field-error">{k}: {m}</p>)}
+      {Object.entries(state.fieldErrors ?? {}).map(([k, m]) => <p key={k} className="field-error" data-testid="server-error">{k}: {m}</p>)}
       <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="profile" />
     </ActionForm>
   );

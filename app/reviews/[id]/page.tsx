@@ -2,6 +2,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getReview } from "@/lib/db/reviews";
 import { getTrace } from "@/lib/db/traces";
+import { displayZone } from "@/app/displayZone";
 import { HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "./parts";
 import { RenameForm, SignOffForm } from "./SignOffForm";
 import { RecheckButton } from "./RecheckButton";
@@ -17,6 +18,7 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
   const trace = await getTrace(review.traceId);
   if (!trace) notFound();
   const lastCheck = await lastAuditEntry(id, "verify");
+  const zone = await displayZone((review.trace.importSettings as { timeZone?: string } | null)?.timeZone);
   const q = new URLSearchParams({ trace: review.traceId, product: review.productId, limits: review.limitsId, model: String((review.options as { model?: string }).model ?? "auto") });
   if (review.packId) q.set("pack", review.packId);
   return (
@@ -28,14 +30,14 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
         <a href={`/reviews/${id}/export/findings.csv`} data-testid="export-findings">findings (CSV)</a>,{" "}
         <a href={`/reviews/${id}/export/review.json`} data-testid="export-json">whole review (JSON)</a>
       </p>
-      <ReviewHeader review={review} />
+      <ReviewHeader review={review} zone={zone} />
       <RecordVerified review={review} />
-      <ReviewChart review={review} series={trace.series} />
+      <ReviewChart review={review} series={trace.series} zone={zone} />
       <div className="grid2">
         <ScreeningCard review={review} />
-        <HistoryCard review={review} />
+        <HistoryCard review={review} zone={zone} />
       </div>
-      <RulesCard review={review} />
+      <RulesCard review={review} zone={zone} />
       <section className="card no-print">
         <h2 style={{ marginTop: 0 }}>Re-check</h2>
         <RecheckButton reviewId={id} last={lastCheck ? { seq: lastCheck.seq, at: lastCheck.at.toISOString(), reproduced: (lastCheck.details as { reproduced?: boolean } | null)?.reproduced === true } : null} />

@@ -7,12 +7,14 @@ import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { StatusBadge } from "@/app/components/StatusBadge";
 import { Caution } from "@/app/components/Caution";
 import { ResistanceTable } from "@/app/products/ProductEditor";
+import { formatSpan, formatTime } from "@/lib/display/time";
+import { displaySeries } from "@/lib/display/series";
+import { fixed, sig, sigTrim } from "@/lib/display/numbers";
 
-const fmtTime = (iso: string) => iso.slice(0, 16).replace("T", " ");
 const OUTCOME_WORDS: Record<string, string> = { accept: "accept", hold: "hold for review", reject: "reject" };
 
 /** Outcome, caution, inputs with their hashes, and the sign-off. Shared by the review page and its printed report. */
-export function ReviewHeader({ review }: { review: StoredReview }) {
+export function ReviewHeader({ review, zone }: { review: StoredReview; zone: string }) {
   const r = review.result;
   return (
     <section className="card">
@@ -20,7 +22,7 @@ export function ReviewHeader({ review }: { review: StoredReview }) {
         Suggested outcome <strong className={`status-${r.outcome}`} data-testid="outcome-value">{OUTCOME_WORDS[r.outcome]}</strong>
         {review.status === "signed" && (
           <span data-testid="decision">
-            · decision <strong className={`status-${review.decision}`}>{OUTCOME_WORDS[review.decision ?? ""]}</strong> by {review.signedBy}, {review.signedAt?.toISOString().slice(0, 16).replace("T", " ")} UTC
+            · decision <strong className={`status-${review.decision}`}>{OUTCOME_WORDS[review.decision ?? ""]}</strong> by {review.signedBy}, {review.signedAt ? formatTime(review.signedAt, zone) : ""}
           </span>
         )}
       </div>
@@ -29,15 +31,15 @@ export function ReviewHeader({ review }: { review: StoredReview }) {
       <dl className="facts">
         <dt>Trace</dt>
         <dd>
-          <Link href={`/traces/${review.trace.id}`}>{review.trace.name}</Link> ({review.trace.fileName}, {review.trace.sampleCount} samples, {fmtTime(review.trace.startAt.toISOString())} – {fmtTime(review.trace.endAt.toISOString())} UTC)
+          <Link href={`/traces/${review.trace.id}`}>{review.trace.name}</Link> ({review.trace.fileName}, {review.trace.sampleCount.toLocaleString("en")} samples, {formatSpan(review.trace.startAt, review.trace.endAt, zone)})
         </dd>
         <dt>Trace SHA-256</dt><dd><code className="hash">{review.trace.sha256}</code></dd>
         <dt>Product</dt><dd>{review.product.name} v{review.product.version} <code className="hash">{review.product.sha256.slice(0, 16)}…</code></dd>
         <dt>Pack</dt><dd>{review.pack ? <>{review.pack.name} v{review.pack.version} <code className="hash">{review.pack.sha256.slice(0, 16)}…</code></> : "none (the product's own surface coefficient)"}</dd>
         <dt>Limit set</dt><dd>{review.limits.name} v{review.limits.version} <code className="hash">{review.limits.sha256.slice(0, 16)}…</code></dd>
-        <dt>Judged window</dt><dd>{fmtTime(r.window.start)} – {fmtTime(r.window.end)} UTC</dd>
+        <dt>Judged window</dt><dd>{formatSpan(r.window.start, r.window.end, zone)}</dd>
         <dt>Engine</dt><dd>{review.engineVersion}; result SHA-256 <code className="hash">{review.resultSha256}</code></dd>
-        <dt>Run</dt><dd>{review.createdAt.toISOString()}</dd>
+        <dt>Run</dt><dd>{formatTime(review.createdAt, zone)}</dd>
         <dt>Status</dt><dd data-testid="review-status">{review.status === "signed" ? "signed off (final)" : "open: not yet signed off"}</dd>
         {review.corrects && <><dt>Corrects</dt><dd><Link href={`/reviews/${review.corrects.id}`}>{review.corrects.title}</Link></dd></>}
         {review.correctedBy.length > 0 && (
@@ -51,35 +53,78 @@ export function ReviewHeader({ review }: { review: StoredReview }) {
   );
 }
 
-export function ReviewChart({ review, series }: { review: StoredReview; series: TraceSeries }) {
+const CHANNEL_OF_RULE: Record<string, string> = { air: "air", core: "core", surface: "surface", mean: "mean", probe: "probe" };
+
+/**
+ * The review chart: air and predicted channels decimated on the server for display (min/max per
+ * bucket, every excursion's peak kept; lib/display), each excursion shaded, each limit line labelled
+ * with its rules and channels and its guard band, and the Monte Carlo 5–95 % band as a filled area
+ * under the deterministic core line. The full series is in the CSV export.
+ */
+export function ReviewChart({ review, series, zone }: { review: StoredReview; series: TraceSeries; zone: string }) {
   const s = review.result.screening;
-  const thresholds = [...new Map(review.result.rules.map((x) => [x.threshold_C, { label: `${x.threshold_C} °C`, value_C: x.threshold_C }])).values()];
+  const r = review.result;
+  const conduction = s.model === "conduction" && review.surface_C && review.mean_C;
+  const display = displaySeries({
+    t_s: series.t_s,
+    channels: {
+      air: bridgeGaps(series),
+      core: review.core_C,
+      surface: conduction ? review.surface_C : null,
+      mean: conduction ? review.mean_C : null,
+      coolant: review.coolant_C,
+      probe: series.probe_C,
+      p05: r.uncertainty?.p05,
+      p95: r.uncertainty?.p95,
+    },
+    thresholds: r.rules.map((x) => ({
+      value_C: x.threshold_C,
+      direction: x.direction,
+      channels: x.channel === "core" ? ["core", "p05", "p95"] : [CHANNEL_OF_RULE[x.channel] ?? x.channel],
+    })),
+  });
+  const c = display.channels;
+  // One line per threshold; every rule on it is named (an air rule and a core rule can share 8 °C).
+  const byThreshold = new Map<number, { rules: string[]; guards: Set<number> }>();
+  for (const x of r.rules) {
+    const e = byThreshold.get(x.threshold_C) ?? { rules: [], guards: new Set<number>() };
+    e.rules.push(`${x.id} (${x.channel}, ${x.direction}${x.guard_K > 0 ? `, guard ±${sigTrim(x.guard_K, 2)} K` : ""})`);
+    if (x.guard_K > 0) e.guards.add(x.guard_K);
+    byThreshold.set(x.threshold_C, e);
+  }
+  const thresholds = [...byThreshold].map(([value_C, e]) => ({ value_C, label: `${fixed(value_C, value_C % 1 === 0 ? 0 : 1)} °C`, rules: e.rules, guards_K: [...e.guards] }));
+  const laneColor: Record<string, string> = { air: "var(--air)", core: "var(--core)", probe: "#b8860b" };
+  const excursions = r.rules.flatMap((x, lane) =>
+    x.excursions.map((e) => ({
+      lane,
+      color: laneColor[x.channel] ?? "#6c8ebf",
+      start_ms: Date.parse(e.start),
+      end_ms: Date.parse(e.end),
+      label: `${x.id}: ${x.channel} ${x.direction} ${x.threshold_C} °C for ${fixed(e.duration_min, 1)} min, peak ${fixed(e.peak_C, 2)} °C (${formatSpan(e.start, e.end, zone)})`,
+    })),
+  );
   return (
     <section className="card chart-card">
       <TemperatureChart
         title="Air and predicted product temperatures with the rule thresholds"
-        times_ms={Array.from(series.t_s, (t) => t * 1000)}
+        zone={zone}
+        times_ms={display.times_ms}
+        bands={c.p05 && c.p95 ? [{ label: `Core 5–95 % band (Monte Carlo, ${r.uncertainty!.samples} samples)`, color: "var(--core)", lower: c.p05, upper: c.p95 }] : []}
         lines={[
-          { label: "Air (logger)", color: "var(--air)", values: Array.from(bridgeGaps(series)) },
-          { label: "Core (predicted)", color: "var(--core)", values: Array.from(review.core_C) },
-          ...(s.model === "conduction" && review.surface_C && review.mean_C
-            ? [
-                { label: "Surface (predicted)", color: "#6c8ebf", values: Array.from(review.surface_C), dashed: true },
-                { label: "Mean (predicted)", color: "#2b8a7e", values: Array.from(review.mean_C), dashed: true },
-              ]
-            : []),
-          ...(review.coolant_C ? [{ label: "Coolant / inner air", color: "#7a4fa3", values: Array.from(review.coolant_C), dashed: true }] : []),
-          ...(series.probe_C ? [{ label: "Product probe (measured)", color: "#b8860b", values: Array.from(series.probe_C) }] : []),
-          ...(review.result.uncertainty
-            ? [
-                { label: "Core 95th percentile", color: "#9b1f2e", values: review.result.uncertainty.p95, dashed: true },
-                { label: "Core 5th percentile", color: "#2b8a7e", values: review.result.uncertainty.p05, dashed: true },
-              ]
-            : []),
+          { label: "Air (logger)", color: "var(--air)", values: c.air! },
+          ...(c.surface ? [{ label: "Surface (predicted)", color: "#6c8ebf", values: c.surface, dashed: true }] : []),
+          ...(c.mean ? [{ label: "Mean (predicted)", color: "#2b8a7e", values: c.mean, dashed: true }] : []),
+          ...(c.coolant ? [{ label: "Coolant / inner air", color: "#7a4fa3", values: c.coolant, dashed: true }] : []),
+          ...(c.probe ? [{ label: "Product probe (measured)", color: "#b8860b", values: c.probe }] : []),
+          { label: "Core (predicted)", color: "var(--core)", values: c.core! },
         ]}
         thresholds={thresholds}
+        excursions={excursions}
         gaps={findGaps(series, (review.trace.importSettings as { gapMultiple?: number } | null)?.gapMultiple).map((g) => [g.start_s * 1000, g.end_s * 1000])}
       />
+      <p className="muted" style={{ margin: "0.3rem 0 0", fontSize: "0.8rem" }}>
+        Drawn from {display.times_ms.length.toLocaleString("en")} of {series.t_s.length.toLocaleString("en")} samples (the extremes of every pixel column and the peak of every excursion); the CSV export has every sample.
+      </p>
     </section>
   );
 }
@@ -91,16 +136,16 @@ export function ScreeningCard({ review }: { review: StoredReview }) {
     <section className="card">
       <h2 style={{ marginTop: 0 }}>Screening</h2>
       <dl className="facts" data-testid="screening">
-        <dt>Time constant tau = R·C</dt><dd data-testid="tau">{s.tau_readable} ({Math.round(s.tau_s)} s)</dd>
-        <dt>R (air to product)</dt><dd>{s.r_total_K_W.toPrecision(4)} K/W</dd>
-        <dt>C = m·cp</dt><dd>{s.c_total_J_K.toPrecision(4)} J/K</dd>
-        <dt>Lc = V/A</dt><dd>{s.lc_m === null ? "not known" : `${(s.lc_m * 1000).toPrecision(3)} mm`}</dd>
-        <dt>Biot number</dt><dd data-testid="biot">{s.biot === null ? "not checked" : s.biot.toPrecision(2)}</dd>
+        <dt>Time constant tau = R·C</dt><dd data-testid="tau">{s.tau_readable} ({Math.round(s.tau_s).toLocaleString("en")} s)</dd>
+        <dt>R (air to product)</dt><dd>{sig(s.r_total_K_W, 3)} K/W</dd>
+        <dt>C = m·cp</dt><dd>{sig(s.c_total_J_K, 3)} J/K</dd>
+        <dt>Lc = V/A</dt><dd>{s.lc_m === null ? "not known" : `${sig(s.lc_m * 1000, 3)} mm`}</dd>
+        <dt>Biot number</dt><dd data-testid="biot">{s.biot === null ? "not checked" : sig(s.biot, 2)}</dd>
         <dt>Model</dt><dd data-testid="model">{s.model === "lumped" ? "lumped capacitance" : `1-D conduction (${solver.shells} shells)`}</dd>
         <dt>Solver</dt>
         <dd>
           {solver.method}
-          {solver.step_s !== null ? `, step ${solver.step_s} s (halving it changes results by ${solver.halving_change_K!.toFixed(4)} K)` : ", closed form for air linear between samples"}
+          {solver.step_s !== null ? `, step ${solver.step_s} s (halving it changes results by ${sig(solver.halving_change_K!, 2)} K)` : ", closed form for air linear between samples"}
         </dd>
         <dt>Material</dt><dd>{s.material}</dd>
       </dl>
@@ -119,7 +164,7 @@ export function ScreeningCard({ review }: { review: StoredReview }) {
   );
 }
 
-export function HistoryCard({ review }: { review: StoredReview }) {
+export function HistoryCard({ review, zone }: { review: StoredReview; zone: string }) {
   const r = review.result;
   return (
     <section className="card">
@@ -143,14 +188,14 @@ export function HistoryCard({ review }: { review: StoredReview }) {
       {r.gaps.length > 0 && (
         <>
           <h2>Data gaps</h2>
-          <ul>{r.gaps.map((g) => <li key={g.start}>{fmtTime(g.start)} – {fmtTime(g.end)} UTC ({readableDuration(g.duration_s)}), bridged linearly; rules across it are at best inconclusive</li>)}</ul>
+          <ul>{r.gaps.map((g) => <li key={g.start}>{formatSpan(g.start, g.end, zone)} ({readableDuration(g.duration_s)}), bridged linearly; rules across it are at best inconclusive</li>)}</ul>
         </>
       )}
     </section>
   );
 }
 
-export function RulesCard({ review }: { review: StoredReview }) {
+export function RulesCard({ review, zone }: { review: StoredReview; zone: string }) {
   const r = review.result;
   return (
     <section className="card">
@@ -176,15 +221,15 @@ export function RulesCard({ review }: { review: StoredReview }) {
       </table>
       <h2>Excursions</h2>
       <table>
-        <thead><tr><th>Rule</th><th>Start (UTC)</th><th>End (UTC)</th><th className="num">Duration (min)</th><th className="num">Peak °C</th><th className="num">Degree-minutes</th></tr></thead>
+        <thead><tr><th>Rule</th><th>Start</th><th>End</th><th className="num">Duration (min)</th><th className="num">Peak °C</th><th className="num">Degree-minutes</th></tr></thead>
         <tbody>
           {r.rules.every((x) => x.excursions.length === 0) && (
             <tr><td colSpan={6} className="muted">No excursions beyond any rule threshold.</td></tr>
           )}
           {r.rules.flatMap((x) =>
-            x.excursions.map((e) => (
-              <tr key={`${x.id}-${e.start}`}>
-                <td>{x.id}</td><td>{fmtTime(e.start)}</td><td>{fmtTime(e.end)}</td>
+            x.excursions.map((e, i) => (
+              <tr key={`${x.id}-${e.start}`} data-testid={`excursion-row-${x.id}-${i}`}>
+                <td>{x.id}</td><td>{formatTime(e.start, zone)}</td><td>{formatTime(e.end, zone)}</td>
                 <td className="num">{e.duration_min.toFixed(1)}</td><td className="num">{e.peak_C.toFixed(2)}</td><td className="num">{e.degree_min.toFixed(1)}</td>
               </tr>
             )),

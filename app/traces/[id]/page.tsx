@@ -5,6 +5,9 @@ import { findGaps, medianInterval_s } from "@/lib/trace/series";
 import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { MetadataList } from "@/app/components/MetadataList";
+import { displayZone } from "@/app/displayZone";
+import { formatSpan } from "@/lib/display/time";
+import { displaySeries } from "@/lib/display/series";
 
 export const dynamic = "force-dynamic";
 
@@ -16,6 +19,8 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
   const same = await tracesWithSha256(meta.sha256, meta.id);
   const gaps = findGaps(series, meta.importSettings.gapMultiple);
   const s = meta.importSettings;
+  const zone = await displayZone(s.timeZone);
+  const display = displaySeries({ t_s: series.t_s, channels: { air: series.air_C, probe: series.probe_C } });
   return (
     <>
       <h1>Trace: {meta.name}</h1>
@@ -35,7 +40,7 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
             </>
           )}
           <dt>Samples</dt><dd data-testid="trace-samples">{meta.sampleCount}</dd>
-          <dt>From – to (UTC)</dt><dd>{meta.startAt.toISOString()} – {meta.endAt.toISOString()}</dd>
+          <dt>From – to</dt><dd data-testid="trace-span">{formatSpan(meta.startAt, meta.endAt, zone)}</dd>
           <dt>Median interval</dt><dd>{readableDuration(medianInterval_s(series.t_s))}</dd>
           <dt>Import settings</dt>
           <dd data-testid="trace-settings">
@@ -56,7 +61,7 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
             {gaps.length > 0 && (
               <ul style={{ margin: "0.3rem 0 0", paddingLeft: "1.1rem" }}>
                 {gaps.slice(0, 20).map((g) => (
-                  <li key={g.start_s}>{new Date(g.start_s * 1000).toISOString().slice(0, 16).replace("T", " ")} – {new Date(g.end_s * 1000).toISOString().slice(0, 16).replace("T", " ")} UTC ({readableDuration(g.duration_s)})</li>
+                  <li key={g.start_s}>{formatSpan(g.start_s * 1000, g.end_s * 1000, zone)} ({readableDuration(g.duration_s)})</li>
                 ))}
                 {gaps.length > 20 && <li>and {gaps.length - 20} more</li>}
               </ul>
@@ -74,10 +79,11 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
       <section className="card">
         <TemperatureChart
           title={`Air temperature, ${meta.name}`}
-          times_ms={Array.from(series.t_s, (t) => t * 1000)}
+          zone={zone}
+          times_ms={display.times_ms}
           lines={[
-            { label: "Air", color: "var(--air)", values: Array.from(series.air_C) },
-            ...(series.probe_C ? [{ label: "Product probe", color: "#2b8a7e", values: Array.from(series.probe_C) }] : []),
+            { label: "Air", color: "var(--air)", values: display.channels.air! },
+            ...(display.channels.probe ? [{ label: "Product probe", color: "#2b8a7e", values: display.channels.probe }] : []),
           ]}
           gaps={gaps.map((g) => [g.start_s * 1000, g.end_s * 1000])}
         />
