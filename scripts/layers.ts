@@ -4,7 +4,6 @@
 //
 //   app/ → lib/services → lib/db → engine          (lib/cli sits beside app/: services and engine)
 //   lib/config (environment and .env, validated) is read by db, services and cli
-//   engine, lowest first: trace < thermal < exposure < uncertainty < review < design
 //   engine, lowest first: trace < thermal < exposure < uncertainty < review < design; display (charts, times and
 //   numbers as shown) stands alone and imports no other lib folder
 //   new lib/ folders must be given a place here before they are used

@@ -158,20 +158,22 @@ export function TemperatureChart({ times_ms, lines, thresholds = [], excursions 
             <title>{b.label}</title>
           </path>
         ))}
-        {lines.map((l, i) => (
-          <path key={l.label} d={paths[i]} fill="none" stroke={l.color} strokeWidth={l.dashed ? 1.5 : 2} strokeDasharray={l.dashed ? "4 3" : undefined} data-testid={`series-${l.label.toLowerCase().replace(/\W+/g, "-")}`} />
-        ))}
         {thresholds.map((t) => (
           <g key={`th${t.value_C}`} data-testid="limit-line">
             <line x1={M.left} x2={WIDTH - M.right} y1={y(t.value_C)} y2={y(t.value_C)} stroke="var(--limit)" strokeDasharray="6 4" />
             <text x={WIDTH - M.right + 4} y={y(t.value_C)} dy="0.32em" fontSize={11} fill="var(--limit)">{t.label}</text>
-            {t.rules && t.rules.length > 0 && (
-              <text x={WIDTH - M.right - 4} y={y(t.value_C) - 4} textAnchor="end" fontSize={10.5} fill="var(--limit)" stroke="#fff" strokeWidth={3} paintOrder="stroke" data-testid="limit-label">
-                {t.rules.join(" · ")}
-              </text>
-            )}
           </g>
         ))}
+        {lines.map((l, i) => (
+          <path key={l.label} d={paths[i]} fill="none" stroke={l.color} strokeWidth={l.dashed ? 1.5 : 2} strokeDasharray={l.dashed ? "4 3" : undefined} data-testid={`series-${l.label.toLowerCase().replace(/\W+/g, "-")}`} />
+        ))}
+        {thresholds.map((t) =>
+          t.rules && t.rules.length > 0 ? (
+            <text key={`tl${t.value_C}`} x={WIDTH - M.right - 4} y={y(t.value_C) - 4} textAnchor="end" fontSize={10.5} fill="var(--limit)" stroke="#fff" strokeWidth={3} paintOrder="stroke" data-testid="limit-label">
+              {t.rules.join(" · ")}
+            </text>
+          ) : null,
+        )}
         {hover !== null && (
           <g pointerEvents="none">
             <line x1={x(times_ms[hover]!)} x2={x(times_ms[hover]!)} y1={M.top} y2={plotBottom} stroke="#5b6575" strokeWidth={0.8} />

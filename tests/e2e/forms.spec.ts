@@ -19,7 +19,7 @@ test("product form: a refused specific heat leaves every other field as typed", 
   await page.getByTestId("density_kg_m3").fill("1040");
   await page.getByTestId("k_W_mK").fill("0.48");
   await page.getByRole("button", { name: "Save product" }).click();
-  await expect(page.getByTestId("error-cp_J_kgK")).toContainText("specific heat must be greater than zero");
+  await expect(page.getByTestId("error-cp_J_kgK")).toContainText("specific heat must be between 500 and 6000 J/(kg·K)");
   await expect(page.getByTestId("product-name")).toHaveValue("Kept product");
   await expect(page.getByTestId("initial_C")).toHaveValue("3.5");
   await expect(page.getByTestId("shape-kind")).toHaveValue("cylinder");

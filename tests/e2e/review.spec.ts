@@ -25,7 +25,7 @@ test("upload the demo trace, define a product and a limit set, run a review, see
   await page.getByTestId("h_W_m2K").fill("2.5");
   await page.getByTestId("cp_J_kgK").fill("-3600");
   await page.getByRole("button", { name: "Save product" }).click();
-  await expect(page.getByText("specific heat must be greater than zero").first()).toBeVisible();
+  await expect(page.getByText("specific heat must be between 500 and 6000 J/(kg·K)").first()).toBeVisible();
   await page.getByTestId("cp_J_kgK").fill("3600");
   // live preview: tau = 0.45·3600/(2.5·0.062) s = 10452 s = 2 h 54 min
   await expect(page.getByTestId("preview-tau")).toHaveText("2 h 54 min");

@@ -71,12 +71,14 @@ test("the review chart shades every excursion, names the rules on each limit lin
   // guard bands: the air rule's ±0.5 K (sensor) and the core rules' wider one (sensor and the Monte Carlo
   // half-width), so the 8 °C line has two nested strips and the 5 °C line one
   await expect(chart.getByTestId("guard-band")).toHaveCount(3);
-  // the Monte Carlo band is a filled area, under the deterministic core line
+  // the Monte Carlo band is a filled area, under the limit lines and the deterministic core line
   const band = chart.getByTestId("band-core-5-95-band-monte-carlo-200-samples-");
   await expect(band).toHaveAttribute("d", /^M.*Z$/);
   const order = await chart.locator("svg > *").evaluateAll((els) => els.map((e) => e.getAttribute("data-testid")));
-  expect(order.indexOf("band-core-5-95-band-monte-carlo-200-samples-")).toBeLessThan(order.indexOf("series-core-predicted-"));
-  expect(order.indexOf("series-core-predicted-")).toBeLessThan(order.indexOf("limit-line"));
+  // band first, then the limit lines, then the deterministic core line, then the rule labels: nothing hides the band's edges or the line
+  expect(order.indexOf("band-core-5-95-band-monte-carlo-200-samples-")).toBeLessThan(order.indexOf("limit-line"));
+  expect(order.indexOf("limit-line")).toBeLessThan(order.indexOf("series-core-predicted-"));
+  expect(order.indexOf("series-core-predicted-")).toBeLessThan(order.indexOf("limit-label"));
 
   // times in the browser's zone (the demo file carries offsets, so the trace has no named zone of its own)
   await expect(page.getByTestId("zone-picker")).toBeVisible();
