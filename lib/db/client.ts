@@ -5,9 +5,23 @@ import { databaseUrl } from "./env";
 
 const globalForPrisma = globalThis as unknown as { corelagPrisma?: PrismaClient };
 
+/**
+ * The SQLite driver adapter with the connection settings every connection gets:
+ * - WAL journal: readers do not wait for the writer, so pages stay quick while a review is stored
+ *   (persistent in the file; SQLite folds the log back in when the last connection closes);
+ * - a 10 s busy timeout (better-sqlite3's `timeout`): a writer waits for another's lock instead of
+ *   failing at once with SQLITE_BUSY.
+ */
+class SqliteAdapter extends PrismaBetterSQLite3 {
+  override async connect() {
+    const connection = await super.connect();
+    await connection.executeScript("PRAGMA journal_mode = WAL;");
+    return connection;
+  }
+}
+
 function makeClient(): PrismaClient {
-  // Wait up to 10 s for another writer's lock before failing with SQLITE_BUSY (better-sqlite3's `timeout`).
-  return new PrismaClient({ adapter: new PrismaBetterSQLite3({ url: databaseUrl(), timeout: 10_000 }) });
+  return new PrismaClient({ adapter: new SqliteAdapter({ url: databaseUrl(), timeout: 10_000 }) });
 }
 
 // Reused across hot reloads in development, where modules are re-evaluated.
