@@ -118,7 +118,12 @@ export function chainFindings(entries: readonly AuditEntryRecord[]): Finding[] {
  * in force: the first key signs its own entry; a rotation entry is signed by the outgoing key (which
  * endorses the new one), and later entries by the new key.
  */
-export function signatureFindings(entries: readonly AuditEntryRecord[], signatures: readonly SignatureRecord[]): { findings: Finding[]; keys: KeyPeriod[]; signerOf: Map<number, string> } {
+export function signatureFindings(
+  entries: readonly AuditEntryRecord[],
+  signatures: readonly SignatureRecord[],
+  /** signatures already found valid, as `seq|hash|fingerprint|signature` (a memo of a pure check: any change misses it) */
+  validMemo?: Set<string>,
+): { findings: Finding[]; keys: KeyPeriod[]; signerOf: Map<number, string> } {
   const out: Finding[] = [];
   const keys: KeyPeriod[] = [];
   const signerOf = new Map<number, string>();
@@ -147,9 +152,15 @@ export function signatureFindings(entries: readonly AuditEntryRecord[], signatur
     if (signer) {
       if (!sig) out.push({ kind: "entry-unsigned", table: "AuditEntry", entry: e.seq, message: `entry ${e.seq} (${e.action} ${e.entity} ${e.entityId}) has no signature, but key ${signer.fp.slice(0, 16)}… was in force` });
       else if (sig.keyFingerprint !== signer.fp) out.push({ kind: "signature-invalid", table: "AuditEntry", entry: e.seq, message: `entry ${e.seq} is signed by key ${sig.keyFingerprint.slice(0, 16)}…, but the key in force was ${signer.fp.slice(0, 16)}…` });
-      else if (!verifyEntrySignature(signer.key, e.seq, e.hash, sig.signature)) {
-        out.push({ kind: "signature-invalid", table: "AuditEntry", entry: e.seq, message: `entry ${e.seq} (${e.action} ${e.entity} ${e.entityId}): its signature does not match its hash (re-hashed or altered without the key)` });
-      } else signerOf.set(e.seq, signer.fp);
+      else {
+        const memoKey = `${e.seq}|${e.hash}|${signer.fp}|${sig.signature}`;
+        if (validMemo?.has(memoKey) || verifyEntrySignature(signer.key, e.seq, e.hash, sig.signature)) {
+          validMemo?.add(memoKey);
+          signerOf.set(e.seq, signer.fp);
+        } else {
+          out.push({ kind: "signature-invalid", table: "AuditEntry", entry: e.seq, message: `entry ${e.seq} (${e.action} ${e.entity} ${e.entityId}): its signature does not match its hash (re-hashed or altered without the key)` });
+        }
+      }
     } else if (sig) {
       out.push({ kind: "signature-invalid", table: "AuditEntry", entry: e.seq, message: `entry ${e.seq} carries a signature although no key had been recorded before it` });
     }
@@ -226,8 +237,8 @@ export function chainHead(entries: readonly AuditEntryRecord[], signerOf: Readon
 }
 
 /** Every check that needs no engine run and no storage access. */
-export function checkRecords(s: RecordSnapshot, opts: { localKeyFingerprint?: string | null } = {}): RecordCheck {
-  const sig = signatureFindings(s.entries, s.signatures);
+export function checkRecords(s: RecordSnapshot, opts: { localKeyFingerprint?: string | null; validSignatures?: Set<string> } = {}): RecordCheck {
+  const sig = signatureFindings(s.entries, s.signatures, opts.validSignatures);
   const findings = [...chainFindings(s.entries), ...sig.findings, ...rowFindings(s)];
   const current = sig.keys.at(-1);
   if (opts.localKeyFingerprint && current && current.fingerprint !== opts.localKeyFingerprint) {
