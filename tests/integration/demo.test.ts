@@ -2,6 +2,7 @@ import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
+import { spawnSync } from "node:child_process";
 
 // The demo scenario loaded into a fresh SQLite file, as `npm start` does on first run.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-demo-"));
@@ -43,5 +44,25 @@ describe("demo loader", () => {
     const signed = (await listReviews({ status: "signed" }))[0]!;
     expect(await recheckReview(signed.id)).toMatchObject({ ok: true, check: { reproduced: true } });
     expect((await unreviewedTraces()).rows.map((t) => t.name)).toEqual(["Probe test, tray with simulant (demo)"]);
+  });
+
+  it("demo:reset refuses without --yes, and with it starts the database over with only the demo", async () => {
+    const other = `file:${path.join(dir, "reset.db")}`;
+    const ROOT = path.resolve(__dirname, "../..");
+    const run = (...args: string[]) =>
+      spawnSync(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), path.join(ROOT, "scripts/reset-demo.ts"), ...args], { cwd: ROOT, encoding: "utf8", env: { ...process.env, DATABASE_URL: other } });
+    const refused = run();
+    expect(refused.status).toBe(2);
+    expect(refused.stderr).toContain("Run it again with --yes");
+    expect(run("--yes").status).toBe(0);
+    expect(run("--yes").status).toBe(0); // twice: the second deletes the first's records and loads the demo again
+    // the new database holds the demo's two reviews, and both reproduce (corelag verify)
+    const verify = spawnSync(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), path.join(ROOT, "lib/cli/main.ts"), "verify"], { cwd: ROOT, encoding: "utf8", env: { ...process.env, DATABASE_URL: other } });
+    expect(verify.status).toBe(0);
+    const out = JSON.parse(verify.stdout) as { chain: { entries: number }; reviews: Array<{ title: string; reproduced: boolean }> };
+    expect(out.reviews.map((r) => [r.title, r.reproduced])).toEqual([
+      ["Route 7, 9 June: tote 3, door openings only (demo)", true],
+      ["Route 7, 16 June: tote 3 after the dock delay (demo)", true],
+    ]);
   });
 });
