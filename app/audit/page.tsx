@@ -7,7 +7,7 @@ import { ChainCheck } from "./ChainCheck";
 export const dynamic = "force-dynamic";
 
 const fmtUtc = (d: Date) => d.toISOString().slice(0, 19).replace("T", " ");
-const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review" };
+const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review", key: "signing key" };
 
 export default async function AuditPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const raw = await searchParams;
@@ -26,7 +26,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
         <form className="filters no-print" aria-label="Filter the audit log" data-testid="audit-filters">
           <label>Kind of record
             <select name="entity" defaultValue={p.entity ?? ""} data-testid="filter-entity">
-              <option value="">any</option><option value="trace">trace</option><option value="definition">definition</option><option value="review">review</option>
+              <option value="">any</option><option value="trace">trace</option><option value="definition">definition</option><option value="review">review</option><option value="key">signing key</option>
             </select>
           </label>
           <label>Action
@@ -57,8 +57,8 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                   <td style={{ whiteSpace: "nowrap" }}>{fmtUtc(e.at)}</td>
                   <td>{e.action}{e.format && <> <span data-testid="audit-format">({e.format})</span></>}{e.action === "verify" && <> <strong className={(e.details as { reproduced?: boolean }).reproduced ? "status-pass" : "status-fail"}>{(e.details as { reproduced?: boolean }).reproduced ? "reproduced" : "did not reproduce"}</strong></>}</td>
                   <td>
-                    {ENTITY_WORDS[e.entity] ?? e.entity}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}
-                    {e.subject.href && e.subject.name ? <Link href={e.subject.href} data-testid="audit-subject">{e.subject.name}</Link> : <span className="muted">not found</span>}
+                    {e.entity === "key" ? "" : <>{ENTITY_WORDS[e.entity] ?? e.entity}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}</>}
+                    {e.subject.href && e.subject.name ? <Link href={e.subject.href} data-testid="audit-subject">{e.subject.name}</Link> : e.subject.name ?? <span className="muted">not found</span>}
                     <div className="raw-id"><Link href={`/audit?object=${e.entityId}`} title="every entry for this object">{e.entityId}</Link></div>
                   </td>
                   <td>{e.actor}</td>

@@ -2,8 +2,8 @@ import { db } from "./client";
 import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import type { AuditEntryRecord } from "../review/audit";
 
-export const AUDIT_ENTITIES = ["trace", "definition", "review"] as const;
-export const AUDIT_ACTIONS = ["import", "create", "edit", "run", "sign", "rename", "export", "verify"] as const;
+export const AUDIT_ENTITIES = ["trace", "definition", "review", "key"] as const;
+export const AUDIT_ACTIONS = ["import", "create", "edit", "run", "sign", "rename", "export", "verify", "key", "seal"] as const;
 
 export interface AuditFilter {
   entity?: (typeof AUDIT_ENTITIES)[number];
@@ -92,6 +92,8 @@ async function subjects(entries: ReadonlyArray<{ entity: string; entityId: strin
   for (const t of traces) out.set(`trace:${t.id}`, { name: t.name, href: `/traces/${t.id}` });
   for (const d of defs) out.set(`definition:${d.id}`, { name: `${d.name} v${d.version}`, kind: d.kind, href: definitionHref(d.id) });
   for (const r of reviews) out.set(`review:${r.id}`, { name: r.title, href: `/reviews/${r.id}` });
+  // a signing key is named by its fingerprint (the entry's id); it has no page
+  for (const fp of ids("key")) out.set(`key:${fp}`, { name: `signing key ${fp.slice(0, 16)}…`, href: null });
   return out;
 }
 

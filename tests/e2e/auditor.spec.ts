@@ -132,7 +132,7 @@ test("the audit log shows names, links, raw ids and export formats, filters, sea
   await page.goto("/audit");
   await expect(page.getByTestId("chain-status")).toHaveCount(0);
   await page.getByTestId("verify-chain").click();
-  await expect(page.getByTestId("chain-status")).toContainText("intact");
+  await expect(page.getByTestId("chain-status")).toContainText("the chain is intact and signed");
 });
 
 test("uploading a file already stored warns and links to it; the trace page lists the same file", async ({ page }) => {

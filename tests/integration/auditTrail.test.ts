@@ -47,23 +47,24 @@ describe("audit log queries", () => {
   it("queryAudit gives each entry its object's name, link and raw id, newest first", async () => {
     const { queryAudit } = await import("@/lib/db/auditQueries");
     const page = await queryAudit();
-    // entries in order written: 2 imports, 2 definitions, 2 runs, 1 sign-off
-    expect(page.total).toBe(7);
-    expect(page.rows.map((e) => e.seq)).toEqual([7, 6, 5, 4, 3, 2, 1]);
+    // entries in order written: the signing key, 2 imports, 2 definitions, 2 runs, 1 sign-off
+    expect(page.total).toBe(8);
+    expect(page.rows.map((e) => e.seq)).toEqual([8, 7, 6, 5, 4, 3, 2, 1]);
     const bySeq = new Map(page.rows.map((e) => [e.seq, e]));
-    expect(bySeq.get(1)!.subject).toEqual({ name: "Route seven tote three", href: `/traces/${ids.traceId}` });
-    expect(bySeq.get(1)!.entityId).toBe(ids.traceId);
-    expect(bySeq.get(3)!.subject).toEqual({ name: "Ready meal tray 450 g (in tote) v1", kind: "product", href: `/definitions/${ids.productId}` });
-    expect(bySeq.get(7)!.subject).toEqual({ name: "Signed one", href: `/reviews/${ids.signedId}` });
+    expect(bySeq.get(1)!.subject).toEqual({ name: `signing key ${bySeq.get(1)!.entityId.slice(0, 16)}…`, href: null });
+    expect(bySeq.get(2)!.subject).toEqual({ name: "Route seven tote three", href: `/traces/${ids.traceId}` });
+    expect(bySeq.get(2)!.entityId).toBe(ids.traceId);
+    expect(bySeq.get(4)!.subject).toEqual({ name: "Ready meal tray 450 g (in tote) v1", kind: "product", href: `/definitions/${ids.productId}` });
+    expect(bySeq.get(8)!.subject).toEqual({ name: "Signed one", href: `/reviews/${ids.signedId}` });
   });
 
   it("queryAudit filters by kind, action, object and date, and searches names, hashes and people", async () => {
     const { queryAudit } = await import("@/lib/db/auditQueries");
-    expect((await queryAudit({ entity: "definition" })).rows.map((e) => e.seq)).toEqual([4, 3]);
+    expect((await queryAudit({ entity: "definition" })).rows.map((e) => e.seq)).toEqual([5, 4]);
     expect((await queryAudit({ action: "sign" })).rows.map((e) => e.actor)).toEqual(["Ada Vintner"]);
     expect((await queryAudit({ object: ids.signedId })).rows.map((e) => e.action)).toEqual(["sign", "run"]);
     const now = Date.now();
-    expect((await queryAudit({ from: new Date(now - 3600_000), to: new Date(now + 3600_000) })).total).toBe(7);
+    expect((await queryAudit({ from: new Date(now - 3600_000), to: new Date(now + 3600_000) })).total).toBe(8);
     expect((await queryAudit({ from: new Date(now + 86_400_000) })).total).toBe(0);
     expect((await queryAudit({ to: new Date(now - 86_400_000) })).total).toBe(0);
     // by a review's title, case-insensitively: its run and its sign-off
@@ -78,8 +79,8 @@ describe("audit log queries", () => {
     const { queryAudit } = await import("@/lib/db/auditQueries");
     const p1 = await queryAudit({ pageSize: 3 });
     const p3 = await queryAudit({ pageSize: 3, page: 3 });
-    expect([p1.pages, p1.rows.map((e) => e.seq)]).toEqual([3, [7, 6, 5]]);
-    expect([p3.page, p3.rows.map((e) => e.seq)]).toEqual([3, [1]]);
+    expect([p1.pages, p1.rows.map((e) => e.seq)]).toEqual([3, [8, 7, 6]]);
+    expect([p3.page, p3.rows.map((e) => e.seq)]).toEqual([3, [2, 1]]);
     // a page past the end gives the last page
     expect((await queryAudit({ pageSize: 3, page: 99 })).page).toBe(3);
   });
@@ -93,10 +94,10 @@ describe("audit log queries", () => {
       sizes.push(batch.length);
       rows.push(...batch.map((e) => auditCsvRow(e, "http://host")));
     }
-    expect(sizes).toEqual([2, 2, 2, 1]);
+    expect(sizes).toEqual([2, 2, 2, 2]);
     expect(auditCsvHeader()).toBe("seq,at_utc,action,entity,entity_id,kind,name,link,export_format,actor,details_json,prev_hash,hash");
-    expect(rows.map((r) => Number(r.split(",")[0]))).toEqual([1, 2, 3, 4, 5, 6, 7]);
-    const limitsRow = rows[3]!;
+    expect(rows.map((r) => Number(r.split(",")[0]))).toEqual([1, 2, 3, 4, 5, 6, 7, 8]);
+    const limitsRow = rows[4]!;
     expect(limitsRow).toContain(`,definition,${ids.limitsId},limits,"'=HYPERLINK(""http://x"") v1",http://host/definitions/${ids.limitsId},`);
     expect(rows[0]).toMatch(/,[0-9a-f]{64},[0-9a-f]{64}$/);
   });
@@ -144,11 +145,14 @@ describe("re-check a review", () => {
     if (!r.ok) throw new Error(r.message);
     const changed = Buffer.from(otherBytes);
     changed[changed.length - 3] = changed[changed.length - 3] === 0x31 ? 0x32 : 0x31;
+    // behind the application's back: drop the trigger that refuses changes to a trace, as a raw SQL client could
+    await db.$executeRawUnsafe(`DROP TRIGGER "Trace_no_update"`);
     await db.trace.update({ where: { id: ids.otherTraceId }, data: { original: new Uint8Array(changed) } });
     const out = await recheckReview(r.reviewId, "web");
     expect(out.ok && out.check.reproduced).toBe(false);
     expect(out.ok && out.check.problems).toContain("the trace's original bytes no longer match their SHA-256");
     expect((await queryAudit({ action: "verify", object: r.reviewId })).rows[0]!.details).toMatchObject({ reproduced: false });
+    // the chain itself is intact: the change is in the trace row, which the re-check names
     expect(verifyAuditChain(await listAudit()).ok).toBe(true);
     expect(await recheckReview("no-such-review")).toEqual({ ok: false, message: "that review does not exist" });
   });
