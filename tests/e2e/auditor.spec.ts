@@ -124,7 +124,7 @@ test("the audit log shows names, links, raw ids and export formats, filters, sea
   // a definition named in the log opens read-only, with its parameters and versions
   await page.goto("/audit?entity=definition");
   await page.getByTestId("audit-table").getByRole("link", { name: "Auditor meal tray v1" }).click();
-  await expect(page.getByRole("heading", { name: "Auditor meal tray (version 1)" })).toBeVisible();
+  await expect(page.getByRole("heading", { name: "Auditor meal tray (version 1)", exact: true })).toBeVisible();
   await expect(page.getByTestId("param-product-mass_kg")).toHaveText(/mass\s*0\.45\s*kg/);
   await expect(page.getByTestId("definition-versions")).toContainText("version 1");
 
