@@ -1,8 +1,9 @@
 // Corelag command line: `npm run -s corelag -- <command> [options]`. Prints JSON on stdout; on bad input
 // prints one line naming the file and the row or field at fault to stderr and exits 2.
-import { readFileSync } from "node:fs";
+import { existsSync, readFileSync, statSync } from "node:fs";
+import path from "node:path";
 import { writeSeriesCsv } from "./seriesCsv";
-import { parseArgs } from "node:util";
+import { parseArgs } from "./args";
 import { z } from "zod";
 import { importTraceFile, importOptionsSchema, medianInterval_s, sha256Hex, TraceImportError, bridgeGaps, type ImportOptions, type TraceImport } from "../trace";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
@@ -335,6 +336,24 @@ function parseWindow(text: string): { start_s: number; end_s: number } {
   return { start_s, end_s };
 }
 
+/**
+ * The record commands (verify, anchor, key, seal) read and extend existing records; they must never
+ * create a database. SQLite creates a missing file on open, so a mistyped DATABASE_URL would be
+ * "verified" as an empty database: refuse it first, in one line.
+ */
+async function requireExistingDatabase(): Promise<void> {
+  const { config } = await import("../config");
+  let url: string;
+  try {
+    url = config().DATABASE_URL;
+  } catch (e) {
+    throw new CliError((e as Error).message);
+  }
+  const file = path.resolve(url.replace(/^file:/, ""));
+  if (!existsSync(file)) throw new CliError(`DATABASE_URL: there is no database at ${file}; check the path (verify never creates one)`);
+  if (!statSync(file).isFile() || statSync(file).size === 0) throw new CliError(`DATABASE_URL: ${file} is not a Corelag database (${statSync(file).isFile() ? "an empty file" : "not a file"})`);
+}
+
 const COMMANDS: Record<string, (argv: string[]) => Promise<unknown>> = {
   import: importCommand,
   predict: predictCommand,
@@ -356,6 +375,7 @@ export async function runCli(args: string[]): Promise<number> {
   }
   try {
     if (records) {
+      await requireExistingDatabase();
       // verify: exit 1 on any finding, the JSON lists each with its kind, row and audit entry.
       const r = await records(rest);
       process.stdout.write(r.stdout);

@@ -2,6 +2,7 @@
 import { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
 import { PrismaClient } from "../../generated/prisma/client";
 import { databaseUrl } from "./env";
+import { guardTransactions } from "./guardTransactions";
 
 const globalForPrisma = globalThis as unknown as { corelagPrisma?: PrismaClient };
 
@@ -21,7 +22,8 @@ class SqliteAdapter extends PrismaBetterSQLite3 {
 }
 
 function makeClient(): PrismaClient {
-  return new PrismaClient({ adapter: new SqliteAdapter({ url: databaseUrl(), timeout: 10_000 }) });
+  // guardTransactions: a failed write (a full disk) must not leave the connection locked for every later one.
+  return new PrismaClient({ adapter: guardTransactions(new SqliteAdapter({ url: databaseUrl(), timeout: 10_000 })) });
 }
 
 // Reused across hot reloads in development, where modules are re-evaluated.

@@ -290,6 +290,8 @@ function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedIm
   if (!numericCols.includes(airIdx)) channels.unshift({ name: header[airIdx]!, role: "air", unit: unitOf(airIdx) });
   if (productIdx >= 0 && !numericCols.includes(productIdx)) channels.push({ name: header[productIdx]!, role: "product", unit: unitOf(productIdx) });
 
+  const plausibleMin_C = options.plausibleMin_C ?? PLAUSIBLE_RANGE_C.min, plausibleMax_C = options.plausibleMax_C ?? PLAUSIBLE_RANGE_C.max;
+  if (!(plausibleMin_C < plausibleMax_C)) fail(`the plausible minimum (${plausibleMin_C} °C) must be below the plausible maximum (${plausibleMax_C} °C)`);
   const settings: ResolvedImportSettings = {
     parser: "corelag-csv-2",
     encoding,
@@ -308,8 +310,8 @@ function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedIm
     ...(options.unit ? { unit: options.unit } : {}),
     decimal,
     missing: options.missing ?? [],
-    plausibleMin_C: options.plausibleMin_C ?? PLAUSIBLE_RANGE_C.min,
-    plausibleMax_C: options.plausibleMax_C ?? PLAUSIBLE_RANGE_C.max,
+    plausibleMin_C,
+    plausibleMax_C,
     gapMultiple: options.gapMultiple ?? DEFAULT_GAP_MULTIPLE,
   };
   return { settings, headerIdx, header, timeIdx, dateIdx, airIdx, productIdx, channels, ...(startWithoutOffset ? { startWithoutOffset } : {}) };

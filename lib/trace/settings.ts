@@ -42,6 +42,12 @@ export const importOptionsSchema = z.object({
   plausibleMax_C: z.number().finite().optional(),
   /** a pause longer than this multiple of the median interval counts as a gap (default 3) */
   gapMultiple: z.number().finite().min(1.5, { message: "gap multiple must be at least 1.5" }).max(1000).optional(),
+}).refine((o) => o.plausibleMin_C === undefined || o.plausibleMax_C === undefined || o.plausibleMin_C < o.plausibleMax_C, {
+  path: ["plausibleMin_C"],
+  error: (iss) => {
+    const o = iss.input as { plausibleMin_C: number; plausibleMax_C: number };
+    return `the plausible minimum (${o.plausibleMin_C} °C) must be below the plausible maximum (${o.plausibleMax_C} °C)`;
+  },
 });
 export type ImportOptions = z.infer<typeof importOptionsSchema>;
 

@@ -1,4 +1,3 @@
-import { z } from "zod";
 import { importAndStoreTrace } from "@/lib/services/traces";
 import { importOptionsSchema } from "@/lib/trace/settings";
 
@@ -9,7 +8,8 @@ const MAX_BYTES = 200 * 1024 * 1024;
 /**
  * Upload of a logger file (multipart: file, name, options as JSON). The browser has already shown a
  * preview with the same import code; the server repeats the import with the chosen options and is
- * the authority. 201 with the trace id, or 422 with the message naming the first problem.
+ * the authority. 201 with the trace id, 422 with the message naming the first problem, or 507 when
+ * the server's disk is full (nothing stored).
  */
 export async function POST(req: Request) {
   let form: FormData;
@@ -33,9 +33,9 @@ export async function POST(req: Request) {
     const issue = options.error.issues[0]!;
     return Response.json({ error: `import setting '${issue.path.join(".")}': ${issue.message}`, field: "options" }, { status: 422 });
   }
-  const name = z.string().max(160).safeParse(form.get("name") ?? "");
+  const name = form.get("name");
   const bytes = new Uint8Array(await file.arrayBuffer());
-  const res = await importAndStoreTrace(bytes, { name: name.success ? name.data : undefined, fileName: file.name, options: options.data });
-  if (!res.ok) return Response.json({ error: res.message }, { status: 422 });
+  const res = await importAndStoreTrace(bytes, { name: typeof name === "string" ? name : undefined, fileName: file.name, options: options.data });
+  if (!res.ok) return Response.json({ error: res.message, ...(res.field ? { field: res.field } : {}) }, { status: res.diskFull ? 507 : 422 });
   return Response.json({ id: res.traceId }, { status: 201 });
 }

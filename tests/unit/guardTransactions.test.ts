@@ -1,0 +1,42 @@
+import { describe, it, expect } from "vitest";
+import type { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
+import { guardTransactions } from "@/lib/db/guardTransactions";
+
+// The adapter's lock is released only by the transaction's commit() or rollback(); a fake adapter
+// records which are called when COMMIT or ROLLBACK fails (the real SQLite case is in
+// tests/integration/diskFull.test.ts).
+function fakeFactory(fail: "COMMIT" | "ROLLBACK", inTransactionAfterFailure: boolean) {
+  const calls: string[] = [];
+  const connection = { inTransaction: true, exec: (sql: string) => { calls.push(`exec ${sql}`); connection.inTransaction = false; } };
+  const tx = {
+    client: connection,
+    executeRaw: async (q: { sql: string }) => {
+      calls.push(q.sql);
+      if (q.sql === fail) {
+        connection.inTransaction = inTransactionAfterFailure;
+        throw Object.assign(new Error(fail === "ROLLBACK" ? "cannot rollback - no transaction is active" : "database or disk is full"), { code: "SQLITE_FULL" });
+      }
+      return 0;
+    },
+    commit: async () => void calls.push("commit()"),
+    rollback: async () => void calls.push("rollback()"),
+  };
+  const adapter = { startTransaction: async () => tx };
+  const factory = { connect: async () => adapter } as unknown as PrismaBetterSQLite3;
+  return { factory, calls };
+}
+
+describe("guardTransactions", () => {
+  it("guardTransactions treats a ROLLBACK of a transaction SQLite already ended as done", async () => {
+    const { factory, calls } = fakeFactory("ROLLBACK", false);
+    const tx = await (await guardTransactions(factory).connect()).startTransaction();
+    await expect(tx.executeRaw({ sql: "ROLLBACK", args: [], argTypes: [] })).resolves.toBe(0);
+    expect(calls).toEqual(["ROLLBACK"]); // Prisma calls rollback() next, which releases the lock
+  });
+  it("guardTransactions rolls back and releases the lock when COMMIT fails, then passes the error on", async () => {
+    const { factory, calls } = fakeFactory("COMMIT", true);
+    const tx = await (await guardTransactions(factory).connect()).startTransaction();
+    await expect(tx.executeRaw({ sql: "COMMIT", args: [], argTypes: [] })).rejects.toThrow("database or disk is full");
+    expect(calls).toEqual(["COMMIT", "exec ROLLBACK", "rollback()"]);
+  });
+});
