@@ -84,6 +84,20 @@ describe("review runs in the worker pool", () => {
     expect(body.error).toContain("npm run -s corelag -- review");
   });
 
+  it("SIGTERM during a long run stops the server within seconds, stores nothing and leaves the database intact", async () => {
+    const { db } = await import("@/lib/db/client");
+    const reviewsBefore = await db.review.count();
+    const other = await startServer({ DATABASE_URL: url });
+    const res = await fetch(other.url + "/api/runs", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ title: "interrupted", ...ids, model: "lumped", uncertainty: monteCarlo(2_000) }) });
+    expect(res.status).toBe(202);
+    const t0 = Date.now();
+    await other.stop();
+    // The request thread is free (the engine is in a worker), so the signal is handled at once; 10 s is slack for a busy machine.
+    expect(Date.now() - t0).toBeLessThan(10_000);
+    expect(await db.review.count()).toBe(reviewsBefore);
+    expect(await db.$queryRawUnsafe("PRAGMA integrity_check")).toEqual([{ integrity_check: "ok" }]);
+  });
+
   it("an unknown run is a 404", async () => {
     expect((await fetch(`${server.url}/api/runs/not-a-run`)).status).toBe(404);
   });
