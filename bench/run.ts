@@ -9,6 +9,7 @@ import { centreTheta } from "../tests/helpers/series";
 import { benchImport } from "./import";
 import { benchDesign } from "./design";
 import { benchCli } from "./cli";
+import { benchWeb } from "./web";
 
 
 function best<T>(runs: number, fn: () => T): { ms: number; value: T } {
@@ -78,3 +79,7 @@ benchTimeBeyond();
 benchSphere();
 benchDesign();
 benchCli();
+benchWeb().catch((e: unknown) => {
+  console.error(`web benchmark failed: ${e instanceof Error ? e.message : String(e)}`);
+  process.exitCode = 1;
+});
