@@ -548,6 +548,15 @@ describe("anchors", () => {
     expect(report.findings[0]!.message).toMatch(/^this anchor belongs to another database: its chain begins with entry hash [0-9a-f]{16}…, this database's with [0-9a-f]{16}…/);
   });
 
+  it("a database file that does not exist is bad input (exit 2), not an empty chain", async () => {
+    const nowhere = path.join(dir, "nowhere.db");
+    for (const cmd of [["verify"], ["anchor"], ["seal"]]) {
+      const r = await corelag(nowhere, ...cmd);
+      expect(r.code).toBe(2);
+      expect(r.err).toBe(`corelag ${cmd[0]}: DATABASE_URL: the database file ${nowhere} does not exist (set DATABASE_URL, or run npm start once to create it)\n`);
+    }
+  });
+
   it("a malformed anchor is a usage error (exit 2) naming the field", async () => {
     const file = copyOfDemo();
     const r = await corelag(file, "verify", "--anchor", JSON.stringify({ seq: 3, hash: "xyz" }));
