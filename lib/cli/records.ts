@@ -6,13 +6,6 @@ import { anchorSchema, type Anchor } from "../review/anchor";
 
 export class RecordsUsageError extends Error {}
 
-/** The record commands read (or append to) an existing database; a missing file is bad input, not an empty chain. */
-async function requireDatabase(): Promise<void> {
-  const { missingDatabase } = await import("../services/verify");
-  const missing = missingDatabase();
-  if (missing) throw new RecordsUsageError(missing);
-}
-
 export interface CommandResult {
   stdout: string;
   stderr?: string;
@@ -43,7 +36,6 @@ export async function verifyCommand(argv: string[]): Promise<CommandResult> {
   const { values } = parseArgs({ args: argv, options: { review: { type: "string" }, anchor: { type: "string" }, json: { type: "boolean" }, format: { type: "string", default: "json" } }, strict: true });
   if (values.format !== "json") throw new RecordsUsageError("--format: only 'json' is supported");
   const anchor = values.anchor === undefined ? undefined : parseAnchorArg(values.anchor);
-  await requireDatabase();
   const { verifyRecords } = await import("../services/verify");
   const report = await verifyRecords({ reviewId: values.review, anchor });
   return { stdout: JSON.stringify(report, null, 2) + "\n", code: report.ok ? 0 : 1 };
@@ -52,7 +44,6 @@ export async function verifyCommand(argv: string[]): Promise<CommandResult> {
 /** One JSON line: the chain's head, to be kept outside the database. */
 export async function anchorCommand(argv: string[]): Promise<CommandResult> {
   parseArgs({ args: argv, options: {}, strict: true });
-  await requireDatabase();
   const { takeAnchor } = await import("../services/verify");
   const r = takeAnchor();
   if (!r.anchor) return { stdout: "", stderr: `corelag anchor: nothing to anchor: ${r.reason}\n`, code: 1 };
@@ -63,7 +54,6 @@ export async function anchorCommand(argv: string[]): Promise<CommandResult> {
 export async function keyCommand(argv: string[]): Promise<CommandResult> {
   const { positionals } = parseArgs({ args: argv, options: {}, allowPositionals: true, strict: true });
   if (positionals[0] !== "rotate" || positionals.length !== 1) throw new RecordsUsageError("usage: corelag key rotate");
-  await requireDatabase();
   const { rotateKey } = await import("../services/verify");
   const r = await rotateKey("cli");
   if (!r.ok) return { stdout: "", stderr: `corelag key: ${r.message}\n`, code: 1 };
@@ -73,7 +63,6 @@ export async function keyCommand(argv: string[]): Promise<CommandResult> {
 /** `seal`: once after upgrading, content hashes for rows whose entries predate them. */
 export async function sealCommand(argv: string[]): Promise<CommandResult> {
   parseArgs({ args: argv, options: {}, strict: true });
-  await requireDatabase();
   const { sealRows } = await import("../services/verify");
   return { stdout: JSON.stringify({ sealed: await sealRows("cli") }) + "\n", code: 0 };
 }

@@ -1,8 +1,6 @@
 // `corelag verify` and the app's "verified at" line: storage checks, the chain and its signatures, every
 // row against its latest audit entry, an optional external anchor, and (CLI) re-running stored reviews.
-import { existsSync } from "node:fs";
 import { readRecordSnapshot } from "../db/recordSnapshot";
-import { databaseFile } from "../db/env";
 import { loadSigningKey, SigningKeyError } from "../db/signingKey";
 import { lastRecordedAnchor, recordAnchor } from "../db/anchorLog";
 import { rotateSigningKey, sealUnsealedRows } from "../db/audit";
@@ -159,8 +157,3 @@ export function lastAnchorStatus(): AnchorStatus {
   return { anchor, contained: anchor ? anchorFindings.length === 0 : null, findings: anchorFindings, head: r.head, key: r.key, checked_at: r.checked_at };
 }
 
-/** A sentence naming the database file when it does not exist (the record commands refuse rather than create it). */
-export function missingDatabase(): string | null {
-  const file = databaseFile();
-  return existsSync(file) ? null : `DATABASE_URL: the database file ${file} does not exist (set DATABASE_URL, or run npm start once to create it)`;
-}

@@ -553,7 +553,7 @@ describe("anchors", () => {
     for (const cmd of [["verify"], ["anchor"], ["seal"]]) {
       const r = await corelag(nowhere, ...cmd);
       expect(r.code).toBe(2);
-      expect(r.err).toBe(`corelag ${cmd[0]}: DATABASE_URL: the database file ${nowhere} does not exist (set DATABASE_URL, or run npm start once to create it)\n`);
+      expect(r.err).toBe(`corelag ${cmd[0]}: DATABASE_URL: there is no database at ${nowhere}; check the path (verify never creates one)\n`);
     }
   });
 
