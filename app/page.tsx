@@ -3,10 +3,12 @@ import { z } from "zod";
 import { reviewAttention, searchReviews } from "@/lib/db/reviews";
 import { unreviewedTraces } from "@/lib/db/traces";
 import { Pager } from "@/app/components/Pager";
-import { dayEndUtc, dayParam, dayStartUtc, listParamsSchema, nonEmpty } from "@/app/components/listParams";
+import { dayEnd, dayParam, dayStart, listParamsSchema, nonEmpty } from "@/app/components/listParams";
 import { listLatestDefinitions } from "@/lib/db/definitions";
 import { StatusBadge } from "@/app/components/StatusBadge";
 import { Caution } from "@/app/components/Caution";
+import { displayZone } from "@/app/displayZone";
+import { formatTime } from "@/lib/display/time";
 
 export const dynamic = "force-dynamic";
 
@@ -21,8 +23,9 @@ const filterSchema = listParamsSchema.extend({
 export default async function HomePage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   // Filters come from the address bar; unknown or malformed values are ignored (shown as "any").
   const f = filterSchema.parse(nonEmpty(await searchParams));
+  const zone = await displayZone();
   const [reviews, attention, unreviewed, products] = await Promise.all([
-    searchReviews({ outcome: f.outcome, status: f.status, productLineage: f.product, from: dayStartUtc(f.from), to: dayEndUtc(f.to), q: f.q, page: f.page }),
+    searchReviews({ outcome: f.outcome, status: f.status, productLineage: f.product, from: dayStart(f.from, zone), to: dayEnd(f.to, zone), q: f.q, page: f.page }),
     reviewAttention(),
     unreviewedTraces(),
     listLatestDefinitions("product"),
@@ -70,7 +73,7 @@ export default async function HomePage({ searchParams }: { searchParams: Promise
         <Pager path="/" params={params} page={reviews.page} pages={reviews.pages} total={reviews.total} pageSize={reviews.pageSize} noun="reviews" />
         {reviews.rows.length === 0 ? <p className="muted">No reviews match.</p> : (
           <table data-testid="review-list">
-            <thead><tr><th>Title</th><th>Trace</th><th>Product</th><th>Suggested</th><th>Status</th><th>Run (UTC)</th></tr></thead>
+            <thead><tr><th>Title</th><th>Trace</th><th>Product</th><th>Suggested</th><th>Status</th><th>Run</th></tr></thead>
             <tbody>
               {reviews.rows.map((r) => (
                 <tr key={r.id}>
@@ -79,7 +82,7 @@ export default async function HomePage({ searchParams }: { searchParams: Promise
                   <td>{r.product.name} v{r.product.version}</td>
                   <td><StatusBadge status={r.outcome} /></td>
                   <td>{r.status === "signed" ? <>signed: <StatusBadge status={r.decision ?? ""} /> by {r.signedBy}</> : "open"}</td>
-                  <td>{r.createdAt.toISOString().slice(0, 16).replace("T", " ")}</td>
+                  <td>{formatTime(r.createdAt, zone)}</td>
                 </tr>
               ))}
             </tbody>

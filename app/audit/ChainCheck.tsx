@@ -1,25 +1,26 @@
 import Link from "next/link";
 import { checkStoredRecords } from "@/lib/services/verify";
 import { AnchorStatus } from "./AnchorStatus";
+import { formatTime } from "@/lib/display/time";
 
 /**
  * The chain's head (cheap: a count and the newest hash) and, only when asked, the full check that
  * `corelag verify` makes without re-running reviews: every entry's hash, link and signature, and every
  * record against its latest entry. Doing that on every view would grow with the log.
  */
-export async function ChainCheck({ head, verify }: { head: { entries: number; seq: number | null; hash: string | null; at: Date | null }; verify: boolean }) {
+export async function ChainCheck({ head, verify, zone }: { head: { entries: number; seq: number | null; hash: string | null; at: Date | null }; verify: boolean; zone: string }) {
   const check = verify ? checkStoredRecords() : null;
   return (
     <div data-testid="chain-check">
       <p data-testid="chain-head">
         {head.entries} entries; newest #{head.seq ?? "–"}
-        {head.at && <> at {head.at.toISOString().slice(0, 19).replace("T", " ")} UTC</>}
+        {head.at && <> at {formatTime(head.at, zone, { seconds: true })}</>}
         {head.hash && <>, hash <code className="hash">{head.hash}</code></>}
       </p>
       {check ? (
         check.findings.length === 0 ? (
           <p data-testid="chain-status" className="status-pass">
-            Re-checked just now ({check.checked_at.slice(0, 19).replace("T", " ")} UTC): the chain is intact and signed, and every trace, definition and review matches its latest entry.
+            Re-checked just now ({formatTime(check.checked_at, zone, { seconds: true })}): the chain is intact and signed, and every trace, definition and review matches its latest entry.
           </p>
         ) : (
           <div data-testid="chain-status" className="status-fail">

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { AUDIT_ACTIONS, AUDIT_ENTITIES, type AuditFilter } from "@/lib/db/auditQueries";
-import { dayEndUtc, dayParam, dayStartUtc, listParamsSchema, nonEmpty } from "@/app/components/listParams";
+import { dayEnd, dayParam, dayStart, listParamsSchema, nonEmpty } from "@/app/components/listParams";
 
 /** The audit page's and the CSV export's filters, from the address bar (malformed values are ignored). */
 export const auditParamsSchema = listParamsSchema.extend({
@@ -16,9 +16,9 @@ export function parseAuditParams(raw: Record<string, string | string[] | undefin
   return auditParamsSchema.parse(nonEmpty(raw));
 }
 
-/** The storage filter: days are whole UTC days, "to" inclusive. */
-export function auditFilter(p: AuditParams): AuditFilter {
-  return { entity: p.entity, action: p.action, object: p.object || undefined, from: dayStartUtc(p.from), to: dayEndUtc(p.to), q: p.q };
+/** The storage filter: days are whole days in the display zone, "to" inclusive. */
+export function auditFilter(p: AuditParams, zone: string): AuditFilter {
+  return { entity: p.entity, action: p.action, object: p.object || undefined, from: dayStart(p.from, zone), to: dayEnd(p.to, zone), q: p.q };
 }
 
 /** The filters as address parameters (for links that keep them). */

@@ -3,16 +3,18 @@ import { queryAudit, auditHead, AUDIT_ACTIONS } from "@/lib/db/auditQueries";
 import { Pager } from "@/app/components/Pager";
 import { auditFilter, auditQueryParams, parseAuditParams } from "./filters";
 import { ChainCheck } from "./ChainCheck";
+import { displayZone } from "@/app/displayZone";
+import { formatTime, zoneLabel } from "@/lib/display/time";
 
 export const dynamic = "force-dynamic";
 
-const fmtUtc = (d: Date) => d.toISOString().slice(0, 19).replace("T", " ");
 const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review", key: "signing key" };
 
 export default async function AuditPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const raw = await searchParams;
   const p = parseAuditParams(raw);
-  const [list, head] = await Promise.all([queryAudit({ ...auditFilter(p), page: p.page }), auditHead()]);
+  const zone = await displayZone();
+  const [list, head] = await Promise.all([queryAudit({ ...auditFilter(p, zone), page: p.page }), auditHead()]);
   const params = auditQueryParams(p);
   const csv = new URLSearchParams(Object.entries(params).filter((e): e is [string, string] => !!e[1])).toString();
   const filtered = Object.values(params).some(Boolean);
@@ -20,7 +22,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
     <>
       <h1>Audit log</h1>
       <section className="card">
-        <ChainCheck head={head} verify={raw.verify === "1"} />
+        <ChainCheck head={head} verify={raw.verify === "1"} zone={zone} />
       </section>
       <section className="card">
         <form className="filters no-print" aria-label="Filter the audit log" data-testid="audit-filters">
@@ -36,8 +38,8 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
             </select>
           </label>
           <label>Object id <input name="object" defaultValue={p.object} size={26} placeholder="exact id" data-testid="filter-object" /></label>
-          <label>From (UTC) <input type="date" name="from" defaultValue={p.from} data-testid="filter-from" /></label>
-          <label>to (UTC) <input type="date" name="to" defaultValue={p.to} data-testid="filter-to" /></label>
+          <label>From (day, {zoneLabel(Date.now(), zone)}) <input type="date" name="from" defaultValue={p.from} data-testid="filter-from" /></label>
+          <label>to (inclusive) <input type="date" name="to" defaultValue={p.to} data-testid="filter-to" /></label>
           <label>Search <input type="search" name="q" defaultValue={p.q} maxLength={100} placeholder="name, title, id, hash, who" size={28} data-testid="search-input" /></label>
           <button type="submit" className="secondary">Show</button>
           {filtered && <Link href="/audit">Clear</Link>}
@@ -49,12 +51,12 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
         <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />
         {list.rows.length > 0 && (
           <table data-testid="audit-table">
-            <thead><tr><th className="num">#</th><th>When (UTC)</th><th>Action</th><th>Record</th><th>By</th><th>Details</th><th>Hash</th></tr></thead>
+            <thead><tr><th className="num">#</th><th>When</th><th>Action</th><th>Record</th><th>By</th><th>Details</th><th>Hash</th></tr></thead>
             <tbody>
               {list.rows.map((e) => (
                 <tr key={e.seq} data-testid={`audit-row-${e.seq}`}>
                   <td className="num">{e.seq}</td>
-                  <td style={{ whiteSpace: "nowrap" }}>{fmtUtc(e.at)}</td>
+                  <td style={{ whiteSpace: "nowrap" }}>{formatTime(e.at, zone, { seconds: true })}</td>
                   <td>{e.action}{e.format && <> <span data-testid="audit-format">({e.format})</span></>}{e.action === "verify" && <> <strong className={(e.details as { reproduced?: boolean }).reproduced ? "status-pass" : "status-fail"}>{(e.details as { reproduced?: boolean }).reproduced ? "reproduced" : "did not reproduce"}</strong></>}</td>
                   <td>
                     {e.entity === "key" ? "" : <>{ENTITY_WORDS[e.entity] ?? e.entity}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}</>}

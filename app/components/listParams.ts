@@ -1,4 +1,6 @@
+import { DateTime } from "luxon";
 import { z } from "zod";
+import { displayZoneOrUtc } from "@/lib/display/time";
 
 /**
  * The page number and search text of a list, from the address bar. Malformed values are ignored
@@ -17,6 +19,11 @@ export function nonEmpty(raw: Record<string, string | string[] | undefined>): Re
 /** A day as typed in a date input, YYYY-MM-DD; anything else is ignored. */
 export const dayParam = z.string().regex(/^\d{4}-\d{2}-\d{2}$/).refine((d) => !Number.isNaN(Date.parse(`${d}T00:00:00Z`))).optional().catch(undefined);
 
-/** The start of a UTC day, and the start of the day after (for an inclusive "to"). */
-export const dayStartUtc = (d: string | undefined) => (d ? new Date(`${d}T00:00:00Z`) : undefined);
-export const dayEndUtc = (d: string | undefined) => (d ? new Date(Date.parse(`${d}T00:00:00Z`) + 86_400_000) : undefined);
+/** The instant a day starts in a zone (midnight local time; the first instant of the day when midnight is skipped). */
+export function dayStart(d: string | undefined, zone: string): Date | undefined {
+  return d ? DateTime.fromISO(d, { zone: displayZoneOrUtc(zone) }).startOf("day").toJSDate() : undefined;
+}
+/** The instant the next day starts in a zone (for an inclusive "to"). */
+export function dayEnd(d: string | undefined, zone: string): Date | undefined {
+  return d ? DateTime.fromISO(d, { zone: displayZoneOrUtc(zone) }).startOf("day").plus({ days: 1 }).toJSDate() : undefined;
+}

@@ -2,6 +2,7 @@
 
 import Link from "next/link";
 import { useEffect, useState } from "react";
+import { formatTime } from "@/lib/display/time";
 
 interface Match { id: string; name: string; fileName: string; createdAt: string }
 
@@ -36,7 +37,7 @@ export function DuplicateWarning({ bytes }: { bytes: ArrayBuffer | null }) {
     <p className="caution" data-testid="duplicate-warning">
       This exact file (same SHA-256) is already stored as{" "}
       {matches.map((m, i) => (
-        <span key={m.id}>{i > 0 && ", "}<Link href={`/traces/${m.id}`}>{m.name}</Link> ({m.fileName}, uploaded {m.createdAt.slice(0, 16).replace("T", " ")} UTC)</span>
+        <span key={m.id}>{i > 0 && ", "}<Link href={`/traces/${m.id}`}>{m.name}</Link> ({m.fileName}, uploaded {formatTime(m.createdAt, Intl.DateTimeFormat().resolvedOptions().timeZone)})</span>
       ))}
       . Open it instead, or upload again only if you mean to import it with other settings.
     </p>

@@ -3,12 +3,14 @@ import { searchTraces } from "@/lib/db/traces";
 import { Pager, SearchBox } from "@/app/components/Pager";
 import { listParamsSchema, nonEmpty } from "@/app/components/listParams";
 import { TraceUploader } from "./TraceUploader";
+import { displayZone } from "@/app/displayZone";
+import { formatSpan } from "@/lib/display/time";
 
 export const dynamic = "force-dynamic";
 
 export default async function TracesPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const p = listParamsSchema.parse(nonEmpty(await searchParams));
-  const traces = await searchTraces({ q: p.q, page: p.page });
+  const [traces, zone] = await Promise.all([searchTraces({ q: p.q, page: p.page }), displayZone()]);
   const params = { q: p.q };
   return (
     <>
@@ -26,7 +28,7 @@ export default async function TracesPage({ searchParams }: { searchParams: Promi
         ) : (
           <table data-testid="trace-list">
             <thead>
-              <tr><th>Name</th><th>File</th><th className="num">Samples</th><th>From (UTC)</th><th>To (UTC)</th><th>Channels</th><th>Warnings</th><th>Reviews</th></tr>
+              <tr><th>Name</th><th>File</th><th className="num">Samples</th><th>Recorded</th><th>Channels</th><th>Warnings</th><th>Reviews</th></tr>
             </thead>
             <tbody>
               {traces.rows.map((t) => (
@@ -34,8 +36,7 @@ export default async function TracesPage({ searchParams }: { searchParams: Promi
                   <td><Link href={`/traces/${t.id}`}>{t.name}</Link></td>
                   <td>{t.fileName}</td>
                   <td className="num">{t.sampleCount}</td>
-                  <td>{t.startAt.toISOString().slice(0, 16).replace("T", " ")}</td>
-                  <td>{t.endAt.toISOString().slice(0, 16).replace("T", " ")}</td>
+                  <td>{formatSpan(t.startAt, t.endAt, zone)}</td>
                   <td>{t.hasProbe ? "air + product probe" : "air"}</td>
                   <td>{t.warnings.length || ""}</td>
                   <td>{t.reviewCount > 0 ? t.reviewCount : <Link href={`/reviews/new?trace=${t.id}`} className="status-hold">never reviewed</Link>}</td>

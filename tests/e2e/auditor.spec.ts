@@ -71,6 +71,7 @@ test("re-check this review: re-imported and re-run, shown, and recorded in the a
   // the review page remembers the last re-check
   await page.goto(`/reviews/${reviewId}`);
   await expect(page.getByTestId("recheck-last")).toContainText("reproduced");
+  await page.getByTestId("recheck").screenshot({ path: "test-results/review-recheck.png" });
 });
 
 test("the report shows every parameter of the product and limit set it used", async ({ page }) => {
@@ -82,6 +83,7 @@ test("the report shows every parameter of the product and limit set it used", as
   await expect(params.getByTestId("parameters-limits")).toContainText("core above 5 °C, at most 240 min in all");
   await expect(params.getByTestId("parameters-product")).toContainText(/SHA-256 [0-9a-f]{64}/);
   await expect(params).toContainText("No pack: the product's own surface coefficient was used.");
+  await params.screenshot({ path: "test-results/report-parameters.png" });
 });
 
 test("the audit log shows names, links, raw ids and export formats, filters, searches and exports CSV", async ({ page }) => {
@@ -139,6 +141,7 @@ test("uploading a file already stored warns and links to it; the trace page list
   await page.goto("/traces");
   await page.getByLabel("Logger file (CSV)").setInputFiles(routeFile);
   await expect(page.getByTestId("duplicate-warning")).toContainText("This exact file (same SHA-256) is already stored as");
+  await page.getByTestId("duplicate-warning").screenshot({ path: "test-results/upload-duplicate.png" });
   await expect(page.getByTestId("duplicate-warning").getByRole("link", { name: "Auditor route 7" })).toHaveAttribute("href", `/traces/${traceId}`);
   // another file: no warning
   await page.getByLabel("Logger file (CSV)").setInputFiles({ name: "fresh.csv", mimeType: "text/csv", buffer: Buffer.from("Time,Temp\n2026-01-01T00:00:00Z,4.1\n2026-01-01T00:01:00Z,4.2\n2026-01-01T00:02:00Z,4.4\n") });
@@ -150,6 +153,7 @@ test("uploading a file already stored warns and links to it; the trace page list
   await page.locator("#f-name").fill("Auditor route 7, again");
   await page.getByRole("button", { name: "Upload and import" }).click();
   await expect(page.getByTestId("same-file")).toContainText("Auditor route 7");
+  await page.screenshot({ path: "test-results/trace-original.png" });
 });
 
 test("the home page lists traces never reviewed; the traces list searches and counts reviews", async ({ page }) => {
@@ -161,6 +165,9 @@ test("the home page lists traces never reviewed; the traces list searches and co
   await page.getByRole("button", { name: "Search" }).click();
   await expect(page.getByTestId("trace-list").locator("tbody tr")).toHaveCount(1);
   await expect(page.getByTestId("trace-list")).toContainText("never reviewed");
+  await page.goto("/");
+  await page.screenshot({ path: "test-results/home-attention.png" });
+  await page.goto("/traces?q=auditor%20probe");
   await page.getByTestId("search-input").fill(routeSha.slice(0, 10));
   await page.getByRole("button", { name: "Search" }).click();
   await expect(page.getByTestId("trace-list")).toContainText("Auditor route 7");

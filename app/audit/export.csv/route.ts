@@ -1,6 +1,7 @@
 import { auditBatches } from "@/lib/db/auditQueries";
 import { auditCsvHeader, auditCsvRow } from "@/lib/review/auditCsv";
 import { auditFilter, parseAuditParams } from "../filters";
+import { displayZone } from "@/app/displayZone";
 
 export const dynamic = "force-dynamic";
 
@@ -16,7 +17,7 @@ export async function GET(req: Request) {
   const proto = req.headers.get("x-forwarded-proto") ?? url.protocol.replace(":", "");
   const origin = host ? `${proto}://${host}` : url.origin;
   const enc = new TextEncoder();
-  const batches = auditBatches(auditFilter(p));
+  const batches = auditBatches(auditFilter(p, await displayZone()));
   const stream = new ReadableStream<Uint8Array>({
     start(c) {
       c.enqueue(enc.encode(auditCsvHeader() + "\r\n"));

@@ -2,6 +2,8 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getDefinition, definitionVersions } from "@/lib/db/definitions";
 import { DefinitionParameters } from "@/app/components/DefinitionParameters";
+import { displayZone } from "@/app/displayZone";
+import { formatTime } from "@/lib/display/time";
 
 export const dynamic = "force-dynamic";
 
@@ -12,19 +14,19 @@ export default async function DefinitionPage({ params }: { params: Promise<{ id:
   const { id } = await params;
   const def = await getDefinition(id);
   if (!def) notFound();
-  const versions = await definitionVersions(def.lineage);
+  const [versions, zone] = await Promise.all([definitionVersions(def.lineage), displayZone()]);
   const latest = versions[versions.length - 1];
   return (
     <>
       <h1>{def.name} (version {def.version})</h1>
       <section className="card">
-        <p className="muted">Stored {def.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC. A stored version never changes; an edit adds a new version.</p>
+        <p className="muted">Stored {formatTime(def.createdAt, zone)}. A stored version never changes; an edit adds a new version.</p>
         <DefinitionParameters def={def} link={false} />
         <h2>Versions</h2>
         <ul data-testid="definition-versions">
           {versions.map((v) => (
             <li key={v.id}>
-              {v.id === def.id ? <strong>version {v.version}</strong> : <Link href={`/definitions/${v.id}`}>version {v.version}</Link>} · {v.name} · {v.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC · <code className="hash">{v.sha256.slice(0, 16)}…</code>
+              {v.id === def.id ? <strong>version {v.version}</strong> : <Link href={`/definitions/${v.id}`}>version {v.version}</Link>} · {v.name} · {formatTime(v.createdAt, zone)} · <code className="hash">{v.sha256.slice(0, 16)}…</code>
             </li>
           ))}
         </ul>

@@ -3,16 +3,16 @@
 import Link from "next/link";
 import { useActionState } from "react";
 import { recheckReviewAction, type RecheckState } from "@/app/actions/recheck";
+import { formatTime } from "@/lib/display/time";
 
 interface LastCheck { seq: number; at: string; reproduced: boolean }
 
-const fmt = (iso: string) => `${iso.slice(0, 19).replace("T", " ")} UTC`;
 
 /**
  * Re-imports the stored original bytes with the recorded settings and re-runs the engine on the recorded
  * definition versions, as `corelag verify --review` does; the result is shown and recorded in the audit log.
  */
-export function RecheckButton({ reviewId, last }: { reviewId: string; last: LastCheck | null }) {
+export function RecheckButton({ reviewId, last, zone }: { reviewId: string; last: LastCheck | null; zone: string }) {
   const [state, action, pending] = useActionState<RecheckState, FormData>(recheckReviewAction, {});
   const r = state.result;
   return (
@@ -26,14 +26,14 @@ export function RecheckButton({ reviewId, last }: { reviewId: string; last: Last
       {r && (
         <div data-testid="recheck-result" role="status">
           <p className={r.reproduced ? "status-pass" : "status-fail"}>
-            <strong>{r.reproduced ? "Reproduced" : "Did not reproduce"}</strong>{r.reproduced ? ": same trace series, same definitions, same result hash" : ""} ({fmt(r.at)}, recorded as <Link href={`/audit?object=${reviewId}&action=verify`}>audit entry #{r.seq}</Link>).
+            <strong>{r.reproduced ? "Reproduced" : "Did not reproduce"}</strong>{r.reproduced ? ": same trace series, same definitions, same result hash" : ""} ({formatTime(r.at, zone, { seconds: true })}, recorded as <Link href={`/audit?object=${reviewId}&action=verify`}>audit entry #{r.seq}</Link>).
           </p>
           {r.problems.length > 0 && <ul data-testid="recheck-problems">{r.problems.map((p) => <li key={p}>{p}</li>)}</ul>}
         </div>
       )}
       {!r && last && (
         <p className="muted" data-testid="recheck-last">
-          Last re-checked {fmt(last.at)}: {last.reproduced ? "reproduced" : "did not reproduce"} (<Link href={`/audit?object=${reviewId}&action=verify`}>audit entry #{last.seq}</Link>).
+          Last re-checked {formatTime(last.at, zone, { seconds: true })}: {last.reproduced ? "reproduced" : "did not reproduce"} (<Link href={`/audit?object=${reviewId}&action=verify`}>audit entry #{last.seq}</Link>).
         </p>
       )}
     </form>

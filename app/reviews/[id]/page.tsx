@@ -40,7 +40,7 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
       <RulesCard review={review} zone={zone} />
       <section className="card no-print">
         <h2 style={{ marginTop: 0 }}>Re-check</h2>
-        <RecheckButton reviewId={id} last={lastCheck ? { seq: lastCheck.seq, at: lastCheck.at.toISOString(), reproduced: (lastCheck.details as { reproduced?: boolean } | null)?.reproduced === true } : null} />
+        <RecheckButton reviewId={id} zone={zone} last={lastCheck ? { seq: lastCheck.seq, at: lastCheck.at.toISOString(), reproduced: (lastCheck.details as { reproduced?: boolean } | null)?.reproduced === true } : null} />
       </section>
       {review.status === "open" ? (
         <div className="grid2 no-print">

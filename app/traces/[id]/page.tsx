@@ -6,7 +6,7 @@ import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { MetadataList } from "@/app/components/MetadataList";
 import { displayZone } from "@/app/displayZone";
-import { formatSpan } from "@/lib/display/time";
+import { formatSpan, formatTime } from "@/lib/display/time";
 import { displaySeries } from "@/lib/display/series";
 
 export const dynamic = "force-dynamic";
@@ -36,7 +36,7 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
           {same.length > 0 && (
             <>
               <dt>Same file stored as</dt>
-              <dd data-testid="same-file">{same.map((t, i) => <span key={t.id}>{i > 0 && ", "}<Link href={`/traces/${t.id}`}>{t.name}</Link> ({t.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC)</span>)}</dd>
+              <dd data-testid="same-file">{same.map((t, i) => <span key={t.id}>{i > 0 && ", "}<Link href={`/traces/${t.id}`}>{t.name}</Link> (uploaded {formatTime(t.createdAt, zone)})</span>)}</dd>
             </>
           )}
           <dt>Samples</dt><dd data-testid="trace-samples">{meta.sampleCount}</dd>
