@@ -112,7 +112,7 @@ export function TraceUploader() {
     <div className="stack" style={{ maxWidth: "none" }}>
       <label htmlFor="f-file">
         Logger file (CSV)
-        <span className="hint">Delimited text (or an .xlsx workbook) with a time column and one or more temperature columns; metadata lines above the header are skipped.</span>
+        <span className="hint">Delimited text (or an .xlsx workbook) with a time column and one or more temperature columns; metadata lines above the header or below the data (serial number, start time) are kept with the trace.</span>
         <input id="f-file" type="file" accept=".csv,.txt,.tsv,.xlsx,text/csv,text/plain,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet" onChange={(e) => choose(e.target.files?.[0] ?? null)} />
       </label>
       <label htmlFor="f-name">
