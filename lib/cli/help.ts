@@ -51,9 +51,10 @@ and re-runs stored reviews (all, or one) to confirm they reproduce bit for bit. 
 corelag anchor, or a file holding it) it also fails when the chain no longer contains that head or was signed by
 another key. Prints JSON listing every finding with its kind, table, row and audit entry; exits 1 on any finding.
 Reads the database named by DATABASE_URL (environment, else .env).`,
-  anchor: `corelag anchor
+  anchor: `corelag anchor [--post]
 Prints the audit chain's head as one JSON line: {seq, hash, at, key_fingerprint, chain, anchored_at}. Keep it outside
-this machine (mail it, print it, commit it elsewhere); corelag verify --anchor then detects removed or rewritten entries.`,
+this machine (mail it, print it, commit it elsewhere); corelag verify --anchor then detects removed or rewritten entries.
+--post also sends the line to the URL in CORELAG_ANCHOR_WEBHOOK (exit 1 if that fails); run it daily from cron.`,
   key: `corelag key rotate
 Makes a new signing key, records it in the audit chain signed by the outgoing key, and deletes the old private key.`,
   seal: `corelag seal

@@ -41,13 +41,17 @@ export async function verifyCommand(argv: string[]): Promise<CommandResult> {
   return { stdout: JSON.stringify(report, null, 2) + "\n", code: report.ok ? 0 : 1 };
 }
 
-/** One JSON line: the chain's head, to be kept outside the database. */
+/** One JSON line: the chain's head, to be kept outside the database; --post also sends it to CORELAG_ANCHOR_WEBHOOK. */
 export async function anchorCommand(argv: string[]): Promise<CommandResult> {
-  parseArgs({ args: argv, options: {}, strict: true });
-  const { takeAnchor } = await import("../services/verify");
+  const { values } = parseArgs({ args: argv, options: { post: { type: "boolean" } }, strict: true });
+  const { takeAnchor, postAnchor } = await import("../services/verify");
   const r = takeAnchor();
   if (!r.anchor) return { stdout: "", stderr: `corelag anchor: nothing to anchor: ${r.reason}\n`, code: 1 };
-  return { stdout: JSON.stringify(r.anchor) + "\n", code: 0 };
+  const line = JSON.stringify(r.anchor) + "\n";
+  if (!values.post) return { stdout: line, code: 0 };
+  const { config } = await import("../config");
+  const posted = await postAnchor(r.anchor, config().CORELAG_ANCHOR_WEBHOOK);
+  return { stdout: line, stderr: posted.ok ? undefined : `corelag anchor: ${posted.message}\n`, code: posted.ok ? 0 : 1 };
 }
 
 /** `key rotate`: a new signing key, endorsed in the chain by the outgoing one. */

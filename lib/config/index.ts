@@ -17,6 +17,8 @@ const configSchema = z.object({
   CORELAG_SIGNING_KEY: z.string().min(1).optional(),
   /** Path of the audit signing key file; by default the database file's path with ".key" appended. */
   CORELAG_SIGNING_KEY_FILE: z.string().min(1).optional(),
+  /** Where `corelag anchor --post` sends the chain's head (an http(s) URL; run it daily from cron). */
+  CORELAG_ANCHOR_WEBHOOK: z.url({ protocol: /^https?$/, message: "CORELAG_ANCHOR_WEBHOOK must be an http(s) URL" }).optional(),
 });
 export type Config = z.infer<typeof configSchema>;
 

@@ -157,3 +157,17 @@ export function lastAnchorStatus(): AnchorStatus {
   return { anchor, contained: anchor ? anchorFindings.length === 0 : null, findings: anchorFindings, head: r.head, key: r.key, checked_at: r.checked_at };
 }
 
+
+/**
+ * Posts an anchor line to the configured webhook (CORELAG_ANCHOR_WEBHOOK), so a copy lands outside this
+ * machine; returns what happened in words. Meant to run once a day (cron) with `corelag anchor --post`.
+ */
+export async function postAnchor(anchor: Anchor, url: string | undefined, timeout_ms = 10_000): Promise<{ ok: boolean; message: string }> {
+  if (!url) return { ok: false, message: "CORELAG_ANCHOR_WEBHOOK is not set: there is nowhere to post the anchor" };
+  try {
+    const res = await fetch(url, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(anchor), signal: AbortSignal.timeout(timeout_ms) });
+    return res.ok ? { ok: true, message: `posted to ${new URL(url).host} (HTTP ${res.status})` } : { ok: false, message: `the webhook answered HTTP ${res.status}` };
+  } catch (e) {
+    return { ok: false, message: `the webhook could not be reached: ${(e as Error).message}` };
+  }
+}

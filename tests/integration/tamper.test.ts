@@ -525,6 +525,38 @@ describe("anchors", () => {
     expect(report.findings[0]!.message).toMatch(/^the anchor records entry \d+ .*but the chain ends at entry \d+: entries were removed$/);
   });
 
+  it("anchor --post sends the same line to CORELAG_ANCHOR_WEBHOOK; a failing webhook exits 1 and still prints the line", async () => {
+    const { createServer } = await import("node:http");
+    const bodies: string[] = [];
+    let status = 204;
+    const server = createServer((req, res) => {
+      let body = "";
+      req.on("data", (c: Buffer) => (body += c.toString("utf8")));
+      req.on("end", () => {
+        bodies.push(`${req.method} ${req.headers["content-type"]} ${body}`);
+        res.statusCode = status;
+        res.end();
+      });
+    });
+    await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
+    const url = `http://127.0.0.1:${(server.address() as { port: number }).port}/anchors`;
+    const file = copyOfDemo();
+    try {
+      process.env.CORELAG_ANCHOR_WEBHOOK = url;
+      const ok = await corelag(file, "anchor", "--post");
+      expect(ok.code).toBe(0);
+      expect(bodies).toEqual([`POST application/json ${ok.out.trim()}`]);
+      status = 500;
+      const failed = await corelag(file, "anchor", "--post");
+      expect(failed.code).toBe(1);
+      expect(JSON.parse(failed.out)).toMatchObject({ seq: JSON.parse(ok.out).seq });
+      expect(failed.err).toBe("corelag anchor: the webhook answered HTTP 500\n");
+    } finally {
+      delete process.env.CORELAG_ANCHOR_WEBHOOK;
+      server.close();
+    }
+  });
+
   it("an empty chain has nothing to anchor", async () => {
     const empty = path.join(dir, "empty.db");
     const { migrateDatabase } = await import("@/lib/db/migrate");
