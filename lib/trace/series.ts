@@ -23,9 +23,44 @@ export function medianInterval_s(t_s: Float64Array): number {
   if (t_s.length < 2) return 0;
   const d = new Float64Array(t_s.length - 1);
   for (let i = 1; i < t_s.length; i++) d[i - 1] = t_s[i]! - t_s[i - 1]!;
-  d.sort();
+  // Selection, not a sort: O(n) on average (a million intervals in milliseconds rather than a tenth of a second).
   const m = d.length >> 1;
-  return d.length % 2 ? d[m]! : (d[m - 1]! + d[m]!) / 2;
+  const upper = selectKth(d, m);
+  if (d.length % 2) return upper;
+  // After selecting the m-th, every value below index m is ≤ it: the lower middle is their maximum.
+  let lower = -Infinity;
+  for (let i = 0; i < m; i++) if (d[i]! > lower) lower = d[i]!;
+  return (lower + upper) / 2;
+}
+
+/**
+ * The k-th smallest value (from 0), by Hoare's quickselect with a median-of-three pivot; rearranges `a`
+ * so that a[k] holds it, smaller-or-equal values before and greater-or-equal after.
+ */
+export function selectKth(a: Float64Array, k: number): number {
+  let lo = 0, hi = a.length - 1;
+  while (hi > lo) {
+    const mid = (lo + hi) >> 1;
+    // median of three as the pivot value: sorted inputs (the usual case here) stay O(n)
+    const x = a[lo]!, y = a[mid]!, z = a[hi]!;
+    const pivot = x < y ? (y < z ? y : x < z ? z : x) : x < z ? x : y < z ? z : y;
+    let i = lo, j = hi;
+    while (i <= j) {
+      while (a[i]! < pivot) i++;
+      while (a[j]! > pivot) j--;
+      if (i <= j) {
+        const t = a[i]!;
+        a[i] = a[j]!;
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return a[k]!;
+  }
+  return a[k]!;
 }
 
 /**
