@@ -597,6 +597,34 @@ describe("anchors", () => {
   });
 });
 
+describe("upgrading a database written before entries carried content hashes and signatures", () => {
+  it("verify says the rows are unsealed and the chain unsigned; corelag seal records both once, and verify then passes", async () => {
+    const file = copyOfDemo();
+    // make it look like a database from before issue 12: no key entries, no signatures, no content hashes
+    sql(file, (d) => {
+      d.exec(`DROP TRIGGER "AuditEntry_no_delete"; DROP TRIGGER "AuditEntry_no_update"; DROP TRIGGER "AuditSignature_no_delete"`);
+      d.exec(`DELETE FROM "AuditEntry" WHERE "action" = 'key'; DELETE FROM "AuditSignature"`);
+      for (const e of d.prepare(`SELECT "seq", "details" FROM "AuditEntry"`).all() as { seq: number; details: string }[]) {
+        const x = JSON.parse(e.details) as Record<string, unknown>;
+        delete x.contentSha256;
+        d.prepare(`UPDATE "AuditEntry" SET "details" = ? WHERE "seq" = ?`).run(JSON.stringify(x), e.seq);
+      }
+      rehashChain(d);
+    });
+    const before = await verify(file);
+    expect(before.code).toBe(1);
+    expect(kinds(before.report)).toEqual(["chain-unsigned", "row-unsealed"]);
+    const rows = before.report.findings.filter((f) => f.kind === "row-unsealed").length;
+    const sealed = await corelag(file, "seal");
+    expect(sealed.code).toBe(0);
+    expect(JSON.parse(sealed.out)).toEqual({ sealed: rows });
+    const after = await verify(file);
+    expect(after.report.findings).toEqual([]);
+    expect(after.code).toBe(0);
+    expect(JSON.parse((await corelag(file, "seal")).out)).toEqual({ sealed: 0 });
+  });
+});
+
 describe("a damaged database file gives findings, exit 1, never 3", () => {
   it("a damaged index page: the integrity check reports it", async () => {
     const file = copyOfDemo();
