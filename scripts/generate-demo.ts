@@ -6,6 +6,7 @@ import path from "node:path";
 import { lumpedResponse } from "../lib/thermal/lumped";
 import { EXAMPLE_PROFILES } from "../lib/design/profile";
 import { mulberry32 } from "../lib/uncertainty/random";
+import { DEMO_DESIGN_NAMES } from "../lib/services/demoNames";
 
 
 const OUT = path.join(__dirname, "..", "public", "demo");
@@ -82,7 +83,7 @@ function main(): void {
   // For design: the plan's core rules only. Its air rule judges the route's air, which no pack changes
   // (the summer profile's air is above 8 °C for hours), so a sizing run against it could never pass.
   const designLimits = {
-    name: "Harrowgate tote design (core rules of the example plan)",
+    name: DEMO_DESIGN_NAMES.limits,
     sensor_accuracy_K: limits.sensor_accuracy_K,
     rules: limits.rules.filter((r) => r.channel !== "air"),
   };
@@ -99,7 +100,7 @@ function main(): void {
   writeFileSync(path.join(OUT, "probe-test.csv"), probeLines.join("\n") + "\n");
 
   const pack = {
-    name: "EPS tote, 25 mm, with one gel pack (share per tray)",
+    name: DEMO_DESIGN_NAMES.pack,
     h_outside_W_m2K: 8,
     h_inside_W_m2K: 4,
     emissivity: 0.9,
@@ -109,7 +110,7 @@ function main(): void {
   };
   writeFileSync(path.join(OUT, "tote.pack.json"), JSON.stringify(pack, null, 2) + "\n");
   const shaped = {
-    name: "Ready meal tray 450 g (shaped)",
+    name: DEMO_DESIGN_NAMES.product,
     shape: { kind: "box", x_m: 0.17, y_m: 0.12, z_m: 0.03 },
     mass_kg: 0.45,
     composition: { water: 0.72, protein: 0.08, fat: 0.06, carbohydrate: 0.12, fiber: 0.01, ash: 0.01 },

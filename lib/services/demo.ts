@@ -5,11 +5,14 @@ import { packSchema, productSchema } from "../thermal/definitions";
 import { EXAMPLE_PROFILES } from "../design/profile";
 import { limitSetSchema } from "../exposure/limits";
 import { createTrace } from "../db/traces";
-import { createDefinition } from "../db/definitions";
+import { createDefinition, listLatestDefinitions } from "../db/definitions";
 import { db } from "../db/client";
+import { DEMO_DESIGN_NAMES } from "./demoNames";
 import { runAndStoreReview, signOff } from "./reviews";
 
 const DEMO = path.resolve(__dirname, "..", "..", "public", "demo");
+/** The demo's design files (their names are DEMO_DESIGN_NAMES). */
+const DEMO_DESIGN = { product: "ready-meal-shaped.product.json", pack: "tote.pack.json", limits: "tote-design.limits.json" } as const;
 
 /** Loads the invented demo scenario (public/demo, written by scripts/generate-demo.ts) into an empty database. */
 export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
@@ -39,9 +42,25 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   // For the design pages: a probe test, a shaped product in a tote with a gel pack, and example profiles.
   const probeBytes = readFileSync(path.join(DEMO, "probe-test.csv"));
   await createTrace({ name: "Probe test, tray with simulant (demo)", fileName: "probe-test.csv", bytes: probeBytes, imported: importCsv(probeBytes) });
-  await createDefinition("product", productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal-shaped.product.json"), "utf8"))));
-  await createDefinition("pack", packSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "tote.pack.json"), "utf8"))));
-  await createDefinition("limits", limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "tote-design.limits.json"), "utf8"))));
+  await createDefinition("product", productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.product), "utf8"))));
+  await createDefinition("pack", packSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.pack), "utf8"))));
+  // the example plan without its air rule: a route's air is not something a pack can change
+  await createDefinition("limits", limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.limits), "utf8"))));
   for (const profile of EXAMPLE_PROFILES) await createDefinition("profile", profile);
   return "loaded";
+}
+
+/**
+ * The stored demo inputs for a sizing study (summer profile, shaped tray, tote, design limit set), as
+ * the size page's query; null when any of them is missing (no demo loaded, or renamed).
+ */
+export async function demoSizingQuery(): Promise<{ source: string; product: string; pack: string; limits: string } | null> {
+  const find = async (kind: "product" | "pack" | "limits" | "profile", name: string) => (await listLatestDefinitions(kind)).find((d) => d.name === name)?.id;
+  const [profile, product, pack, limits] = await Promise.all([
+    find("profile", EXAMPLE_PROFILES[0]!.name),
+    find("product", DEMO_DESIGN_NAMES.product),
+    find("pack", DEMO_DESIGN_NAMES.pack),
+    find("limits", DEMO_DESIGN_NAMES.limits),
+  ]);
+  return profile && product && pack && limits ? { source: `profile:${profile}`, product, pack, limits } : null;
 }

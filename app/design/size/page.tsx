@@ -5,6 +5,7 @@ import { profileSchema, profileSeries, type Profile } from "@/lib/design/profile
 import { packSchema, productSchema } from "@/lib/thermal/definitions";
 import { limitSetSchema } from "@/lib/exposure/limits";
 import { bridgeGaps } from "@/lib/trace/series";
+import { demoSizingQuery } from "@/lib/services/demo";
 import { DesignRunner } from "./DesignRunner";
 
 export const dynamic = "force-dynamic";
@@ -40,9 +41,15 @@ export default async function SizePage({ searchParams }: { searchParams: Promise
     else if (!k?.success && p.data.h_W_m2K === undefined) problem = "this product needs a pack (it has no surface coefficient of its own)";
     else setup = { t_s: Array.from(series.t_s), air_C: Array.from(series.air_C), product: p.data, pack: k?.success ? k.data : undefined, limits: l.data };
   }
+  const demo = q.source ? null : await demoSizingQuery();
   return (
     <>
       <h1>Size a pack for a route</h1>
+      {demo && (
+        <p data-testid="size-demo-link">
+          New here? <Link href={`/design/size?${new URLSearchParams(demo).toString()}`}>Size the demo tote&apos;s EPS wall for the summer route</Link>, against the core rules of the example plan.
+        </p>
+      )}
       <section className="card">
         <p className="muted">Choose the ambient (a stored <Link href="/design/profiles">profile</Link> or trace), the product, its pack and the limits it must meet.</p>
         <form style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end" }} aria-label="Design inputs">
