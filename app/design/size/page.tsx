@@ -52,7 +52,8 @@ export default async function SizePage({ searchParams }: { searchParams: Promise
       )}
       <section className="card">
         <p className="muted">Choose the ambient (a stored <Link href="/design/profiles">profile</Link> or trace), the product, its pack and the limits it must meet.</p>
-        <form style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end" }} aria-label="Design inputs">
+        {/* keyed by the query: after a client-side navigation (the demo link) the selects show the new choice, not the old DOM state */}
+        <form key={`${q.source}|${q.product}|${q.pack}|${q.limits}`} style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end" }} aria-label="Design inputs">
           <label>Ambient
             <select name="source" defaultValue={q.source ?? ""} data-testid="size-source">
               <option value="">(choose)</option>
@@ -67,7 +68,7 @@ export default async function SizePage({ searchParams }: { searchParams: Promise
         </form>
       </section>
       {problem && <p className="form-error" data-testid="size-problem">{problem}</p>}
-      {setup && <DesignRunner {...setup} />}
+      {setup && <DesignRunner key={`${q.source}|${q.product}|${q.pack}|${q.limits}`} {...setup} />}
     </>
   );
 }
