@@ -9,6 +9,7 @@ import { independentRules, type RuleNote } from "@/lib/design/ruleNotes";
 import { SizeOutcome } from "./SizeOutcome";
 import { limitLines } from "./limitLines";
 import { inputLabel } from "./inputLabel";
+import { fixed } from "@/lib/display/numbers";
 import { num } from "@/app/components/NumberField";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { Caution } from "@/app/components/Caution";
@@ -145,7 +146,7 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
         </div>
         {mc && (
           <div data-testid="mc-result" style={{ marginTop: "0.8rem" }}>
-            <p>{mc.samples} samples (seed {mc.seed}); the 5–95 % band of the core is at most ±{mc.half_width_K.toFixed(2)} K wide{mc.redraws ? `; ${mc.redraws} non-physical draws were repeated` : ""}.</p>
+            <p>{mc.samples} samples (seed {mc.seed}); the 5–95 % band of the core is at most ±{fixed(mc.half_width_K, 2)} K wide{mc.redraws ? `; ${mc.redraws} non-physical draws were repeated` : ""}.</p>
             <ul>{Object.entries(mc.fail_fraction).map(([id, f]) => <li key={id}>rule {id} fails in {(f * 100).toFixed(1)} % of samples</li>)}</ul>
             <TemperatureChart title="Core temperature band" height={260} times_ms={t_s.map((t) => t * 1000)}
               bands={[{ label: "Core 5–95 % band", color: "#23577a", lower: mc.p05, upper: mc.p95 }]}

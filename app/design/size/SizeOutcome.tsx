@@ -3,6 +3,7 @@
 import type { LimitSet } from "@/lib/exposure/limits";
 import type { SizingResult } from "@/lib/design/sizing";
 import { formatVariable } from "@/lib/design/vary";
+import { formatC } from "@/lib/display/numbers";
 import { CurveChart, type CurveLimit } from "@/app/components/CurveChart";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { limitLines } from "./limitLines";
@@ -23,7 +24,7 @@ export function SizeOutcome({ result, t_s, air_C, limits }: { result: SizeResult
   return (
     <div data-testid="size-result" style={{ marginTop: "0.8rem" }}>
       <p><strong data-testid="size-headline">{headline}</strong></p>
-      <p data-testid="size-reason">{result.reason[0]!.toUpperCase() + result.reason.slice(1)}.{result.metric_at_value !== null ? ` The ${metricWords} there is ${result.metric_at_value.toFixed(2)} °C.` : ""}</p>
+      <p data-testid="size-reason">{result.reason[0]!.toUpperCase() + result.reason.slice(1)}.{result.metric_at_value !== null ? ` The ${metricWords} there is ${formatC(result.metric_at_value)}.` : ""}</p>
       {result.rule_notes.length > 0 && (
         <>
           <p className="muted" style={{ marginBottom: 0 }}>Rules that no {d.name} in this range can bring to a pass:</p>
