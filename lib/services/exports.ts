@@ -4,6 +4,7 @@ import { logExport } from "../db/audit";
 import { canonicalJson, findingsCsv, seriesCsv } from "../review";
 import { bridgeGaps } from "../trace/series";
 import { sha256Hex } from "../trace/hash";
+import { verifyReviewRecord } from "./verify";
 
 export const REVIEW_EXPORT_FORMATS = ["series.csv", "findings.csv", "review.json"] as const;
 export type ReviewExportFormat = (typeof REVIEW_EXPORT_FORMATS)[number];
@@ -35,12 +36,21 @@ export async function exportReview(id: string, format: string): Promise<ReviewEx
       review.result,
     );
   } else {
+    // this review and its inputs checked against the signed chain as exported (before this export's own entry)
+    const check = verifyReviewRecord({ reviewId: review.id, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId });
     const record = {
       id: review.id,
       title: review.title,
       created_at: review.createdAt.toISOString(),
       status: review.status,
-      sign_off: review.status === "signed" ? { by: review.signedBy, at: review.signedAt?.toISOString(), decision: review.decision, comment: review.signComment } : null,
+      sign_off: review.status === "signed" ? { by: review.signedBy, at: review.signedAt?.toISOString(), decision: review.decision, comment: review.signComment, meaning: review.signMeaning } : null,
+      record_check: {
+        verified: check.ok,
+        checked_at: check.checked_at,
+        chain_head: check.head ? { seq: check.head.seq, hash: check.head.hash, at: check.head.at } : null,
+        key_fingerprint: check.head?.key_fingerprint ?? check.key.chain,
+        findings: check.findings.map((f) => ({ kind: f.kind, message: f.message, ...(f.row ? { row: f.row } : {}), ...(f.entry ? { entry: f.entry } : {}) })),
+      },
       corrects: review.correctsId,
       trace: { id: review.trace.id, file: review.trace.fileName, sha256: review.trace.sha256, samples: review.trace.sampleCount, import_settings: review.trace.importSettings },
       product: { id: review.product.id, lineage: review.product.lineage, version: review.product.version, sha256: review.product.sha256, definition: review.product.body },

@@ -87,6 +87,25 @@ describe("review records", () => {
     expect((await db.review.findUnique({ where: { id: reviewId } }))!.title).toBe("records");
   });
 
+  it("the review.json export carries the sign-off's meaning and the record check against the signed chain head", async () => {
+    const { exportReview } = await import("@/lib/services/exports");
+    const { listAudit } = await import("@/lib/db/audit");
+    const { keyFingerprint } = await import("@/lib/review/signature");
+    const { createPrivateKey } = await import("node:crypto");
+    const entries = await listAudit();
+    const out = await exportReview(reviewId, "review.json");
+    if (!out.ok) throw new Error(out.message);
+    const json = JSON.parse(out.body) as { sign_off: { meaning: string }; record_check: Record<string, unknown> };
+    expect(json.sign_off.meaning).toBe("I reviewed this record; the decision above is mine");
+    expect(json.record_check).toMatchObject({
+      verified: true,
+      chain_head: { seq: entries.length, hash: entries.at(-1)!.hash },
+      // the key file beside the database (created at the first write)
+      key_fingerprint: keyFingerprint(createPrivateKey(readFileSync(`${path.join(dir, "records.db")}.key`, "utf8"))),
+      findings: [],
+    });
+  });
+
   it("a correction is a new review that points back at the signed one", async () => {
     const { runAndStoreReview } = await import("@/lib/services/reviews");
     const { getReview } = await import("@/lib/db/reviews");
