@@ -1,6 +1,6 @@
 import { z } from "zod";
 import type { TraceSeries } from "../trace/series";
-import { bridgeGaps } from "../trace/series";
+import { bridgeGaps, selectKth } from "../trace/series";
 import type { ModelChoice, Pack, Product } from "../thermal/definitions";
 import { predict } from "../thermal/predict";
 import type { LimitSet } from "../exposure/limits";
@@ -53,29 +53,6 @@ function setAt(obj: Record<string, unknown>, parts: string[], value: number): vo
   o[parts[parts.length - 1]!] = value;
 }
 
-/** k-th smallest of a[0..n) in place (Hoare's quickselect): O(n), for percentiles of many columns. */
-function select(a: Float64Array, k: number): number {
-  let lo = 0, hi = a.length - 1;
-  while (lo < hi) {
-    const pivot = a[(lo + hi) >> 1]!;
-    let i = lo, j = hi;
-    while (i <= j) {
-      while (a[i]! < pivot) i++;
-      while (a[j]! > pivot) j--;
-      if (i <= j) {
-        const t = a[i]!;
-        a[i] = a[j]!;
-        a[j] = t;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else return a[k]!;
-  }
-  return a[k]!;
-}
 
 /**
  * Propagates input uncertainty by Monte Carlo with a seeded generator (same seed, same result):
@@ -139,9 +116,9 @@ export function monteCarlo(
   const column = new Float64Array(done);
   for (let i = 0; i < n; i++) {
     for (let s = 0; s < done; s++) column[s] = cores[s * n + i]!;
-    p05[i] = select(column, rank(0.05));
-    p50[i] = select(column, rank(0.5));
-    p95[i] = select(column, rank(0.95));
+    p05[i] = selectKth(column, rank(0.05));
+    p50[i] = selectKth(column, rank(0.5));
+    p95[i] = selectKth(column, rank(0.95));
     half = Math.max(half, (p95[i]! - p05[i]!) / 2);
   }
   hooks.onProgress?.(1);
