@@ -10,6 +10,7 @@ import { benchImport } from "./import";
 import { benchDesign } from "./design";
 import { benchCli } from "./cli";
 import { benchWeb } from "./web";
+import { benchBox } from "./multiD";
 
 
 function best<T>(runs: number, fn: () => T): { ms: number; value: T } {
@@ -77,6 +78,7 @@ benchImport();
 benchLumped();
 benchTimeBeyond();
 benchSphere();
+benchBox();
 benchDesign();
 benchCli();
 benchWeb().catch((e: unknown) => {

@@ -220,7 +220,8 @@ export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewCo
         }
       : {}),
     outcome: overallOutcome(findings),
-    cautions: [...CAUTIONS],
+    // what the model assumed that the reader must know (estimated freezing point, coolant treatment, 1-D shortcut)
+    cautions: [...CAUTIONS, ...pred.screening.notes],
   };
   return { result, core_C: pred.core, surface_C: pred.surface, mean_C: pred.mean, coolant_C: pred.coolant, airBridged_C: air };
 }

@@ -188,8 +188,8 @@ export type Pack = z.infer<typeof packSchema>;
 
 /**
  * Model choice: "auto" picks lumped when Bi < 0.1 over the whole temperature range and the product does
- * not cross its freezing range, conduction otherwise. "conduction" is 3-D for boxes and slabs, r–z for
- * cylinders, radial for spheres; "conduction-1d" is the 1-D shortcut (slab across its thickness, long
+ * not cross its freezing range, conduction otherwise. "conduction" is 3-D for boxes, r–z for
+ * cylinders, 1-D for slabs (across the thickness) and spheres; "conduction-1d" is the 1-D shortcut (slab across its thickness, long
  * cylinder, sphere of equal V/A for a box), kept by name.
  */
 export const modelChoiceSchema = z.enum(["auto", "lumped", "conduction", "conduction-1d"], { error: "model must be auto, lumped, conduction or conduction-1d" });

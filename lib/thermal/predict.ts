@@ -17,7 +17,7 @@ export const STEP_TOLERANCE_K = 0.01;
 /** Shells of the 1-D conduction model; the tests show the centre within 0.01 K of the series solution at this count. */
 export const DEFAULT_SHELLS = 40;
 /** Intervals per half-axis of the 3-D box grid and of the r–z cylinder grid (the tests show the centre within 0.1 K of the product solutions on a 20 K step). */
-export const DEFAULT_BOX_INTERVALS = 8;
+export const DEFAULT_BOX_INTERVALS = 6;
 export const DEFAULT_RZ_INTERVALS = 12;
 /** The freezing range that matters for model choice: most latent heat is released within 10 K below the initial freezing point (Tchigeov's ice fraction reaches 85 % of the water there). */
 const FREEZING_RANGE_K = 10;
@@ -98,7 +98,8 @@ function mean(a: Float64Array): number {
 function conductionKindFor(p: ResolvedProduct, choice: ModelChoice): ConductionKind {
   if (choice === "conduction-1d") return "1-D";
   const kind = p.product.shape?.kind;
-  if (kind === "box" || kind === "slab") return "3-D box";
+  // a slab is conducted across its thickness (its edges' area counted on the faces: the safe side)
+  if (kind === "box") return "3-D box";
   if (kind === "cylinder") return "r–z cylinder";
   return "1-D";
 }
@@ -180,6 +181,7 @@ function screen(p: ResolvedProduct, r: Resistances, rHot: Resistances, choice: M
   if (p.freezing.note) notes.push(p.freezing.note);
   if (p.product.respiration) notes.push(describeRespiration(p.product.respiration));
   const geometryNote = kind === "1-D" ? shortcutNote(p) : undefined;
+  if (geometryNote) notes.push(geometryNote);
   return {
     biot,
     tau_s: tau,
@@ -331,10 +333,7 @@ function solveChain(b: BuiltNetwork, p: ResolvedProduct, t: Float64Array, air: F
 function gridFor(p: ResolvedProduct, model: "lumped" | "conduction", kind: ConductionKind, options: PredictOptions): ProductGrid {
   if (model === "lumped") return lumpedGrid(p.area_m2);
   const shape = p.product.shape!;
-  if (kind === "3-D box" && (shape.kind === "box" || shape.kind === "slab")) {
-    const [x, y, z] = shape.kind === "box" ? [shape.x_m, shape.y_m, shape.z_m] : [shape.thickness_m, shape.width_m, shape.length_m];
-    return boxGrid(x / 2, y / 2, z / 2, options.intervals ?? DEFAULT_BOX_INTERVALS);
-  }
+  if (kind === "3-D box" && shape.kind === "box") return boxGrid(shape.x_m / 2, shape.y_m / 2, shape.z_m / 2, options.intervals ?? DEFAULT_BOX_INTERVALS);
   if (kind === "r–z cylinder" && shape.kind === "cylinder") {
     const n = options.intervals ?? DEFAULT_RZ_INTERVALS;
     return cylinderGrid(shape.radius_m, shape.length_m, n, n);

@@ -54,7 +54,7 @@ export function ReviewForm({ traces, products, packs, limits, initial }: { trace
         options={[
           { id: "auto", label: "auto: lumped when Bi < 0.1 and no freezing range is crossed, else conduction" },
           { id: "lumped", label: "lumped capacitance" },
-          { id: "conduction", label: "conduction (3-D box, r–z cylinder, radial sphere)" },
+          { id: "conduction", label: "conduction (3-D box, r–z cylinder, 1-D slab and sphere)" },
           { id: "conduction-1d", label: "1-D conduction shortcut" },
         ]}
         state={state}

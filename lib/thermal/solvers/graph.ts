@@ -151,7 +151,9 @@ function implicitSolve(net: GraphNetwork, w: Work, c: number, air: number, guess
       res[i] = S[i]! * r[i]!;
       bNorm += res[i]! * res[i]!;
     }
-    const stop = 1e-20 * bNorm;
+    // inexact Newton: a nonlinear network needs each correction only to 1e-6 (Newton iterates on);
+    // a linear one is solved by one correction, to 1e-10
+    const stop = (w.linear ? 1e-20 : 1e-12) * bNorm;
     if (it === 0) {
       y.set(guess);
       for (let i = 0; i < n; i++) tmp[i] = S[i]! * y[i]!;
