@@ -12,7 +12,7 @@ import { CAUTIONS } from "./cautions";
 import { monteCarlo, type UncertaintySpec } from "../uncertainty/monteCarlo";
 
 /** Bumped whenever a change to the engine could change a stored result. */
-export const ENGINE_VERSION = "0.3.0";
+export const ENGINE_VERSION = "0.4.0";
 
 /** Channels every review has; "probe" exists when the trace has a product-probe column. */
 export const MODELLED_CHANNELS = ["air", "core", "surface", "mean"] as const;

@@ -3,6 +3,7 @@ import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { spawnSync } from "node:child_process";
+import { ENGINE_VERSION } from "@/lib/review/runReview";
 
 // Review records on a real SQLite file: sign-off, immutability, the audit chain and reproduction.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-rec-"));
@@ -51,7 +52,7 @@ describe("review records", () => {
     const entries = await listAudit();
     // the first write records the signing key in the chain
     expect(entries.map((e) => `${e.action} ${e.entity}`)).toEqual(["key key", "import trace", "create definition", "create definition", "run review"]);
-    expect(entries[4]!.details).toMatchObject({ productId: ids.productId, limitsId: ids.limitsId, engineVersion: "0.3.0" });
+    expect(entries[4]!.details).toMatchObject({ productId: ids.productId, limitsId: ids.limitsId, engineVersion: ENGINE_VERSION });
   });
 
   it("a stored review reproduces bit for bit (verify --review)", () => {
