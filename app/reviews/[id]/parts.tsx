@@ -141,7 +141,7 @@ export function ScreeningCard({ review }: { review: StoredReview }) {
         <dt>C = m·cp</dt><dd>{sig(s.c_total_J_K, 3)} J/K</dd>
         <dt>Lc = V/A</dt><dd>{s.lc_m === null ? "not known" : `${sig(s.lc_m * 1000, 3)} mm`}</dd>
         <dt>Biot number</dt><dd data-testid="biot">{s.biot === null ? "not checked" : sig(s.biot, 2)}</dd>
-        <dt>Model</dt><dd data-testid="model">{s.model === "lumped" ? "lumped capacitance" : `1-D conduction (${solver.shells} shells)`}</dd>
+        <dt>Model</dt><dd data-testid="model">{s.model === "lumped" ? "lumped capacitance" : s.conduction_kind && s.conduction_kind !== "1-D" ? `${s.conduction_kind} conduction (${solver.nodes} nodes)` : `1-D conduction (${solver.shells} shells)`}</dd>
         <dt>Solver</dt>
         <dd>
           {solver.method}
