@@ -42,7 +42,7 @@ export function runCostSteps(input: ReviewInput): number {
   const samples = input.series.t_s.length;
   const mc = input.options?.uncertainty?.samples ?? 0;
   const model = input.options?.model ?? "auto";
-  const mayConduct = model === "conduction" || (model === "auto" && input.product.shape !== undefined);
+  const mayConduct = model === "conduction" || model === "conduction-1d" || (model === "auto" && input.product.shape !== undefined);
   return samples * (1 + mc) * (mayConduct ? 100 : 1);
 }
 
