@@ -25,6 +25,8 @@ export interface FindingsMeta {
   /** the sign-off: null fields while the review is open */
   decision: string | null;
   signComment: string | null;
+  /** what the signature means (21 CFR 11.50), as recorded at sign-off */
+  signMeaning: string | null;
   signedBy: string | null;
   signedAt: Date | null;
 }
@@ -43,6 +45,7 @@ export function findingsCsv(meta: FindingsMeta, r: ReviewResult): string {
     ["decision_comment", meta.signComment ?? ""],
     ["signed_by", meta.signedBy ?? ""],
     ["signed_at_utc", meta.signedAt ? meta.signedAt.toISOString() : ""],
+    ["signature_meaning", meta.signMeaning ?? ""],
     [],
     ["rule", "channel", "direction", "threshold_C", "cumulative_min", "longest_continuous_min", "extreme_C", "guard_K", "status", "reason"],
     ...r.rules.map((x) => [x.id, x.channel, x.direction, x.threshold_C, x.cumulative_min, x.longest_continuous_min, x.extreme_C, x.guard_K, x.status, x.reason]),

@@ -31,7 +31,7 @@ export async function exportReview(id: string, format: string): Promise<ReviewEx
     body = findingsCsv(
       {
         id: review.id, title: review.title, traceSha256: review.trace.sha256, resultSha256: review.resultSha256,
-        decision: review.decision, signComment: review.signComment, signedBy: review.signedBy, signedAt: review.signedAt,
+        decision: review.decision, signComment: review.signComment, signMeaning: review.signMeaning, signedBy: review.signedBy, signedAt: review.signedAt,
       },
       review.result,
     );

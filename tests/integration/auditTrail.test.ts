@@ -171,6 +171,9 @@ describe("exports and lists", () => {
     expect(lines).toContain("decision_comment,\"probe the pallet, then decide\"");
     expect(lines).toContain("signed_by,Ada Vintner");
     expect(lines).toContain(`signed_at_utc,${signed.signedAt!.toISOString()}`);
+    expect(signed.signMeaning).toBeTruthy();
+    expect(lines.filter((l) => l.startsWith("signature_meaning,"))).toHaveLength(1);
+    expect(lines.find((l) => l.startsWith("signature_meaning,"))!.length).toBeGreaterThan("signature_meaning,".length);
     expect(lines).toContain(`suggested_outcome,${signed.outcome}`);
     const open = await exportReview(ids.reviewId, "findings.csv");
     if (!open.ok) throw new Error(open.message);
