@@ -28,7 +28,7 @@ describe("corelag as a program", () => {
   it("--help lists every command on stdout and exits 0; a command's --help shows its options", () => {
     const r = corelag(["--help"]);
     expect(r.code).toBe(0);
-    for (const c of ["import", "predict", "review", "calibrate", "size", "verify"]) expect(r.stdout).toMatch(new RegExp(`^  ${c} `, "m"));
+    for (const c of ["import", "predict", "review", "calibrate", "size", "verify", "anchor", "key", "seal"]) expect(r.stdout).toMatch(new RegExp(`^  ${c} `, "m"));
     expect(r.stdout).toContain("3 unexpected failure");
     const review = corelag(["review", "--help"]);
     expect(review.code).toBe(0);
