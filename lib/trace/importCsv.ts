@@ -548,7 +548,12 @@ function orderAndDeduplicate(times: Float64Array, vals: Float64Array, k: number,
   if (conflicting.length) {
     warnings.push(`${conflicting.length} row(s) repeat an earlier timestamp with different readings; the first reading in file order was kept (rows ${listRows(conflicting)})`);
   }
-  const channel = (c: number) => Float64Array.from({ length: m }, (_, i) => v[i * k + c]!);
+  const channel = (c: number) => {
+    // a plain loop: Float64Array.from with a mapping function is about ten times slower on a million rows
+    const out = new Float64Array(m);
+    for (let i = 0; i < m; i++) out[i] = v[i * k + c]!;
+    return out;
+  };
   return { t_s: t.slice(0, m), air_C: channel(0), ...(k > 1 ? { probe_C: channel(1) } : {}) };
 }
 
