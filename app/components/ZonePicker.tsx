@@ -54,3 +54,8 @@ export function ZonePicker({ chosen }: { chosen: string }) {
     </label>
   );
 }
+
+/** In the browser: the zone the user chose in the header, else this browser's own. */
+export function clientDisplayZone(): string {
+  return readCookie(ZONE_COOKIE) || Intl.DateTimeFormat().resolvedOptions().timeZone;
+}

@@ -2,6 +2,7 @@ import Link from "next/link";
 import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
 import type { Pack } from "@/lib/thermal/definitions";
 import { PackEditor } from "./PackEditor";
+import { sigTrim } from "@/lib/display/numbers";
 
 export const dynamic = "force-dynamic";
 
@@ -24,8 +25,8 @@ export default async function PacksPage({ searchParams }: { searchParams: Promis
                 <tr key={p.id}>
                   <td>{p.name}</td>
                   <td className="num">{p.version}</td>
-                  <td>{p.body.layers.map((l) => `${l.name} ${Number((l.thickness_m * 1000).toPrecision(3))} mm`).join(", ") || "none"}</td>
-                  <td>{p.body.coolants.map((c) => `${c.name} ${c.mass_kg} kg`).join(", ") || "none"}</td>
+                  <td>{p.body.layers.map((l) => `${l.name} ${sigTrim(l.thickness_m * 1000, 3)} mm`).join(", ") || "none"}</td>
+                  <td>{p.body.coolants.map((c) => `${c.name} ${sigTrim(c.mass_kg, 3)} kg`).join(", ") || "none"}</td>
                   <td><Link href={`/packs?edit=${p.id}`}>Edit</Link></td>
                 </tr>
               ))}

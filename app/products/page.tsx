@@ -3,6 +3,7 @@ import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
 import { productSchema, type Pack, type Product } from "@/lib/thermal/definitions";
 import { screenDefinition } from "@/lib/thermal/predict";
 import { ProductEditor } from "./ProductEditor";
+import { sig, sigTrim } from "@/lib/display/numbers";
 
 export const dynamic = "force-dynamic";
 
@@ -39,9 +40,9 @@ export default async function ProductsPage({ searchParams }: { searchParams: Pro
                     <td>{p.name}</td>
                     <td className="num">{p.version}</td>
                     <td>{describeShape(body.data)}</td>
-                    <td>{body.data.composition ? `composition${body.data.freezing_point_C !== undefined ? `, freezes at ${body.data.freezing_point_C} °C` : ""}` : `cp ${body.data.properties!.cp_J_kgK} J/kg·K`}</td>
+                    <td>{body.data.composition ? `composition${body.data.freezing_point_C !== undefined ? `, freezes at ${sigTrim(body.data.freezing_point_C, 3)} °C` : ""}` : `cp ${sigTrim(body.data.properties!.cp_J_kgK, 4)} J/kg·K`}</td>
                     <td className="num">{s ? s.tau_readable : "with a pack"}</td>
-                    <td className="num">{s?.biot == null ? "–" : s.biot.toPrecision(2)}</td>
+                    <td className="num">{s?.biot == null ? "–" : sig(s.biot, 2)}</td>
                     <td><Link href={`/products?edit=${p.id}`}>Edit</Link></td>
                   </tr>
                 );

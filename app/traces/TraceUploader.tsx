@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import type { ImportOptions, ResolvedImportSettings } from "@/lib/trace/settings";
 import type { ImportedChannel } from "@/lib/trace/importCsv";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
+import { formatTime } from "@/lib/display/time";
 import { MetadataList } from "@/app/components/MetadataList";
 import { DuplicateWarning } from "./DuplicateWarning";
 
@@ -29,7 +30,8 @@ type Phase =
   | { kind: "refused"; message: string }
   | { kind: "uploading"; fraction: number; result: PreviewResult };
 
-const iso = (t_s: number) => new Date(t_s * 1000).toISOString().replace(".000Z", "Z");
+/** Preview times in the import zone the user chose (the zone the file's times are read in), else UTC. */
+const at = (t_s: number, zone: string, seconds = false) => formatTime(t_s * 1000, zone, { seconds });
 const pct = (f: number) => `${Math.round(f * 100)} %`;
 
 /**
@@ -107,6 +109,7 @@ export function TraceUploader() {
   const set = (patch: Partial<ImportOptions>) => setOptions((o) => JSON.parse(JSON.stringify({ ...o, ...patch })) as ImportOptions);
   const result = phase.kind === "preview" || phase.kind === "uploading" ? phase.result : null;
   const s = result?.settings;
+  const previewZone = options.timeZone ?? "UTC";
 
   return (
     <div className="stack" style={{ maxWidth: "none" }}>
@@ -189,7 +192,7 @@ export function TraceUploader() {
         <section data-testid="preview">
           <h3 style={{ margin: "0.4rem 0" }}>Preview</h3>
           <p data-testid="preview-summary">
-            {result.samples.toLocaleString("en")} samples from {iso(result.start_s)} to {iso(result.end_s)}; {s!.source === "xlsx" ? `workbook sheet '${s!.sheet}'` : s!.encoding}, delimiter {JSON.stringify(s!.delimiter)}, header on row {s!.headerRow}, time
+            {result.samples.toLocaleString("en")} samples from {at(result.start_s, previewZone)} to {at(result.end_s, previewZone)}; {s!.source === "xlsx" ? `workbook sheet '${s!.sheet}'` : s!.encoding}, delimiter {JSON.stringify(s!.delimiter)}, header on row {s!.headerRow}, time
             {s!.dateColumn ? ` from '${s!.dateColumn}' + '${s!.timeColumn}'` : ` from '${s!.timeColumn}'`} ({s!.timeFormat}{s!.timeFormat === "datetime" ? `, ${s!.dateOrder}, ${s!.timeZone}` : ""}); air from &apos;{s!.airColumn}&apos; in {s!.airUnit === "K" ? "K" : `°${s!.airUnit}`}
             {s!.productColumn ? `; product probe from '${s!.productColumn}'` : ""}; decimal {JSON.stringify(s!.decimal)}.
           </p>
@@ -209,12 +212,12 @@ export function TraceUploader() {
               </table>
             </div>
             <div>
-              <h4>As read (UTC, °C)</h4>
+              <h4>As read (°C; times in {previewZone})</h4>
               <table data-testid="preview-parsed">
                 <thead><tr><th>time</th><th className="num">air</th>{s!.productColumn && <th className="num">probe</th>}</tr></thead>
                 <tbody>
                   {result.first.slice(0, 8).map((r) => (
-                    <tr key={r.t_s}><td>{iso(r.t_s)}</td><td className="num">{Number.isNaN(r.air_C) || r.air_C === null ? "gap" : r.air_C.toFixed(2)}</td>{s!.productColumn && <td className="num">{r.probe_C === null || Number.isNaN(r.probe_C) ? "gap" : r.probe_C.toFixed(2)}</td>}</tr>
+                    <tr key={r.t_s}><td>{at(r.t_s, previewZone, true)}</td><td className="num">{Number.isNaN(r.air_C) || r.air_C === null ? "gap" : r.air_C.toFixed(2)}</td>{s!.productColumn && <td className="num">{r.probe_C === null || Number.isNaN(r.probe_C) ? "gap" : r.probe_C.toFixed(2)}</td>}</tr>
                   ))}
                 </tbody>
               </table>

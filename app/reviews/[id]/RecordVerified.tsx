@@ -1,14 +1,15 @@
 import { verifyReviewRecord } from "@/lib/services/verify";
 import { shortFingerprint } from "@/lib/review/signature";
 
-const utc = (iso: string) => `${iso.slice(0, 19).replace("T", " ")} UTC`;
+import { formatTime } from "@/lib/display/time";
 
 /**
  * "Verified at TIME against chain head N, key FINGERPRINT": this review, its trace and its definitions
  * compared with the signed audit chain as the page is rendered (no engine re-run; that is the re-check).
  * On the printed report it also states the chain's head at printing time, in full.
  */
-export function RecordVerified({ review, printing = false }: { review: { id: string; traceId: string; productId: string; packId: string | null; limitsId: string }; printing?: boolean }) {
+export function RecordVerified({ review, printing = false, zone = "UTC" }: { review: { id: string; traceId: string; productId: string; packId: string | null; limitsId: string }; printing?: boolean; zone?: string }) {
+  const utc = (iso: string) => formatTime(iso, zone, { seconds: true });
   const v = verifyReviewRecord({ reviewId: review.id, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId });
   const head = v.head;
   const key = head?.key_fingerprint ?? v.key.chain;

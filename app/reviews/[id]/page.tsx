@@ -31,7 +31,7 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
         <a href={`/reviews/${id}/export/review.json`} data-testid="export-json">whole review (JSON)</a>
       </p>
       <ReviewHeader review={review} zone={zone} />
-      <RecordVerified review={review} />
+      <RecordVerified review={review} zone={zone} />
       <ReviewChart review={review} series={trace.series} zone={zone} />
       <div className="grid2">
         <ScreeningCard review={review} />

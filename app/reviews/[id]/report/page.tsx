@@ -24,7 +24,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
       <h1>Corelag review report: {review.title}</h1>
       <p className="muted">Report generated {formatTime(new Date(), zone)} from review {review.id}.</p>
       <ReviewHeader review={review} zone={zone} />
-      <RecordVerified review={review} printing />
+      <RecordVerified review={review} printing zone={zone} />
       <ReviewChart review={review} series={trace.series} zone={zone} />
       <section className="card" data-testid="report-parameters">
         <h2 style={{ marginTop: 0 }}>Inputs used</h2>
