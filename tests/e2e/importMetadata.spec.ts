@@ -10,7 +10,7 @@ test("metadata lines above the header are previewed and stored; the UTC assumpti
   await page.goto("/traces");
   await page.getByLabel("Logger file (CSV)").setInputFiles({ name: "a1234.csv", mimeType: "text/csv", buffer: Buffer.from(FILE) });
   // before: "row 2, column 'Logger serial': 'Start' is not a number"
-  await expect(page.getByTestId("preview-summary")).toContainText("3 samples from 2026-03-28T23:00:00Z to 2026-03-28T23:30:00Z");
+  await expect(page.getByTestId("preview-summary")).toContainText("3 samples from 2026-03-28 23:00 UTC to 2026-03-28 23:30 UTC");
   await expect(page.getByTestId("preview-summary")).toContainText("header on row 4");
   await expect(page.getByTestId("preview-warnings")).toContainText(UTC);
   const meta = page.getByTestId("preview-metadata");
@@ -32,7 +32,14 @@ test("choosing the logger's zone removes the UTC warning and moves the times", a
   await page.locator("summary", { hasText: "Import settings" }).click();
   await page.getByTestId("opt-tz").fill("Europe/Berlin");
   await page.getByTestId("opt-tz").blur();
-  // 28 March 2026 23:00 in Berlin is CET, UTC+1 (summer time starts on 29 March at 02:00)
-  await expect(page.getByTestId("preview-summary")).toContainText("3 samples from 2026-03-28T22:00:00Z to 2026-03-28T22:30:00Z");
+  // 28 March 2026 23:00 in Berlin is CET, UTC+1 (summer time starts on 29 March at 02:00); the preview
+  // shows times in the chosen zone, named, and the stored instants are an hour earlier in UTC
+  await expect(page.getByTestId("preview-summary")).toContainText("3 samples from 2026-03-28 23:00 CET to 2026-03-28 23:30 CET");
   await expect(page.getByTestId("preview-warnings")).toHaveCount(0);
+  await page.getByRole("button", { name: "Upload and import" }).click();
+  // the trace page shows its times in its import zone; in UTC they are an hour earlier
+  await expect(page.getByTestId("trace-span")).toHaveText("2026-03-28 23:00 – 23:30 CET");
+  await page.getByTestId("zone-picker").selectOption("UTC");
+  await expect(page.getByTestId("trace-span")).toHaveText("2026-03-28 22:00 – 22:30 UTC");
+  await page.getByTestId("zone-picker").selectOption("");
 });
