@@ -142,6 +142,11 @@ export function TraceUploader() {
             <label>Time zone for times without an offset
               <input defaultValue={options.timeZone ?? s?.timeZone ?? "UTC"} onBlur={(e) => set({ timeZone: e.target.value.trim() || undefined })} data-testid="opt-tz" />
             </label>
+            <label>Encoding
+              <select value={options.encoding ?? ""} onChange={(e) => set({ encoding: (e.target.value || undefined) as ImportOptions["encoding"] })} data-testid="opt-encoding">
+                <option value="">detect{s ? ` (${s.encoding})` : ""}</option><option value="utf-8">UTF-8</option><option value="utf-16le">UTF-16 LE</option><option value="utf-16be">UTF-16 BE</option><option value="windows-1252">Windows-1252</option>
+              </select>
+            </label>
             <label>Date order
               <select value={options.dateOrder ?? ""} onChange={(e) => set({ dateOrder: (e.target.value || undefined) as ImportOptions["dateOrder"] })} data-testid="opt-date-order">
                 <option value="">detect{s ? ` (${s.dateOrder})` : ""}</option><option value="dmy">day first (dmy)</option><option value="mdy">month first (mdy)</option><option value="ymd">year first (ymd)</option>

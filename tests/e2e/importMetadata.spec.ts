@@ -43,3 +43,15 @@ test("choosing the logger's zone removes the UTC warning and moves the times", a
   await expect(page.getByTestId("trace-span")).toHaveText("2026-03-28 22:00 – 22:30 UTC");
   await page.getByTestId("zone-picker").selectOption("");
 });
+
+test("Shift-JIS text is refused with the reason, and the encoding can be chosen instead", async ({ page }) => {
+  await page.goto("/traces");
+  // 日時,温度 in Shift-JIS (93 FA 8E 9E 2C 89 B7 93 78), then two rows
+  const sjis = Buffer.concat([Buffer.from([0x93, 0xfa, 0x8e, 0x9e, 0x2c, 0x89, 0xb7, 0x93, 0x78, 0x0a]), Buffer.from("2026-03-02T06:00:00Z,3.1\n2026-03-02T06:05:00Z,3.2\n")]);
+  await page.getByLabel("Logger file (CSV)").setInputFiles({ name: "sjis.csv", mimeType: "text/csv", buffer: sjis });
+  await expect(page.getByTestId("form-error")).toContainText("sjis.csv: the file is neither UTF-8 nor Windows-1252 text");
+  await expect(page.getByRole("button", { name: "Upload and import" })).toBeDisabled();
+  // the user says what it is: read as Windows-1252 on purpose
+  await page.getByTestId("opt-encoding").selectOption("windows-1252");
+  await expect(page.getByTestId("preview-summary")).toContainText("2 samples from 2026-03-02T06:00:00Z; windows-1252");
+});
