@@ -187,12 +187,18 @@ export async function verifyStoredReview(id: string): Promise<ReproductionCheck>
     if (def && sha256Hex(canonicalJson(def.body)) !== def.sha256) problems.push(`definition ${def.name} v${def.version} no longer matches its hash`);
   }
   if (review.engineVersion !== ENGINE_VERSION) problems.push(`recorded with engine ${review.engineVersion}; this is engine ${ENGINE_VERSION}`);
+  // A stored definition that today's schema refuses (a range added since) is named, not dumped as zod issues.
+  const checked = <T>(schema: z.ZodType<T>, noun: string, def: { name: string; version: number; body: unknown }): T => {
+    const r = schema.safeParse(def.body);
+    if (!r.success) throw new Error(storedRefusal(noun, def, r.error));
+    return r.data;
+  };
   try {
     const comp = runReview({
       series: trace.series,
-      product: productSchema.parse(review.product.body),
-      pack: review.pack ? packSchema.parse(review.pack.body) : undefined,
-      limits: limitSetSchema.parse(review.limits.body),
+      product: checked(productSchema, "product", review.product),
+      pack: review.pack ? checked(packSchema, "pack", review.pack) : undefined,
+      limits: checked(limitSetSchema, "limit set", review.limits),
       options: review.options as unknown as ReviewOptions,
       gapMultiple: trace.meta.importSettings.gapMultiple,
     });
