@@ -1,5 +1,37 @@
+import { unzipSync } from "fflate";
 import readXlsxFile from "read-excel-file/universal";
 import { TraceImportError } from "./errors";
+
+/**
+ * The most a workbook may inflate to, in bytes, before it is read. A sheet's XML takes about 150 bytes
+ * per row of three cells, so 100 MB is over half a million rows; larger logs import faster as CSV. Checked
+ * from the archive's directory without inflating anything, so a "zip bomb" (a small file that inflates
+ * to gigabytes) is refused at once instead of holding the server for minutes.
+ */
+export const MAX_WORKBOOK_INFLATED_BYTES = 100 * 1024 * 1024;
+
+/** The total size the archive's entries declare once inflated (NaN when the archive cannot be read); throws when it is over the limit. */
+export function checkWorkbookSize(bytes: Uint8Array, limit = MAX_WORKBOOK_INFLATED_BYTES): number {
+  let total = 0;
+  try {
+    // The filter sees each entry's declared size and, returning false, inflates nothing.
+    unzipSync(bytes, {
+      filter: (f) => {
+        total += f.originalSize;
+        return false;
+      },
+    });
+  } catch {
+    // Not a readable archive: the workbook reader says why, in the words the import reports.
+    return Number.NaN;
+  }
+  if (total > limit) {
+    throw new TraceImportError(
+      `the workbook inflates to ${(total / 1048576).toFixed(0)} MB, more than the ${(limit / 1048576).toFixed(0)} MB a workbook may hold; export the sheet as CSV and import that`,
+    );
+  }
+  return total;
+}
 
 /** A .xlsx workbook is a zip archive: it starts with the local-file signature PK\x03\x04. */
 export function looksLikeXlsx(bytes: Uint8Array): boolean {
@@ -36,7 +68,8 @@ function cellText(v: unknown): string {
  * break), for the same import as a text export; tabs leave a decimal comma in text cells readable.
  * The first sheet unless one is named.
  */
-export async function xlsxToCsvText(bytes: Uint8Array, sheet?: string): Promise<{ text: string; sheet: string }> {
+export async function xlsxToCsvText(bytes: Uint8Array, sheet?: string, maxInflatedBytes = MAX_WORKBOOK_INFLATED_BYTES): Promise<{ text: string; sheet: string }> {
+  checkWorkbookSize(bytes, maxInflatedBytes);
   let sheets: Array<{ sheet: string; data: unknown[][] }>;
   try {
     // a copy into its own ArrayBuffer: a Node Buffer may be a view into a larger shared pool
