@@ -64,8 +64,10 @@ function Preview({ def, pack, atC }: { def: unknown; pack: Pack | undefined; atC
   if (!pack && parsed.data.h_W_m2K === undefined) return <p className="muted" data-testid="product-preview">Give h or choose a pack to preview with.</p>;
   let s, r;
   try {
-    s = screenDefinition(parsed.data, pack);
-    r = resolveProduct(parsed.data);
+    // the range from the initial temperature to the one shown: a freezing point is estimated when it reaches below 0 °C
+    const t0 = parsed.data.initial_C;
+    s = screenDefinition(parsed.data, pack, "auto", t0, { lo_C: Math.min(t0, atC), hi_C: Math.max(t0, atC) });
+    r = resolveProduct(parsed.data, Math.min(t0, atC));
   } catch (e) {
     return <p className="field-error" data-testid="product-preview">{(e as Error).message}</p>;
   }
@@ -87,6 +89,7 @@ function Preview({ def, pack, atC }: { def: unknown; pack: Pack | undefined; atC
         <dt>tau = R·C</dt><dd data-testid="preview-tau">{s.tau_readable}</dd>
         <dt>Biot number</dt><dd>{s.biot === null ? "not known" : s.biot.toPrecision(2)}</dd>
         <dt>Model (auto)</dt><dd data-testid="preview-model">{s.model}: {s.reason}</dd>
+        {s.notes.length > 0 && <><dt>Notes</dt><dd data-testid="preview-notes">{s.notes.join("; ")}</dd></>}
       </dl>
       <ResistanceTable items={s.resistances} />
     </div>
