@@ -139,4 +139,24 @@ describe("multi-dimensional energy balance", () => {
     expect(Math.abs(p.solver.energy_residual_J!)).toBeLessThan(1e-4);
     expect(p.solver.grid).toMatch(/3-D box/);
   });
+
+  it("a finite cylinder from composition with respiration and a coolant in contact closes to round-off", () => {
+    const t = times(73, 300);
+    const air = Float64Array.from(t, (ti) => 8 + 12 * Math.sin(ti / 5000));
+    const product: Product = {
+      name: "cabbage-like",
+      shape: { kind: "cylinder", radius_m: 0.08, length_m: 0.12 },
+      composition: { water: 0.92, protein: 0.013, fat: 0.001, carbohydrate: 0.056, fiber: 0.002, ash: 0.008 },
+      initial_C: 4,
+      respiration: { model: "becker-fricke", f: 6.0e-4, g: 2.6 },
+    };
+    const pack: Pack = {
+      name: "crate", h_outside_W_m2K: 10, h_inside_W_m2K: 6, emissivity: 0.8, area_m2: 0.25, layers: [],
+      coolants: [{ name: "ice pack", mass_kg: 0.4, melt_C: 0, latent_J_kg: 333_600, cp_solid_J_kgK: 2050, cp_liquid_J_kgK: 4180, initial_C: -15, area_m2: 0.04, contact_area_m2: 0.01, h_contact_W_m2K: 50 }],
+    };
+    const p = predict(product, pack, t, air, { model: "conduction" });
+    expect(p.solver.grid).toMatch(/r and z/);
+    expect(p.solver.generated_J!).toBeGreaterThan(0);
+    expect(Math.abs(p.solver.energy_residual_J!)).toBeLessThan(1e-4);
+  });
 });
