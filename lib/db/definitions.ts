@@ -22,12 +22,26 @@ function toStored<T>(row: { id: string; kind: string; lineage: string; version: 
   return { ...row, kind: row.kind as DefinitionKind, body: row.body as T };
 }
 
+type Tx = Parameters<Parameters<typeof db.$transaction>[0]>[0];
+
+/**
+ * Inserts one definition version with its body as the exact JSON text JSON.stringify gives. Prisma 6.19's
+ * Json write path re-parses numbers without correct rounding (0.1 + 0.2 is stored as 0.3, a fitted
+ * 0.0069124423963133645 loses its last digit), so the stored body would no longer hash to the SHA-256
+ * computed from the validated body, and verify would report a definition nobody changed. Reading back
+ * through Prisma is exact. (A second database needs its JSON cast here, e.g. `::jsonb` on PostgreSQL.)
+ */
+async function insertDefinition(tx: Tx, d: { kind: string; lineage: string; version: number; name: string; body: unknown }) {
+  const id = randomUUID().replace(/-/g, "");
+  const sha256 = sha256Hex(canonicalJson(d.body));
+  await tx.$executeRaw`INSERT INTO "Definition" ("id", "kind", "lineage", "version", "name", "body", "sha256", "createdAt") VALUES (${id}, ${d.kind}, ${d.lineage}, ${d.version}, ${d.name}, ${JSON.stringify(d.body)}, ${sha256}, ${new Date()})`;
+  return tx.definition.findUniqueOrThrow({ where: { id } });
+}
+
 /** A new definition, version 1 of a new lineage. `body` must already be validated. */
 export async function createDefinition<T extends { name: string }>(kind: DefinitionKind, body: T, actor = "web"): Promise<StoredDefinition<T>> {
   return db.$transaction(async (tx) => {
-    const row = await tx.definition.create({
-      data: { kind, lineage: randomUUID(), version: 1, name: body.name, body: body as object, sha256: sha256Hex(canonicalJson(body)) },
-    });
+    const row = await insertDefinition(tx, { kind, lineage: randomUUID(), version: 1, name: body.name, body });
     await appendAudit(tx, { action: "create", entity: "definition", entityId: row.id, actor, details: { kind, name: row.name, lineage: row.lineage, version: 1, sha256: row.sha256 }, contentSha256: definitionContentHash(row) });
     return toStored<T>(row);
   });
@@ -38,9 +52,7 @@ export async function reviseDefinition<T extends { name: string }>(lineage: stri
   return db.$transaction(async (tx) => {
     const latest = await tx.definition.findFirst({ where: { lineage }, orderBy: { version: "desc" } });
     if (!latest) throw new Error(`no definition with lineage ${lineage}`);
-    const row = await tx.definition.create({
-      data: { kind: latest.kind, lineage, version: latest.version + 1, name: body.name, body: body as object, sha256: sha256Hex(canonicalJson(body)) },
-    });
+    const row = await insertDefinition(tx, { kind: latest.kind, lineage, version: latest.version + 1, name: body.name, body });
     await appendAudit(tx, {
       action: "edit",
       entity: "definition",

@@ -117,6 +117,22 @@ describe("review records", () => {
     expect(original!.status).toBe("signed");
   });
 
+  it("a definition keeps every digit of its numbers, so its stored SHA-256 still matches and verify stays quiet", async () => {
+    const dbm = await import("@/lib/db");
+    const { canonicalJson } = await import("@/lib/review/canonical");
+    const { sha256Hex } = await import("@/lib/trace/hash");
+    // 0.1 + 0.2 = 0.30000000000000004 in IEEE 754 doubles; the other is a fitted value with 20 significant digits
+    const body = { name: "full precision", a: 0.1 + 0.2, b: 0.0069124423963133645 };
+    const d = await dbm.createDefinition("profile", body);
+    const back = (await dbm.getDefinition<typeof body>(d.id))!;
+    expect(back.body.a).toBe(0.30000000000000004);
+    expect(back.body.b).toBe(0.0069124423963133645);
+    expect(sha256Hex(canonicalJson(back.body))).toBe(back.sha256);
+    const r = verifyCli();
+    expect(r.out.findings).toEqual([]);
+    expect(r.code).toBe(0);
+  });
+
   it("the database refuses to change or delete audit entries", async () => {
     const { db } = await import("@/lib/db/client");
     await expect(db.auditEntry.update({ where: { seq: 1 }, data: { actor: "x" } })).rejects.toThrow();
