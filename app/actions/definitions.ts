@@ -6,6 +6,7 @@ import { packSchema, productSchema } from "@/lib/thermal/definitions";
 import { limitSetSchema } from "@/lib/exposure/limits";
 import { profileSchema } from "@/lib/design/profile";
 import { createDefinition, getDefinition, reviseDefinition, type DefinitionKind } from "@/lib/db/definitions";
+import { isDiskFull } from "@/lib/db/errors";
 import { fieldErrors, formValues, type FormState } from "@/lib/validation";
 
 /**
@@ -24,12 +25,17 @@ async function save<S extends z.ZodType<{ name: string }>>(kind: DefinitionKind,
   const parsed = schema.safeParse(body);
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
   const lineage = form.get("lineage");
-  if (typeof lineage === "string" && lineage !== "") {
-    const current = await getDefinition(String(form.get("editing") ?? ""));
-    if (!current || current.lineage !== lineage || current.kind !== kind) return { message: "the definition being edited no longer exists", values };
-    await reviseDefinition(lineage, parsed.data);
-  } else {
-    await createDefinition(kind, parsed.data);
+  try {
+    if (typeof lineage === "string" && lineage !== "") {
+      const current = await getDefinition(String(form.get("editing") ?? ""));
+      if (!current || current.lineage !== lineage || current.kind !== kind) return { message: "the definition being edited no longer exists", values };
+      await reviseDefinition(lineage, parsed.data);
+    } else {
+      await createDefinition(kind, parsed.data);
+    }
+  } catch (e) {
+    if (isDiskFull(e)) return { message: "the server's disk is full, so nothing was saved; free some space (or ask the administrator to) and save again", values };
+    throw e;
   }
   redirect(`${back}?saved=1`);
 }

@@ -40,3 +40,13 @@ describe("guardTransactions", () => {
     expect(calls).toEqual(["COMMIT", "exec ROLLBACK", "rollback()"]);
   });
 });
+
+describe("isDiskFull", () => {
+  it("isDiskFull finds SQLITE_FULL as Prisma's code, in a cause, or in the driver's words, and nothing else", async () => {
+    const { isDiskFull } = await import("@/lib/db/errors");
+    expect(isDiskFull(Object.assign(new Error("Invalid `tx.trace.create()` invocation"), { code: "SQLITE_FULL" }))).toBe(true);
+    expect(isDiskFull(new Error("commit failed", { cause: new Error("database or disk is full") }))).toBe(true);
+    expect(isDiskFull(Object.assign(new Error("UNIQUE constraint failed"), { code: "SQLITE_CONSTRAINT" }))).toBe(false);
+    expect(isDiskFull("full")).toBe(false);
+  });
+});
