@@ -1,5 +1,6 @@
 import { db } from "./client";
 import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
+import { actorsContaining, idsContaining, plainPrefix, SEARCH_MATCH_CAP } from "./textSearch";
 import type { AuditEntryRecord } from "../review/audit";
 
 export const AUDIT_ENTITIES = ["trace", "definition", "review", "key"] as const;
@@ -33,34 +34,27 @@ export interface AuditRow extends AuditEntryRecord {
   format: string | null;
 }
 
-/** Ids whose object matches a search text: at most this many per kind of object, newest first. */
-const SEARCH_ID_CAP = 2000;
-
 /** Where a definition version is shown read-only. */
 export const definitionHref = (id: string) => `/definitions/${id}`;
 
+/** Ids of the objects whose names or titles contain the text, or whose hashes start with it (newest first, capped per kind). */
 async function matchingIds(t: string): Promise<string[]> {
   const hex = /^[0-9a-f]{4,64}$/i.test(t) ? t.toLowerCase() : null;
-  const [traces, defs, reviews] = await Promise.all([
-    db.trace.findMany({
-      where: { OR: [{ name: { contains: t } }, { fileName: { contains: t } }, ...(hex ? [{ sha256: { startsWith: hex } }] : [])] },
-      select: { id: true }, orderBy: { createdAt: "desc" }, take: SEARCH_ID_CAP,
-    }),
-    db.definition.findMany({
-      where: { OR: [{ name: { contains: t } }, ...(hex ? [{ sha256: { startsWith: hex } }] : [])] },
-      select: { id: true }, orderBy: { createdAt: "desc" }, take: SEARCH_ID_CAP,
-    }),
-    db.review.findMany({
-      where: { OR: [{ title: { contains: t } }, ...(hex ? [{ resultSha256: { startsWith: hex } }] : [])] },
-      select: { id: true }, orderBy: { createdAt: "desc" }, take: SEARCH_ID_CAP,
-    }),
-  ]);
-  return [...traces, ...defs, ...reviews].map((r) => r.id);
+  const byHash = hex
+    ? await Promise.all([
+        db.trace.findMany({ where: { sha256: { startsWith: hex } }, select: { id: true }, take: SEARCH_MATCH_CAP }),
+        db.definition.findMany({ where: { sha256: { startsWith: hex } }, select: { id: true }, take: SEARCH_MATCH_CAP }),
+        db.review.findMany({ where: { resultSha256: { startsWith: hex } }, select: { id: true }, take: SEARCH_MATCH_CAP }),
+      ])
+    : [];
+  const byName = await Promise.all([idsContaining("Trace", t), idsContaining("Definition", t), idsContaining("Review", t, ["title"])]);
+  return [...byName.flat(), ...byHash.flat().map((r) => r.id)];
 }
 
 async function auditWhere(f: AuditFilter) {
   const t = searchText(f.q);
   const hex = t && /^[0-9a-f]{4,64}$/i.test(t) ? t.toLowerCase() : null;
+  const prefix = t ? plainPrefix(t) : null;
   return {
     entity: f.entity,
     action: f.action,
@@ -69,8 +63,9 @@ async function auditWhere(f: AuditFilter) {
     ...(t
       ? {
           OR: [
-            { entityId: { contains: t } },
-            { actor: { contains: t } },
+            { entityId: t },
+            ...(prefix ? [{ entityId: { startsWith: prefix } }] : []),
+            { actor: { in: await actorsContaining(t) } },
             ...(hex ? [{ hash: { startsWith: hex } }] : []),
             ...(/^\d+$/.test(t) ? [{ seq: Number(t) }] : []),
             { entityId: { in: await matchingIds(t) } },

@@ -1,5 +1,6 @@
 import { db } from "./client";
 import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
+import { idsContaining } from "./textSearch";
 import { appendAudit } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
 import type { ReviewComputation, ReviewResult } from "../review";
@@ -160,25 +161,26 @@ const reviewListSelect = {
   product: { select: { name: true, version: true, lineage: true } },
 } as const;
 
-function reviewWhere(filter: ReviewFilter & { q?: string }) {
+async function reviewWhere(filter: ReviewFilter & { q?: string }) {
   const t = searchText(filter.q);
+  const [reviewIds, traceIds, productIds] = t ? await Promise.all([idsContaining("Review", t), idsContaining("Trace", t, ["name"]), idsContaining("Definition", t)]) : [[], [], []];
   return {
     outcome: filter.outcome,
     status: filter.status,
     product: filter.productLineage ? { lineage: filter.productLineage } : undefined,
     createdAt: filter.from || filter.to ? { gte: filter.from, lt: filter.to } : undefined,
-    // text search over the title, the trace's and product's names, the reviewer and the id (SQLite LIKE)
-    ...(t ? { OR: [{ title: { contains: t } }, { trace: { name: { contains: t } } }, { product: { name: { contains: t } } }, { signedBy: { contains: t } }, { id: t }] } : {}),
+    // text search (literal) over the title, the reviewer, the trace's and the product's names, and the exact id
+    ...(t ? { OR: [{ id: { in: reviewIds } }, { traceId: { in: traceIds } }, { productId: { in: productIds } }, { id: t }] } : {}),
   };
 }
 
 export async function listReviews(filter: ReviewFilter = {}) {
-  return db.review.findMany({ where: reviewWhere(filter), select: reviewListSelect, orderBy: { createdAt: "desc" } });
+  return db.review.findMany({ where: await reviewWhere(filter), select: reviewListSelect, orderBy: { createdAt: "desc" } });
 }
 
 /** One page of reviews, newest first, filtered and searched. */
 export async function searchReviews(filter: ReviewFilter & { q?: string } & PageRequest = {}): Promise<Paged<Awaited<ReturnType<typeof listReviews>>[number]>> {
-  const where = reviewWhere(filter);
+  const where = await reviewWhere(filter);
   const total = await db.review.count({ where });
   const p = resolvePage(filter, total);
   const rows = await db.review.findMany({ where, select: reviewListSelect, orderBy: [{ createdAt: "desc" }, { id: "asc" }], skip: p.skip, take: p.pageSize });

@@ -2,6 +2,7 @@ import { db } from "./client";
 import { appendAudit } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
 import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
+import { idsContaining } from "./textSearch";
 import { traceContentHash } from "../review/content";
 import { sha256Hex, type TraceImport, type TraceSeries, type ResolvedImportSettings } from "../trace";
 
@@ -73,18 +74,19 @@ export interface TraceListRow extends StoredTraceMeta {
   reviewCount: number;
 }
 
-function traceSearchWhere(q: string | undefined) {
+async function traceSearchWhere(q: string | undefined) {
   const t = searchText(q);
   if (!t) return undefined;
-  return { OR: [{ name: { contains: t } }, { fileName: { contains: t } }, { sha256: { startsWith: t.toLowerCase() } }, { id: t }] };
+  const hex = /^[0-9a-fA-F]{4,64}$/.test(t) ? t.toLowerCase() : null;
+  return { OR: [{ id: { in: await idsContaining("Trace", t) } }, ...(hex ? [{ sha256: { startsWith: hex } }] : []), { id: t }] };
 }
 
 /**
- * One page of traces, newest first, with a text search over the name, the file name, the start of
- * the SHA-256 and the id (SQLite LIKE: case-insensitive for ASCII letters).
+ * One page of traces, newest first, with a text search over the name and the file name (literal text,
+ * case-insensitive for ASCII letters), the start of the SHA-256 and the exact id.
  */
 export async function searchTraces(filter: { q?: string } & PageRequest = {}): Promise<Paged<TraceListRow>> {
-  const where = traceSearchWhere(filter.q);
+  const where = await traceSearchWhere(filter.q);
   const total = await db.trace.count({ where });
   const p = resolvePage(filter, total);
   const rows = await db.trace.findMany({

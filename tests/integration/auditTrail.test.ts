@@ -73,6 +73,11 @@ describe("audit log queries", () => {
     expect((await queryAudit({ q: sha(routeBytes).slice(0, 12) })).rows.map((e) => e.entityId)).toEqual([ids.traceId]);
     expect((await queryAudit({ q: "vintner" })).rows.map((e) => e.action)).toEqual(["sign"]);
     expect((await queryAudit({ q: "nothing like this" })).total).toBe(0);
+    // LIKE wildcards are searched as text
+    expect((await queryAudit({ q: "%" })).total).toBe(0);
+    expect((await queryAudit({ q: "_" })).total).toBe(0);
+    // a formula-like name is found by its own characters, quote included
+    expect((await queryAudit({ q: '=HYPERLINK("' })).rows.map((e) => e.entityId)).toEqual([ids.limitsId]);
   });
 
   it("queryAudit pages through the log without loading it all", async () => {
@@ -188,12 +193,18 @@ describe("exports and lists", () => {
     expect(hit.rows.map((t) => [t.id, t.reviewCount])).toEqual([[ids.traceId, 2]]);
     expect((await searchTraces({ q: "probe-test.csv" })).rows.map((t) => t.id)).toEqual([ids.otherTraceId]);
     expect(await searchTraces({ q: "zzz" })).toMatchObject({ total: 0, rows: [] });
+    // LIKE wildcards typed into the box are text, not patterns
+    expect((await searchTraces({ q: "%" })).total).toBe(0);
+    expect((await searchTraces({ q: "_" })).total).toBe(0);
   });
 
   it("searchReviews searches titles and reviewers; reviewAttention counts in the database", async () => {
     const { searchReviews, reviewAttention } = await import("@/lib/db/reviews");
     expect((await searchReviews({ q: "vintner" })).rows.map((r) => r.id)).toEqual([ids.signedId]);
     expect((await searchReviews({ q: "open one" })).rows.map((r) => r.id)).toEqual([ids.reviewId]);
+    // by the trace's name: both reviews of that trace
+    expect((await searchReviews({ q: "seven tote" })).total).toBe(2);
+    expect((await searchReviews({ q: "%" })).total).toBe(0);
     const att = await reviewAttention();
     // the signed review's decision differs from its suggestion by construction
     expect(att.overriddenCount).toBe(1);

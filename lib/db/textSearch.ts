@@ -1,0 +1,33 @@
+import { db } from "./client";
+
+/**
+ * Text search without LIKE: SQLite's LIKE treats `%` and `_` typed into a search box as wildcards, and
+ * Prisma's `contains` cannot escape them. `instr(lower(column), lower(text))` matches the text
+ * literally (lower() folds ASCII letters only, as LIKE does).
+ */
+
+/** At most this many matching objects per table, newest first; a search is for finding, not counting. */
+export const SEARCH_MATCH_CAP = 5000;
+
+type Table = "Trace" | "Definition" | "Review";
+const COLUMNS: Record<Table, readonly string[]> = {
+  Trace: ["name", "fileName"],
+  Definition: ["name"],
+  Review: ["title", "signedBy"],
+};
+
+/** Ids of the rows whose searched columns contain the text (table and columns are fixed here, never user input). */
+export async function idsContaining(table: Table, text: string, columns: readonly string[] = COLUMNS[table]): Promise<string[]> {
+  const where = columns.map((c) => `instr(lower("${c}"), lower(?)) > 0`).join(" OR ");
+  const rows = await db.$queryRawUnsafe<Array<{ id: string }>>(`SELECT "id" FROM "${table}" WHERE ${where} ORDER BY "createdAt" DESC LIMIT ${SEARCH_MATCH_CAP}`, ...columns.map(() => text));
+  return rows.map((r) => r.id);
+}
+
+/** The distinct actors of the audit log whose name contains the text. */
+export async function actorsContaining(text: string): Promise<string[]> {
+  const rows = await db.$queryRawUnsafe<Array<{ actor: string }>>(`SELECT DISTINCT "actor" FROM "AuditEntry" WHERE instr(lower("actor"), lower(?)) > 0 LIMIT ${SEARCH_MATCH_CAP}`, text);
+  return rows.map((r) => r.actor);
+}
+
+/** Text that is safe as a LIKE prefix (letters and digits only), for id and hash prefixes. */
+export const plainPrefix = (t: string): string | null => (/^[A-Za-z0-9]+$/.test(t) ? t : null);
