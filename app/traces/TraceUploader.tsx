@@ -230,6 +230,7 @@ export function TraceUploader() {
           </div>
           <TemperatureChart
             title="Preview of the trace"
+            zone={previewZone}
             height={220}
             times_ms={result.chart.t_s.map((t) => t * 1000)}
             lines={[

@@ -141,3 +141,15 @@ test("a 30-day, 1-minute review sends the browser a decimated chart, and a one-m
   const csv = await (await request.get(`/reviews/${id}/export/series.csv`)).text();
   expect(csv.trim().split("\n").length).toBe(1 + 43_200);
 });
+
+test("every page has a favicon: no request of a page answers 404", async ({ page, request }) => {
+  const missing: string[] = [];
+  page.on("response", (r) => {
+    if (r.status() === 404) missing.push(r.url());
+  });
+  for (const path of ["/", "/traces", "/products", "/audit"]) await page.goto(path);
+  const icon = await request.get("/favicon.ico");
+  expect(icon.status()).toBe(200);
+  expect(icon.headers()["content-type"]).toMatch(/image/);
+  expect(missing).toEqual([]);
+});
