@@ -166,12 +166,15 @@ function screen(p: ResolvedProduct, r: Resistances, rHot: Resistances, choice: M
   } else if (biot < LUMPED_BIOT_LIMIT) {
     model = "lumped";
     reason = `${bi} < ${LUMPED_BIOT_LIMIT}: internal gradients are small, one temperature stands for the whole product`;
+    if (crossesFreezing) reason += `; the product crosses its freezing range (${tf!.toFixed(1)} °C), which a lumped model can only follow on average (conduction needs a shape and conductivity)`;
     if (biot >= 0.05 && canConduct) {
       reason += "; near the limit the centre can still lag the lumped estimate late in a response (compare with --model conduction)";
     }
   } else if (!canConduct) {
     model = "lumped";
-    reason = `${bi} ≥ ${LUMPED_BIOT_LIMIT}, but conduction needs a shape: lumped model used, and the true core will lag the prediction`;
+    reason = crossesFreezing
+      ? `the product crosses its freezing range (${tf!.toFixed(1)} °C), but conduction needs a shape: lumped model used, which misses the frozen shell and thawed core (${bi})`
+      : `${bi} ≥ ${LUMPED_BIOT_LIMIT}, but conduction needs a shape: lumped model used, and the true core will lag the prediction`;
   } else {
     model = "conduction";
     reason = `${bi} ≥ ${LUMPED_BIOT_LIMIT}: temperature differs inside the product, so ${kindOf()} conduction is used`;
