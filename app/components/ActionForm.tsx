@@ -1,6 +1,6 @@
 "use client";
 
-import { useTransition, type FormHTMLAttributes } from "react";
+import { useEffect, useState, useTransition, type FormHTMLAttributes } from "react";
 
 type Props = Omit<FormHTMLAttributes<HTMLFormElement>, "action" | "onSubmit"> & {
   /** the dispatch function from useActionState */
@@ -16,9 +16,13 @@ type Props = Omit<FormHTMLAttributes<HTMLFormElement>, "action" | "onSubmit"> & 
  * posts a value the user never chose (issue 9: a "hold" became a stored "accept"). Dispatching the
  * action from onSubmit inside a transition keeps every field exactly as the user left it; pending
  * state, redirects and returned errors work as with <form action>.
+ * Until the page is hydrated the fields are disabled (a fieldset that takes no space), so a submit
+ * cannot fall back to the browser's plain GET of the form, which would put the values in the URL.
  */
 export function ActionForm({ action, children, ...form }: Props) {
   const [, startTransition] = useTransition();
+  const [hydrated, setHydrated] = useState(false);
+  useEffect(() => setHydrated(true), []);
   return (
     <form
       {...form}
@@ -29,7 +33,9 @@ export function ActionForm({ action, children, ...form }: Props) {
         startTransition(() => action(data));
       }}
     >
-      {children}
+      <fieldset disabled={!hydrated} style={{ display: "contents" }}>
+        {children}
+      </fieldset>
     </form>
   );
 }
