@@ -65,16 +65,17 @@ const timeish = (c: string) => parseWallClock(c, "dmy") !== null || parseWallClo
 
 const blank = (row: string[]) => row.every((c) => c.trim() === "");
 /**
- * A row that reads as data: a time-like cell (or a number: Unix or elapsed time) with readings beside
- * it (cells with digits, or missing codes). "Start;28.03.2026 23:00" is not: "Start" is a word.
- * A reading that is there but unreadable ("3.1\u0007") still counts, so that it is reported by row.
+ * A row that reads as data: a time-like cell (or a number: Unix or elapsed time) and, beside it, at
+ * least one reading: a cell that starts like a number, or a missing code. Other cells may hold text
+ * (an event or alarm column). "Start;28.03.2026 23:00" is not data ("Start" is a word), nor is
+ * "Logger serial;A1234". A reading that starts like a number but is unreadable ("3.1\u0007") still
+ * counts, so that it is reported by row later.
  */
 const looksLikeData = (row: string[]) => {
   let t = row.findIndex(timeish);
   if (t < 0) t = row.findIndex(numberish); // Unix or elapsed time
   if (t < 0) return false;
-  const others = row.filter((_, j) => j !== t);
-  return others.length > 0 && others.every((c) => /\d/.test(c) || isMissingToken(c, NO_CODES));
+  return row.some((c, j) => j !== t && ((/^\s*[+-]?\.?\d/.test(c) && !timeish(c)) || isMissingToken(c, NO_CODES)));
 };
 const NO_CODES = new Set<string>();
 /** Rows after a header candidate that must agree with it before it is taken as the header. */

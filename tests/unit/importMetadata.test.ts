@@ -72,6 +72,15 @@ describe("importCsv: metadata lines that look like data", () => {
     );
   });
 
+  it("importCsv still finds the header when a text column (events) sits beside the readings", () => {
+    const r = importCsv(enc("Serial;B77\nStart;02.03.2026;06:00\nTime;Air;Event\n2026-03-02T06:00:00Z;3.1;door open\n2026-03-02T06:05:00Z;3.2;\n"));
+    expect(r.settings).toMatchObject({ headerRow: 3, timeColumn: "Time", airColumn: "Air" });
+    expect(r.settings.metadata).toEqual([
+      { row: 1, key: "Serial", value: "B77" },
+      { row: 2, key: "Start", value: "02.03.2026; 06:00" },
+    ]);
+  });
+
   it("importCsv still refuses a truncated last row: a line that begins with a time is never a footer", () => {
     expect(refusal(() => importCsv(enc("Time,Air\n2026-03-02T06:00:00Z,3.1\n2026-03-02T06:05:00Z,3.2\n2026-03-02T06:10:00Z\n")))).toBe("row 4: expected 2 fields but found 1");
   });
