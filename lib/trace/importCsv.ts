@@ -185,7 +185,10 @@ function plan(headRows: string[][], options: ImportOptions, encoding: ResolvedIm
   const headerIdx = options.headerRow !== undefined ? options.headerRow - 1 : findHeaderRow(headRows);
   if (headerIdx >= headRows.length) fail(`row ${headerIdx + 1} (the header row given) is past the end of the file`);
   const header = headRows[headerIdx]!.map((h) => h.trim());
-  const sample = headRows.slice(headerIdx + 1).filter((r) => r.length === header.length).slice(0, 20000);
+  // detection looks at data rows only: footer metadata with the header's field count would skew it
+  const rowsAfter = headRows.slice(headerIdx + 1).filter((r) => r.length === header.length);
+  const dataRows = rowsAfter.filter(looksLikeData);
+  const sample = (dataRows.length > 0 ? dataRows : rowsAfter).slice(0, 20000);
   if (sample.length === 0) fail("the file has a header but no data rows");
   const col = (i: number) => sample.map((r) => r[i]!);
   const ignored = new Set(options.ignoreColumns ?? []);

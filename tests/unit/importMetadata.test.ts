@@ -81,6 +81,14 @@ describe("importCsv: metadata lines that look like data", () => {
     ]);
   });
 
+  it("importCsv detects the settings from the data rows only, not from footer lines with the same field count", () => {
+    // The footer's "checked" is 1 of 4 cells in the probe column: counted, fewer than 80 % would be numbers and the probe would be lost
+    const r = importCsv(enc("Time;Air;Probe\n2026-03-02T06:00:00Z;3,1;2,0\n2026-03-02T06:05:00Z;3,4;2,1\n2026-03-02T06:10:00Z;3,9;2,3\n\nChecked by;QA;checked\n"));
+    expect(r.settings).toMatchObject({ airColumn: "Air", productColumn: "Probe", decimal: "," });
+    expect(Array.from(r.series.probe_C!)).toEqual([2.0, 2.1, 2.3]);
+    expect(r.settings.metadata).toEqual([{ row: 6, key: "Checked by", value: "QA; checked" }]);
+  });
+
   it("importCsv still refuses a truncated last row: a line that begins with a time is never a footer", () => {
     expect(refusal(() => importCsv(enc("Time,Air\n2026-03-02T06:00:00Z,3.1\n2026-03-02T06:05:00Z,3.2\n2026-03-02T06:10:00Z\n")))).toBe("row 4: expected 2 fields but found 1");
   });
