@@ -13,9 +13,17 @@ import type { FormState } from "@/lib/validation";
 type Row = Record<string, string>;
 const LAYER = ["thickness_m", "k_W_mK"] as const;
 const COOLANT = ["mass_kg", "melt_C", "latent_J_kg", "cp_solid_J_kgK", "cp_liquid_J_kgK", "initial_C"] as const;
-const COOLANT_LABELS: Record<(typeof COOLANT)[number], string> = {
+/** Optional coolant fields: with a surface area the coolant is its own node with its own film (and contact). */
+const COOLANT_OPTIONAL = ["area_m2", "h_W_m2K", "contact_area_m2", "h_contact_W_m2K"] as const;
+const COOLANT_LABELS: Record<(typeof COOLANT)[number] | (typeof COOLANT_OPTIONAL)[number], string> = {
   mass_kg: "mass kg", melt_C: "melt °C", latent_J_kg: "latent J/kg", cp_solid_J_kgK: "cp solid", cp_liquid_J_kgK: "cp liquid", initial_C: "initial °C",
+  area_m2: "surface m² (optional)", h_W_m2K: "film W/m²·K (optional)", contact_area_m2: "contact m² (optional)", h_contact_W_m2K: "contact W/m²·K (optional)",
 };
+/** Optional layer fields: with both the layer stores heat. */
+const LAYER_OPTIONAL = ["density_kg_m3", "cp_J_kgK"] as const;
+const LAYER_OPTIONAL_LABELS = { density_kg_m3: "density kg/m³ (optional)", cp_J_kgK: "cp J/kg·K (optional)" } as const;
+/** Optional fields go into the definition only when filled in. */
+const filled = (row: Row, keys: readonly string[]) => Object.fromEntries(keys.filter((k) => (row[k] ?? "") !== "").map((k) => [k, num(row[k]) ?? null]));
 
 const str = (v: unknown) => (v === undefined ? "" : String(v));
 
@@ -25,7 +33,7 @@ export function PackEditor({ editing }: { editing?: { id: string; lineage: strin
   const [head, setHead] = useState<Row>({
     name: b?.name ?? "", h_outside_W_m2K: str(b?.h_outside_W_m2K ?? 8), h_inside_W_m2K: str(b?.h_inside_W_m2K), emissivity: str(b?.emissivity), area_m2: str(b?.area_m2),
   });
-  const [layers, setLayers] = useState<Row[]>(b?.layers.map((l) => ({ name: l.name, thickness_m: str(l.thickness_m), k_W_mK: str(l.k_W_mK) })) ?? []);
+  const [layers, setLayers] = useState<Row[]>(b?.layers.map((l) => ({ name: l.name, thickness_m: str(l.thickness_m), k_W_mK: str(l.k_W_mK), density_kg_m3: str(l.density_kg_m3), cp_J_kgK: str(l.cp_J_kgK) })) ?? []);
   const [coolants, setCoolants] = useState<Row[]>(b?.coolants.map((c) => Object.fromEntries(Object.entries(c).map(([k, v]) => [k, str(v)]))) ?? []);
   const err = (p: string) => state.fieldErrors?.[p];
 
@@ -38,8 +46,8 @@ export function PackEditor({ editing }: { editing?: { id: string; lineage: strin
           h_inside_W_m2K: num(head.h_inside_W_m2K),
           emissivity: num(head.emissivity),
           area_m2: num(head.area_m2),
-          layers: layers.map((l) => ({ name: l.name, thickness_m: num(l.thickness_m) ?? null, k_W_mK: num(l.k_W_mK) ?? null })),
-          coolants: coolants.map((c) => ({ name: c.name, ...Object.fromEntries(COOLANT.map((k) => [k, num(c[k]) ?? null])) })),
+          layers: layers.map((l) => ({ name: l.name, thickness_m: num(l.thickness_m) ?? null, k_W_mK: num(l.k_W_mK) ?? null, ...filled(l, LAYER_OPTIONAL) })),
+          coolants: coolants.map((c) => ({ name: c.name, ...Object.fromEntries(COOLANT.map((k) => [k, num(c[k]) ?? null])), ...filled(c, COOLANT_OPTIONAL) })),
         }),
       ),
     [head, layers, coolants],
@@ -72,6 +80,9 @@ export function PackEditor({ editing }: { editing?: { id: string; lineage: strin
             {LAYER.map((k) => (
               <NumberField key={k} label={k === "thickness_m" ? "thickness m" : "k W/m·K"} width={7} value={l[k] ?? ""} onChange={(v) => setLayers(layers.map((x, j) => (j === i ? { ...x, [k]: v } : x)))} error={err(`layers.${i}.${k}`)} />
             ))}
+            {LAYER_OPTIONAL.map((k) => (
+              <NumberField key={k} label={LAYER_OPTIONAL_LABELS[k]} width={7} value={l[k] ?? ""} onChange={(v) => setLayers(layers.map((x, j) => (j === i ? { ...x, [k]: v } : x)))} error={err(`layers.${i}.${k}`)} />
+            ))}
             <button type="button" className="secondary" onClick={() => setLayers(layers.filter((_, j) => j !== i))}>Remove</button>
           </div>
         ))}
@@ -80,7 +91,7 @@ export function PackEditor({ editing }: { editing?: { id: string; lineage: strin
         {coolants.map((c, i) => (
           <div key={i} style={{ display: "flex", flexWrap: "wrap", gap: "0.5rem", alignItems: "end" }} data-testid={`coolant-${i}`}>
             <label>name<input value={c.name ?? ""} size={10} onChange={(e) => setCoolants(coolants.map((x, j) => (j === i ? { ...x, name: e.target.value } : x)))} /></label>
-            {COOLANT.map((k) => (
+            {[...COOLANT, ...COOLANT_OPTIONAL].map((k) => (
               <NumberField key={k} label={COOLANT_LABELS[k]} width={7} value={c[k] ?? ""} onChange={(v) => setCoolants(coolants.map((x, j) => (j === i ? { ...x, [k]: v } : x)))} error={err(`coolants.${i}.${k}`)} />
             ))}
             <button type="button" className="secondary" onClick={() => setCoolants(coolants.filter((_, j) => j !== i))}>Remove</button>

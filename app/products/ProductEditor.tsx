@@ -28,6 +28,8 @@ function stateFrom(p?: Product): S {
   for (const k of ["mass_kg", "area_m2", "h_W_m2K", "freezing_point_C"] as const) if (p[k] !== undefined) s[k] = String(p[k]);
   if (p.properties) for (const [k, v] of Object.entries(p.properties)) if (v !== undefined) s[`properties.${k}`] = String(v);
   if (p.composition) for (const c of COMPONENTS) s[`composition.${c}`] = String(p.composition[c]);
+  if (p.respiration?.model === "constant") s["respiration.W_kg"] = String(p.respiration.W_kg);
+  if (p.respiration?.model === "becker-fricke") [s["respiration.f"], s["respiration.g"]] = [String(p.respiration.f), String(p.respiration.g)];
   return s;
 }
 
@@ -51,6 +53,9 @@ function definitionFrom(s: S): unknown {
       k_W_mK: num(s["properties.k_W_mK"]),
     };
   }
+  // heat of respiration: a constant W/kg, or Becker and Fricke's f and g
+  if ((s["respiration.W_kg"] ?? "") !== "") def.respiration = { model: "constant", W_kg: num(s["respiration.W_kg"]) ?? null };
+  else if ((s["respiration.f"] ?? "") !== "" || (s["respiration.g"] ?? "") !== "") def.respiration = { model: "becker-fricke", f: num(s["respiration.f"]) ?? null, g: num(s["respiration.g"]) ?? null };
   return JSON.parse(JSON.stringify(def)); // drops undefined, turns NaN into null for zod to name
 }
 
@@ -176,6 +181,9 @@ export function ProductEditor({ editing, packs }: { editing?: { id: string; line
               <NumberField label="Initial freezing point (°C), optional" hint="Below it, ice forms (Tchigeov's ice fraction)" value={s.freezing_point_C ?? ""} onChange={set("freezing_point_C")} error={err("freezing_point_C")} testId="freezing_point_C" />
             </div>
           )}
+          <NumberField label="Respiration (W/kg), optional" hint="Fresh produce: constant heat of respiration" value={s["respiration.W_kg"] ?? ""} onChange={set("respiration.W_kg")} error={err("respiration.W_kg")} testId="respiration-W_kg" />
+          <NumberField label="or Becker–Fricke f" hint="W = (10.7·f/3600)·(9t/5+32)^g W/kg (ASHRAE tables)" value={s["respiration.f"] ?? ""} onChange={set("respiration.f")} error={err("respiration.f")} testId="respiration-f" />
+          <NumberField label="and g" value={s["respiration.g"] ?? ""} onChange={set("respiration.g")} error={err("respiration.g")} testId="respiration-g" />
         </fieldset>
         <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="product" />
       </ActionForm>
