@@ -6,6 +6,7 @@ import { runCalibration } from "@/lib/services/calibration";
 import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { SaveEffectivePack } from "./SaveEffectivePack";
+import { displayZone } from "@/app/displayZone";
 
 export const dynamic = "force-dynamic";
 
@@ -28,6 +29,7 @@ export default async function CalibratePage({ searchParams }: { searchParams: Pr
   const factorError = factorParsed.success ? undefined : `Warn when R differs by more than ×: '${q.factor}' ${factorParsed.error.issues[0]!.message}`;
   const out = q.trace && factorParsed.success ? await runCalibration({ traceId: q.trace, productId: q.product || undefined, packId: q.pack || undefined, fitInitial, fitOffset, mismatchFactor: factorParsed.data }) : null;
   const ci = (a: [number, number], f: (x: number) => string) => `${f(a[0])} to ${f(a[1])}`;
+  const zone = await displayZone(traces.find((t) => t.id === q.trace)?.importSettings?.timeZone);
   return (
     <>
       <h1>Calibrate from a probe test</h1>
@@ -82,6 +84,7 @@ export default async function CalibratePage({ searchParams }: { searchParams: Pr
             <TemperatureChart
               title="Air, probe and fitted lumped model"
               height={260}
+              zone={zone}
               times_ms={Array.from(out.t_s, (t) => t * 1000)}
               lines={[
                 { label: "Air", color: "var(--air)", values: Array.from(out.air_C) },
@@ -93,6 +96,7 @@ export default async function CalibratePage({ searchParams }: { searchParams: Pr
               title="Residuals: probe minus fit"
               unit="K"
               height={180}
+              zone={zone}
               times_ms={Array.from(out.t_s).filter((_, i) => !Number.isNaN(out.probe_C[i]!)).map((t) => t * 1000)}
               lines={[{ label: "Residual", color: "#7a4fa3", values: Array.from(out.result.residuals_K) }]}
               thresholds={[{ label: "0 K", value_C: 0 }]}
