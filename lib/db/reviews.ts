@@ -1,3 +1,4 @@
+import { randomUUID } from "node:crypto";
 import { db } from "./client";
 import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import { idsContaining } from "./textSearch";
@@ -28,26 +29,14 @@ export interface NewReview {
 export async function createReview(r: NewReview): Promise<string> {
   const c = r.computation;
   return db.$transaction(async (tx) => {
-    const row = await tx.review.create({
-      data: {
-        title: r.title,
-        traceId: r.traceId,
-        productId: r.productId,
-        packId: r.packId ?? null,
-        limitsId: r.limitsId,
-        options: r.options as object,
-        engineVersion: r.engineVersion,
-        result: c.result as object,
-        coreC: float64ToBytes(c.core_C),
-        surfaceC: float64ToBytes(c.surface_C),
-        meanC: float64ToBytes(c.mean_C),
-        coolantC: c.coolant_C ? float64ToBytes(c.coolant_C) : null,
-        resultSha256: r.resultSha256,
-        outcome: c.result.outcome,
-        correctsId: r.correctsId ?? null,
-      },
-      include: { trace: { select: { sha256: true } } },
-    });
+    // Inserted as exact JSON text: Prisma 6.19's Json write rounds some doubles (see insertDefinition), and
+    // the stored result must hash, with the core series, to resultSha256. (A second database casts the JSON.)
+    const id = randomUUID().replace(/-/g, "");
+    const bytes = (a: Float64Array | undefined | null) => (a ? float64ToBytes(a) : null);
+    await tx.$executeRaw`INSERT INTO "Review" ("id", "title", "traceId", "productId", "packId", "limitsId", "options", "engineVersion", "result", "coreC", "surfaceC", "meanC", "coolantC", "resultSha256", "outcome", "status", "correctsId", "createdAt")
+      VALUES (${id}, ${r.title}, ${r.traceId}, ${r.productId}, ${r.packId ?? null}, ${r.limitsId}, ${JSON.stringify(r.options)}, ${r.engineVersion}, ${JSON.stringify(c.result)},
+              ${bytes(c.core_C)}, ${bytes(c.surface_C)}, ${bytes(c.mean_C)}, ${bytes(c.coolant_C)}, ${r.resultSha256}, ${c.result.outcome}, ${"open"}, ${r.correctsId ?? null}, ${new Date()})`;
+    const row = await tx.review.findUniqueOrThrow({ where: { id }, include: { trace: { select: { sha256: true } } } });
     const { trace: _trace, ...stored } = row;
     await appendAudit(tx, {
       action: "run",

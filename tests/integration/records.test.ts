@@ -133,6 +133,14 @@ describe("review records", () => {
     expect(r.code).toBe(0);
   });
 
+  it("a stored review's result is stored exactly: it hashes, with the stored core series, to its resultSha256", async () => {
+    const { db } = await import("@/lib/db/client");
+    const { resultHash } = await import("@/lib/review/canonical");
+    const { bytesToFloat64 } = await import("@/lib/db/bytes");
+    const row = (await db.review.findUnique({ where: { id: reviewId } }))!;
+    expect(resultHash(row.result, bytesToFloat64(row.coreC))).toBe(row.resultSha256);
+  });
+
   it("the database refuses to change or delete audit entries", async () => {
     const { db } = await import("@/lib/db/client");
     await expect(db.auditEntry.update({ where: { seq: 1 }, data: { actor: "x" } })).rejects.toThrow();
