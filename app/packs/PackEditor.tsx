@@ -9,6 +9,7 @@ import { packSchema, type Pack } from "@/lib/thermal/definitions";
 import { resistances } from "@/lib/thermal/resistances";
 import { ResistanceTable } from "@/app/products/ProductEditor";
 import type { FormState } from "@/lib/validation";
+import { sig } from "@/lib/display/numbers";
 
 type Row = Record<string, string>;
 const LAYER = ["thickness_m", "k_W_mK"] as const;
@@ -104,7 +105,7 @@ export function PackEditor({ editing }: { editing?: { id: string; lineage: strin
         <h2 style={{ marginTop: 0 }}>Wall resistance</h2>
         {preview ? (
           <div data-testid="pack-preview">
-            <p>Outside film and layers over {num(head.area_m2)} m²: R = {preview.r_wall_K_W.toPrecision(3)} K/W, U = {(1 / (preview.r_wall_K_W * num(head.area_m2)!)).toPrecision(3)} W/m²·K{preview.h_radiation_W_m2K > 0 ? ` (radiation adds ${preview.h_radiation_W_m2K.toFixed(1)} W/m²·K at 20 °C)` : ""}.</p>
+            <p>Outside film and layers over {num(head.area_m2)} m²: R = {sig(preview.r_wall_K_W, 3)} K/W, U = {(1 / (preview.r_wall_K_W * num(head.area_m2)!)).toPrecision(3)} W/m²·K{preview.h_radiation_W_m2K > 0 ? ` (radiation adds ${preview.h_radiation_W_m2K.toFixed(1)} W/m²·K at 20 °C)` : ""}.</p>
             <ResistanceTable items={preview.items} />
             <p className="muted">For reference, the ATP agreement classes insulated bodies by K ≤ 0.70 W/m²·K (normal) and K ≤ 0.40 W/m²·K (heavy insulation). The product&apos;s own film and tau appear in the product editor when you preview with this pack.</p>
           </div>

@@ -9,6 +9,7 @@ import { productSchema, packSchema, type Pack, type Product } from "@/lib/therma
 import { screenDefinition } from "@/lib/thermal/predict";
 import { resolveProduct } from "@/lib/thermal/resolve";
 import type { FormState } from "@/lib/validation";
+import { sig } from "@/lib/display/numbers";
 
 type ShapeKind = "none" | "sphere" | "cylinder" | "slab" | "box";
 type S = Record<string, string>;
@@ -86,13 +87,13 @@ function Preview({ def, pack, atC }: { def: unknown; pack: Pack | undefined; atC
           ρ {Number.isFinite(rho) ? `${rho.toFixed(0)} kg/m³` : "–"}, cp {m.apparentCp(atC).toFixed(0)} J/kg·K, k {Number.isFinite(k) ? `${k.toFixed(3)} W/m·K` : "–"}
           {m.ice(atC) > 0 ? `, ice ${(m.ice(atC) * 100).toFixed(0)} %` : ""}
         </dd>
-        <dt>Mass</dt><dd>{s.mass_kg.toPrecision(4)} kg</dd>
-        <dt>V, A</dt><dd>{r.volume_m3 === null ? "V unknown" : `${(r.volume_m3 * 1e3).toPrecision(4)} L`}, {s.area_m2.toPrecision(4)} m²</dd>
-        <dt>Lc = V/A</dt><dd>{s.lc_m === null ? "needs volume" : `${(s.lc_m * 1000).toPrecision(3)} mm`}</dd>
-        <dt>C = m·cp</dt><dd>{s.c_total_J_K.toPrecision(4)} J/K</dd>
-        <dt>R total</dt><dd>{s.r_total_K_W.toPrecision(4)} K/W (U = {s.u_product_W_m2K.toPrecision(3)} W/m²·K on the product)</dd>
+        <dt>Mass</dt><dd>{sig(s.mass_kg, 4)} kg</dd>
+        <dt>V, A</dt><dd>{r.volume_m3 === null ? "V unknown" : `${sig((r.volume_m3 * 1e3), 4)} L`}, {sig(s.area_m2, 4)} m²</dd>
+        <dt>Lc = V/A</dt><dd>{s.lc_m === null ? "needs volume" : `${sig((s.lc_m * 1000), 3)} mm`}</dd>
+        <dt>C = m·cp</dt><dd>{sig(s.c_total_J_K, 4)} J/K</dd>
+        <dt>R total</dt><dd>{sig(s.r_total_K_W, 4)} K/W (U = {sig(s.u_product_W_m2K, 3)} W/m²·K on the product)</dd>
         <dt>tau = R·C</dt><dd data-testid="preview-tau">{s.tau_readable}</dd>
-        <dt>Biot number</dt><dd>{s.biot === null ? "not known" : s.biot.toPrecision(2)}</dd>
+        <dt>Biot number</dt><dd>{s.biot === null ? "not known" : sig(s.biot, 2)}</dd>
         <dt>Model (auto)</dt><dd data-testid="preview-model">{s.model}: {s.reason}</dd>
         {s.notes.length > 0 && <><dt>Notes</dt><dd data-testid="preview-notes">{s.notes.join("; ")}</dd></>}
       </dl>
@@ -107,7 +108,7 @@ export function ResistanceTable({ items }: { items: Array<{ name: string; kind: 
       <thead><tr><th>Resistance</th><th className="num">K/W</th><th className="num">share</th></tr></thead>
       <tbody>
         {items.map((i) => (
-          <tr key={i.name + i.kind}><td>{i.name} <span className="muted">({i.kind})</span></td><td className="num">{i.r_K_W.toPrecision(3)}</td><td className="num">{(i.share * 100).toFixed(0)} %</td></tr>
+          <tr key={i.name + i.kind}><td>{i.name} <span className="muted">({i.kind})</span></td><td className="num">{sig(i.r_K_W, 3)}</td><td className="num">{(i.share * 100).toFixed(0)} %</td></tr>
         ))}
       </tbody>
     </table>
