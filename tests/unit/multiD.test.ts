@@ -1,5 +1,5 @@
 import { describe, it, expect } from "vitest";
-import { predict } from "@/lib/thermal/predict";
+import { predict, screenDefinition } from "@/lib/thermal/predict";
 import type { Pack, Product } from "@/lib/thermal/definitions";
 import { centreTheta } from "../helpers/series";
 import { expectClose } from "../helpers/numeric";
@@ -29,6 +29,15 @@ function maxError(core: Float64Array, t: Float64Array, exact: (t: number) => num
 }
 const step = (product: Product, t: Float64Array, model: "conduction" | "conduction-1d" = "conduction", intervals?: number) =>
   predict(product, undefined, t, new Float64Array(t.length), { model, ...(intervals ? { intervals } : {}) });
+
+describe("auto picks the multi-dimensional model for boxes and finite cylinders", () => {
+  it("screenDefinition(auto) at Bi ≥ 0.1 names the 3-D box, the r–z cylinder and, for a sphere, 1-D conduction", () => {
+    const base = { name: "p", properties: props, initial_C: 4, h_W_m2K: 25 };
+    expect(screenDefinition({ ...base, shape: { kind: "box", x_m: 0.2, y_m: 0.1, z_m: 0.06 } }, undefined).conduction_kind).toBe("3-D box");
+    expect(screenDefinition({ ...base, shape: { kind: "cylinder", radius_m: 0.1, length_m: 0.1 } }, undefined).conduction_kind).toBe("r–z cylinder");
+    expect(screenDefinition({ ...base, shape: { kind: "sphere", radius_m: 0.05 } }, undefined).conduction_kind).toBe("1-D");
+  });
+});
 
 describe("3-D box (one octant) against the product of three slab series", () => {
   const dims: [number, number, number] = [0.2, 0.1, 0.06]; // the brick
