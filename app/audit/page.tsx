@@ -5,6 +5,7 @@ import { auditFilter, auditQueryParams, parseAuditParams } from "./filters";
 import { ChainCheck } from "./ChainCheck";
 import { displayZone } from "@/app/displayZone";
 import { formatTime, zoneLabel } from "@/lib/display/time";
+import { auditSummary } from "@/lib/review/auditSummary";
 
 export const dynamic = "force-dynamic";
 
@@ -64,7 +65,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                     <div className="raw-id"><Link href={`/audit?object=${e.entityId}`} title="every entry for this object">{e.entityId}</Link></div>
                   </td>
                   <td>{e.actor}</td>
-                  <td><details><summary>show</summary><pre style={{ whiteSpace: "pre-wrap", fontSize: "0.78rem", margin: 0 }}>{JSON.stringify(e.details, null, 1)}</pre></details></td>
+                  <td><span data-testid="audit-summary">{auditSummary(e.action, e.details)}</span><details><summary>all details</summary><pre style={{ whiteSpace: "pre-wrap", fontSize: "0.78rem", margin: 0 }}>{JSON.stringify(e.details, null, 1)}</pre></details></td>
                   <td style={{ whiteSpace: "nowrap" }}><code title={`${e.hash}\nprevious ${e.prevHash}`} style={{ fontSize: "0.8rem" }}>{e.hash.slice(0, 10)}…</code></td>
                 </tr>
               ))}

@@ -97,6 +97,7 @@ test("the audit log shows names, links, raw ids and export formats, filters, sea
   await expect(table.getByRole("link", { name: "Auditor review of route 7" }).first()).toHaveAttribute("href", `/reviews/${reviewId}`);
   await expect(table.getByText(reviewId).first()).toBeVisible(); // raw id kept for cross-checking
   await expect(table.getByTestId("audit-format").first()).toHaveText("(findings.csv)");
+  await expect(page.getByTestId(/^audit-row-/).filter({ hasText: "verify" }).getByTestId("audit-summary")).toHaveText("reproduced");
   await page.screenshot({ path: "test-results/audit.png", fullPage: true });
 
   // filter by kind and search by a title

@@ -52,3 +52,15 @@ describe("definitionParameters", () => {
     expect(describeRule({ channel: "air", above_C: 8, max_cumulative_min: 180, max_continuous_min: 120 })).toBe("air above 8 °C, at most 180 min in all, at most 120 min at a stretch");
   });
 });
+
+describe("auditSummary", () => {
+  it("auditSummary says in one line what a sign-off, a run, an import and a re-check recorded", async () => {
+    const { auditSummary } = await import("@/lib/review/auditSummary");
+    expect(auditSummary("sign", { decision: "hold", suggested: "reject", comment: "x" })).toBe("decision hold (suggested reject)");
+    expect(auditSummary("run", { outcome: "reject", engineVersion: "0.3.0", corrects: null })).toBe("suggested reject, engine 0.3.0");
+    expect(auditSummary("import", { fileName: "a.csv", samples: 361, sha256: "ab".repeat(32) })).toBe("a.csv, 361 samples, SHA-256 abababababab…");
+    expect(auditSummary("verify", { reproduced: false, problems: ["a", "b"] })).toBe("2 problem(s)");
+    expect(auditSummary("key", { fingerprint: "f" })).toBe("");
+    expect(auditSummary("sign", null)).toBe("");
+  });
+});
