@@ -99,6 +99,26 @@ describe("bad input over HTTP is a 4xx naming what is wrong, never a 500", () =>
     expect(await res.json()).toEqual({ error: "the form is 60.0 MB; at most 50 MB can be sent. Nothing was stored." });
   });
 
+  it("an upload sent without a Content-Length (chunked) is cut off at 201 MB with 413, not read whole", async () => {
+    // 210 MB produced lazily, 1 MB at a time: only a streaming check can refuse it (proxy.ts sees no length).
+    let sent = 0;
+    const body = new ReadableStream<Uint8Array>({
+      pull(controller) {
+        if (sent >= 210) return controller.close();
+        sent++;
+        controller.enqueue(new Uint8Array(1024 * 1024).fill(0x41));
+      },
+    });
+    const res = await fetch(`${server.url}/api/traces`, {
+      method: "POST",
+      headers: { "content-type": "multipart/form-data; boundary=x" },
+      body,
+      duplex: "half",
+    } as RequestInit & { duplex: "half" });
+    expect(res.status).toBe(413);
+    expect(await res.json()).toEqual({ error: "the upload is over 201 MB; at most 201 MB can be sent. Nothing was stored." });
+  });
+
   it("nothing was stored by any of the refused requests", () => {
     expect(storedRows("Trace")).toBe(0);
     expect(storedRows("AuditEntry")).toBe(0);
@@ -109,4 +129,19 @@ describe("bad input over HTTP is a 4xx naming what is wrong, never a 500", () =>
     expect(r.status).toBe(201);
     expect(storedRows("Trace")).toBe(1);
   });
+  it("a 20 MB logger file (over the 10 MB Next buffers for proxy.ts by default) is stored whole (201)", async () => {
+    let csv = "time,air_C\n";
+    const start = Date.UTC(2026, 0, 1);
+    for (let i = 0; i < 700_000; i++) csv += `${new Date(start + i * 60_000).toISOString()},${(4 + Math.sin(i / 100)).toFixed(2)}\n`;
+    expect(csv.length).toBeGreaterThan(20 * 1024 * 1024);
+    const r = await upload(new TextEncoder().encode(csv), "twenty-mb.csv");
+    expect(r.status).toBe(201);
+    const db = new Database(dbFile, { readonly: true });
+    try {
+      expect(db.prepare("SELECT sampleCount FROM Trace WHERE fileName = 'twenty-mb.csv'").get()).toEqual({ sampleCount: 700_000 });
+    } finally {
+      db.close();
+    }
+  });
+
 });

@@ -4,6 +4,36 @@ import { importOptionsSchema } from "@/lib/trace/settings";
 export const dynamic = "force-dynamic";
 
 const MAX_BYTES = 200 * 1024 * 1024;
+/** The whole request: the file plus room for the form's other fields (keep equal to proxy.ts UPLOAD_BODY_LIMIT_BYTES). */
+const MAX_BODY_BYTES = 201 * 1024 * 1024;
+
+/**
+ * The request body, read as it arrives and abandoned as soon as it passes the limit: a body sent
+ * without a Content-Length (chunked) gets past proxy.ts's check and must not be read whole first.
+ */
+async function boundedBody(req: Request): Promise<Uint8Array<ArrayBuffer> | null> {
+  if (!req.body) return new Uint8Array(new ArrayBuffer(0));
+  const reader = req.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let total = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    total += value.byteLength;
+    if (total > MAX_BODY_BYTES) {
+      await reader.cancel();
+      return null;
+    }
+    chunks.push(value);
+  }
+  const body = new Uint8Array(new ArrayBuffer(total));
+  let at = 0;
+  for (const c of chunks) {
+    body.set(c, at);
+    at += c.byteLength;
+  }
+  return body;
+}
 
 /**
  * Upload of a logger file (multipart: file, name, options as JSON). The browser has already shown a
@@ -12,9 +42,11 @@ const MAX_BYTES = 200 * 1024 * 1024;
  * the server's disk is full (nothing stored).
  */
 export async function POST(req: Request) {
+  const body = await boundedBody(req);
+  if (!body) return Response.json({ error: `the upload is over ${MAX_BODY_BYTES / 1048576} MB; at most ${MAX_BODY_BYTES / 1048576} MB can be sent. Nothing was stored.` }, { status: 413 });
   let form: FormData;
   try {
-    form = await req.formData();
+    form = await new Response(body, { headers: { "content-type": req.headers.get("content-type") ?? "" } }).formData();
   } catch {
     return Response.json({ error: "the upload could not be read as a form" }, { status: 400 });
   }
