@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { storedRefusal } from "./storedRefusal";
-import { calibrateLumped, type CalibrationResult } from "../design/calibrate";
+import type { CalibrationResult } from "../design/calibrate";
+import { calibrateInPool } from "./enginePool";
 import { packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { bridgeGaps } from "../trace/series";
 import { getTrace } from "../db/traces";
@@ -37,12 +38,16 @@ export async function runCalibration(request: CalibrationRequest): Promise<Calib
   const k = kParsed?.data;
   if (p && !k && p.h_W_m2K === undefined) return { ok: false, message: "this product has no surface coefficient of its own: choose its pack" };
   const air = bridgeGaps(trace.series);
-  try {
-    const result = calibrateLumped(trace.series.t_s, air, trace.series.probe_C, { fitInitial: req.fitInitial, fitOffset: req.fitOffset, mismatchFactor: req.mismatchFactor }, p ? { product: p, pack: k } : undefined);
-    return { ok: true, result, t_s: trace.series.t_s, air_C: air, probe_C: trace.series.probe_C, traceSha256: trace.meta.sha256, product: product ?? undefined, pack: pack ?? undefined };
-  } catch (e) {
-    return { ok: false, message: (e as Error).message };
-  }
+  // The fit runs in the engine's worker pool, off the request thread, like review runs.
+  const fit = await calibrateInPool({
+    t_s: trace.series.t_s,
+    air_C: air,
+    probe_C: trace.series.probe_C,
+    options: { fitInitial: req.fitInitial, fitOffset: req.fitOffset, mismatchFactor: req.mismatchFactor },
+    definitions: p ? { product: p, pack: k } : undefined,
+  });
+  if (!fit.ok) return fit;
+  return { ok: true, result: fit.result, t_s: trace.series.t_s, air_C: air, probe_C: trace.series.probe_C, traceSha256: trace.meta.sha256, product: product ?? undefined, pack: pack ?? undefined };
 }
 
 /**

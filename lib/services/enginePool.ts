@@ -9,6 +9,7 @@ import { pathToFileURL } from "node:url";
 import { MessageChannel } from "node:worker_threads";
 import Piscina from "piscina";
 import type { ReviewAttempt, ReviewInput } from "../review";
+import type { CalibrationAttempt, CalibrationTask } from "./workers/reviewWorker";
 
 const globalForPool = globalThis as unknown as { corelagEnginePool?: Piscina };
 
@@ -41,6 +42,11 @@ export async function runReviewInPool(input: ReviewInput, opts: { signal?: Abort
   } finally {
     port1.close();
   }
+}
+
+/** Runs one calibration fit in the pool. */
+export async function calibrateInPool(task: CalibrationTask): Promise<CalibrationAttempt> {
+  return (await pool().run(task, { name: "calibrate" })) as CalibrationAttempt;
 }
 
 /** Ends every worker (on shutdown, and in tests). */
