@@ -56,7 +56,8 @@ test("the review page and the report say: verified at TIME against chain head N,
   await page.goto(`/reviews/${reviewId}/report`);
   await expect(page.getByTestId("record-verified-line")).toContainText(`against chain head ${head.seq}, key ${short}`);
   await expect(page.getByTestId("report-chain-head")).toHaveText(`Audit chain head at printing: entry ${head.seq}, hash ${head.hash}, signed by key ${head.key_fingerprint}.`);
-  await page.getByTestId("record-verified").screenshot({ path: "test-results/records-report-verified.png" });
+  await page.waitForLoadState("networkidle"); // a late re-render must not detach the element mid-shot
+  await page.screenshot({ path: "test-results/records-report-verified.png", fullPage: true });
 });
 
 test("a review changed behind the application's back fails its record check, by name", async ({ page }) => {
@@ -68,7 +69,8 @@ test("a review changed behind the application's back fails its record check, by 
     await page.goto(`/reviews/${reviewId}`);
     await expect(page.getByTestId("record-verified-line")).toContainText("Record check FAILED");
     await expect(page.getByTestId("record-findings")).toContainText(`row-altered: review ${reviewId} no longer matches the content recorded by entry`);
-    await page.getByTestId("record-verified").screenshot({ path: "test-results/records-review-failed.png" });
+    await page.waitForLoadState("networkidle"); // a late re-render must not detach the element mid-shot
+  await page.screenshot({ path: "test-results/records-review-failed.png", fullPage: true });
   } finally {
     d.prepare(`UPDATE "Review" SET "title" = ? WHERE "id" = ?`).run(title, reviewId);
     d.close();
@@ -88,7 +90,8 @@ test("the audit page shows the signing key and the last anchor, and whether the 
   appendFileSync(`${DB_FILE}.anchors.jsonl`, JSON.stringify({ ...head, hash: "f".repeat(64), anchored_at: new Date().toISOString() }) + "\n");
   await page.goto("/audit");
   await expect(page.getByTestId("anchor-status")).toContainText(`The chain no longer contains it: entry ${head.seq} no longer has the anchored hash ffffffffffffffff…`);
-  await page.getByTestId("chain-check").screenshot({ path: "test-results/records-audit-anchor.png" });
+  await page.waitForLoadState("networkidle"); // a late re-render must not detach the element mid-shot
+  await page.screenshot({ path: "test-results/records-audit-anchor.png", fullPage: true });
   // put the good anchor back last, for the tests that follow
   appendFileSync(`${DB_FILE}.anchors.jsonl`, JSON.stringify(head) + "\n");
 });
