@@ -2,6 +2,7 @@ import { test, expect, type Page } from "@playwright/test";
 import { readFileSync } from "node:fs";
 import { createHash } from "node:crypto";
 import path from "node:path";
+import { saveLumpedProduct, saveTemplateLimits } from "./helpers/seedDefinitions";
 
 // What an auditor and a QA reviewer need beside the review: the audit log, the original file,
 // re-checks, the report's parameters, duplicate uploads and the lists. One shared database, in order.
@@ -25,19 +26,8 @@ async function uploadViaApi(page: Page, file: string, name: string): Promise<str
 
 test("set up: a trace, a product, a limit set and a review", async ({ page }) => {
   traceId = await uploadViaApi(page, routeFile, "Auditor route 7");
-  await page.goto("/products");
-  await page.getByTestId("product-name").fill("Auditor meal tray");
-  await page.getByTestId("initial_C").fill("3.2");
-  await page.getByTestId("mass_kg").fill("0.45");
-  await page.getByTestId("area_m2").fill("0.062");
-  await page.getByTestId("h_W_m2K").fill("2.5");
-  await page.getByTestId("cp_J_kgK").fill("3600");
-  await page.getByRole("button", { name: "Save product" }).click();
-  await expect(page.getByTestId("product-list")).toContainText("Auditor meal tray");
-  await page.goto("/limits");
-  await page.getByTestId("template-select").selectOption("chilled-cold-holding-5C");
-  await page.getByRole("button", { name: "Save limit set" }).click();
-  await expect(page.getByTestId("limits-list")).toBeVisible();
+  await saveLumpedProduct(page, "Auditor meal tray");
+  await saveTemplateLimits(page, "chilled-cold-holding-5C");
   await page.goto(`/reviews/new?trace=${traceId}`);
   await page.getByLabel("Title").fill("Auditor review of route 7");
   await page.locator("#f-productId").selectOption({ label: "Auditor meal tray v1" });

@@ -1,6 +1,7 @@
 import { test, expect } from "@playwright/test";
 import { readFileSync } from "node:fs";
 import path from "node:path";
+import { saveLumpedProduct, saveTemplateLimits } from "./helpers/seedDefinitions";
 
 // Issue 9: every form keeps every value the user entered after a validation error. Each test fills a
 // form, makes one value invalid, submits (the server refuses), and checks every other field.
@@ -133,19 +134,8 @@ test("review form: a window with one end refused leaves title, inputs, model, wi
   const up = await request.post("/api/traces", { multipart: { file: { name: "kept-review.csv", mimeType: "text/csv", buffer: bytes }, name: "Kept review trace", options: "{}" } });
   expect(up.status()).toBe(201);
   const traceValue = ((await up.json()) as { id: string }).id;
-  await page.goto("/products");
-  await page.getByTestId("product-name").fill("Kept review product");
-  await page.getByTestId("initial_C").fill("3");
-  await page.getByTestId("mass_kg").fill("0.3");
-  await page.getByTestId("area_m2").fill("0.05");
-  await page.getByTestId("h_W_m2K").fill("3");
-  await page.getByTestId("cp_J_kgK").fill("3300");
-  await page.getByRole("button", { name: "Save product" }).click();
-  await expect(page.getByTestId("product-list")).toContainText("Kept review product");
-  await page.goto("/limits");
-  await page.getByTestId("template-select").selectOption("chilled-8C-uk");
-  await page.getByRole("button", { name: "Save limit set" }).click();
-  await expect(page.getByTestId("limits-list")).toBeVisible();
+  await saveLumpedProduct(page, "Kept review product", { initial_C: "3", mass_kg: "0.3", area_m2: "0.05", h_W_m2K: "3", cp_J_kgK: "3300" });
+  await saveTemplateLimits(page, "chilled-8C-uk");
 
   await page.goto("/reviews/new");
   await page.getByLabel("Title").fill("Kept review");

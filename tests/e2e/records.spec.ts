@@ -3,6 +3,7 @@ import { appendFileSync, readFileSync } from "node:fs";
 import { spawnSync } from "node:child_process";
 import path from "node:path";
 import Database from "better-sqlite3";
+import { saveLumpedProduct, saveTemplateLimits } from "./helpers/seedDefinitions";
 
 // Issue 12 in the app: the review page and report say when the record was verified against which chain
 // head and key; the audit page shows the signing key and the last anchor, and whether the chain still holds it.
@@ -24,19 +25,8 @@ test("set up: a trace, a product, a limit set and a review", async ({ page }) =>
   });
   expect(res.status()).toBe(201);
   const traceId = ((await res.json()) as { id: string }).id;
-  await page.goto("/products");
-  await page.getByTestId("product-name").fill("Records meal tray");
-  await page.getByTestId("initial_C").fill("3.2");
-  await page.getByTestId("mass_kg").fill("0.45");
-  await page.getByTestId("area_m2").fill("0.062");
-  await page.getByTestId("h_W_m2K").fill("2.5");
-  await page.getByTestId("cp_J_kgK").fill("3600");
-  await page.getByRole("button", { name: "Save product" }).click();
-  await expect(page.getByTestId("product-list")).toContainText("Records meal tray");
-  await page.goto("/limits");
-  await page.getByTestId("template-select").selectOption("chilled-cold-holding-5C");
-  await page.getByRole("button", { name: "Save limit set" }).click();
-  await expect(page.getByTestId("limits-list")).toBeVisible();
+  await saveLumpedProduct(page, "Records meal tray");
+  await saveTemplateLimits(page, "chilled-cold-holding-5C");
   await page.goto(`/reviews/new?trace=${traceId}`);
   await page.getByLabel("Title").fill("Records review of route 7");
   await page.locator("#f-productId").selectOption({ label: "Records meal tray v1" });

@@ -1,5 +1,6 @@
 import { test, expect } from "@playwright/test";
 import path from "node:path";
+import { saveLumpedProduct, saveTemplateLimits } from "./helpers/seedDefinitions";
 
 const DEMO = path.join(__dirname, "../../public/demo");
 
@@ -156,19 +157,8 @@ test("sign off a review, open its printable report, export the findings, and cor
   await expect(page.getByTestId("preview")).toBeVisible();
   await page.getByRole("button", { name: "Upload and import" }).click();
   await expect(page.getByTestId("trace-samples")).toHaveText("361");
-  await page.goto("/products");
-  await page.getByTestId("product-name").fill("Sandwich tray");
-  await page.getByTestId("initial_C").fill("3");
-  await page.getByTestId("mass_kg").fill("0.3");
-  await page.getByTestId("area_m2").fill("0.05");
-  await page.getByTestId("h_W_m2K").fill("3");
-  await page.getByTestId("cp_J_kgK").fill("3300");
-  await page.getByRole("button", { name: "Save product" }).click();
-  await expect(page.getByTestId("product-list")).toContainText("Sandwich tray");
-  await page.goto("/limits");
-  await page.getByTestId("template-select").selectOption("chilled-cold-holding-5C");
-  await page.getByRole("button", { name: "Save limit set" }).click();
-  await expect(page.getByTestId("limits-list")).toBeVisible();
+  await saveLumpedProduct(page, "Sandwich tray", { initial_C: "3", mass_kg: "0.3", area_m2: "0.05", h_W_m2K: "3", cp_J_kgK: "3300" });
+  await saveTemplateLimits(page, "chilled-cold-holding-5C");
 
   await page.goto("/reviews/new");
   await page.getByLabel("Title").fill("Sandwiches route 7");

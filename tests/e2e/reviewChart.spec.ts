@@ -1,6 +1,7 @@
 import { test, expect, type Page } from "@playwright/test";
 import { readFileSync } from "node:fs";
 import path from "node:path";
+import { saveLumpedProduct } from "./helpers/seedDefinitions";
 
 // Issue 9, "Charts that show what matters" and "Times ... people can read": the review chart shades
 // each excursion, labels each limit line with its rules and channels, draws the guard band and the
@@ -9,15 +10,7 @@ const DEMO = path.join(__dirname, "../../public/demo");
 test.use({ timezoneId: "Europe/Berlin" });
 
 async function product(page: Page, name: string) {
-  await page.goto("/products");
-  await page.getByTestId("product-name").fill(name);
-  await page.getByTestId("initial_C").fill("3.2");
-  await page.getByTestId("mass_kg").fill("0.45");
-  await page.getByTestId("area_m2").fill("0.062");
-  await page.getByTestId("h_W_m2K").fill("2.5");
-  await page.getByTestId("cp_J_kgK").fill("3600");
-  await page.getByRole("button", { name: "Save product" }).click();
-  await expect(page.getByTestId("product-list")).toContainText(name);
+  await saveLumpedProduct(page, name);
 }
 
 /** The demo plan (public/demo/ready-meal.limits.json): core above 5 °C, core peak 8 °C and air above 8 °C, ±0.5 K. */

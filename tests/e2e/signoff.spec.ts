@@ -1,5 +1,6 @@
 import { test, expect, type Page } from "@playwright/test";
 import path from "node:path";
+import { saveLumpedProduct } from "./helpers/seedDefinitions";
 
 // Issue 9, "Records must say what the reviewer decided": the stored decision is the one chosen, and the
 // comment required for a decision that differs from the suggestion is enforced against the STORED outcome.
@@ -15,15 +16,7 @@ async function rejectReview(page: Page, title: string): Promise<string> {
   await expect(page.getByTestId("trace-samples")).toHaveText("361");
   const traceId = page.url().split("/").pop()!;
 
-  await page.goto("/products");
-  await page.getByTestId("product-name").fill(`${title} product`);
-  await page.getByTestId("initial_C").fill("3.2");
-  await page.getByTestId("mass_kg").fill("0.45");
-  await page.getByTestId("area_m2").fill("0.062");
-  await page.getByTestId("h_W_m2K").fill("2.5");
-  await page.getByTestId("cp_J_kgK").fill("3600");
-  await page.getByRole("button", { name: "Save product" }).click();
-  await expect(page.getByTestId("product-list")).toContainText(`${title} product`);
+  await saveLumpedProduct(page, `${title} product`);
 
   await page.goto("/limits");
   await page.locator("#f-ls-name").fill(`${title} limits`);
