@@ -5,7 +5,7 @@
 //   app/ → lib/services → lib/db → engine          (lib/cli sits beside app/: services and engine)
 //   lib/config (environment and .env, validated) is read by db, services and cli
 //   engine, lowest first: trace < thermal < exposure < uncertainty < review < design; display (charts, times and
-//   numbers as shown) stands alone and imports no other lib folder
+//   numbers as shown) and access (roles, permissions, actors) stand alone and import no other lib folder
 //   new lib/ folders must be given a place here before they are used
 import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
 import path from "node:path";
@@ -18,6 +18,7 @@ export const ENGINE_LAYERS: Record<string, string[]> = {
   uncertainty: ["trace", "thermal", "exposure"],
   review: ["trace", "thermal", "exposure", "uncertainty"],
   display: [],
+  access: [],
   design: ["trace", "thermal", "exposure", "uncertainty", "review"],
 };
 const ENGINE = Object.keys(ENGINE_LAYERS);
