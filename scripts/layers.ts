@@ -4,7 +4,9 @@
 //
 //   app/ → lib/services → lib/db → engine          (lib/cli sits beside app/: services and engine)
 //   lib/config (environment and .env, validated) is read by db, services and cli
-//   engine, lowest first: trace < thermal < exposure < uncertainty < review < design; display (charts, times and
+//   engine, lowest first: trace < thermal < exposure < uncertainty < review < design; consequence (growth and
+//   shelf-life models on a temperature history, and their schemas) imports no other lib folder and sits below
+//   thermal, whose product schema carries its models; display (charts, times and
 //   numbers as shown) and access (roles, permissions, actors) stand alone and import no other lib folder
 //   new lib/ folders must be given a place here before they are used
 import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
@@ -13,13 +15,14 @@ import path from "node:path";
 /** Engine folders, each with the engine folders it may import (only lower ones). */
 export const ENGINE_LAYERS: Record<string, string[]> = {
   trace: [],
-  thermal: ["trace"],
-  exposure: ["trace", "thermal"],
-  uncertainty: ["trace", "thermal", "exposure"],
-  review: ["trace", "thermal", "exposure", "uncertainty"],
+  consequence: [],
+  thermal: ["trace", "consequence"],
+  exposure: ["trace", "thermal", "consequence"],
+  uncertainty: ["trace", "thermal", "exposure", "consequence"],
+  review: ["trace", "thermal", "exposure", "uncertainty", "consequence"],
   display: [],
   access: [],
-  design: ["trace", "thermal", "exposure", "uncertainty", "review"],
+  design: ["trace", "thermal", "exposure", "uncertainty", "review", "consequence"],
 };
 const ENGINE = Object.keys(ENGINE_LAYERS);
 

@@ -10,6 +10,11 @@ import type { FormState } from "@/lib/validation";
 
 interface RuleRow {
   id: string;
+  /** threshold (time beyond), growth (log10 increase of a product model), shelf_life (percent consumed) */
+  kind: "threshold" | "growth" | "shelf_life";
+  /** growth and shelf-life rules: the model id on the product, the largest value allowed */
+  model: string;
+  maxConsequence: string;
   channel: string;
   direction: "above" | "below";
   threshold: string;
@@ -18,19 +23,39 @@ interface RuleRow {
   peak: string;
 }
 
-const emptyRule = (n: number): RuleRow => ({ id: `rule-${n}`, channel: "core", direction: "above", threshold: "", cumulative: "", continuous: "", peak: "" });
+const emptyRule = (n: number): RuleRow => ({ id: `rule-${n}`, kind: "threshold", model: "", maxConsequence: "", channel: "core", direction: "above", threshold: "", cumulative: "", continuous: "", peak: "" });
 const opt = (s: string) => (s.trim() === "" ? undefined : Number(s));
 
 function rowsFrom(limits: LimitSet): RuleRow[] {
-  return limits.rules.map((r) => ({
-    id: r.id,
-    channel: r.channel,
+  return limits.rules.map((r): RuleRow => {
+    const base = { id: r.id, channel: r.channel ?? "core", model: "", maxConsequence: "", direction: "above" as const, threshold: "", cumulative: "", continuous: "", peak: "" };
+    if (r.kind === "growth") return { ...base, kind: "growth", model: r.model, maxConsequence: String(r.max_log10_increase) };
+    if (r.kind === "shelf_life") return { ...base, kind: "shelf_life", model: r.model ?? "", maxConsequence: String(r.max_consumed_percent) };
+    return {
+    ...base,
+    kind: "threshold",
     direction: r.above_C !== undefined ? "above" : "below",
     threshold: String(r.above_C ?? r.below_C ?? ""),
     cumulative: r.max_cumulative_min?.toString() ?? "",
     continuous: r.max_continuous_min?.toString() ?? "",
     peak: r.max_peak_C?.toString() ?? "",
-  }));
+    };
+  });
+}
+
+/** The rule as the schema reads it; a consequence rule on the core leaves the channel out (the default). */
+function ruleOf(r: RuleRow): Record<string, unknown> {
+  const channel = r.channel === "core" ? undefined : r.channel;
+  if (r.kind === "growth") return { id: r.id, kind: "growth", model: r.model, max_log10_increase: opt(r.maxConsequence) ?? Number.NaN, channel };
+  if (r.kind === "shelf_life") return { id: r.id, kind: "shelf_life", model: r.model.trim() === "" ? undefined : r.model, max_consumed_percent: opt(r.maxConsequence) ?? Number.NaN, channel };
+  return {
+    id: r.id,
+    channel: r.channel,
+    [r.direction === "above" ? "above_C" : "below_C"]: opt(r.threshold) ?? Number.NaN,
+    max_cumulative_min: opt(r.cumulative),
+    max_continuous_min: opt(r.continuous),
+    max_peak_C: opt(r.peak),
+  };
 }
 
 /** Builds a limit set rule by rule; the server validates the whole set and names the rule and field at fault. */
@@ -44,14 +69,7 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
   const definition = {
     name,
     sensor_accuracy_K: opt(accuracy),
-    rules: rules.map((r) => ({
-      id: r.id,
-      channel: r.channel,
-      [r.direction === "above" ? "above_C" : "below_C"]: opt(r.threshold) ?? Number.NaN,
-      max_cumulative_min: opt(r.cumulative),
-      max_continuous_min: opt(r.continuous),
-      max_peak_C: opt(r.peak),
-    })),
+    rules: rules.map(ruleOf),
   };
   const set = (i: number, patch: Partial<RuleRow>) => setRules(rules.map((r, j) => (j === i ? { ...r, ...patch } : r)));
   const err = (path: string) => state.fieldErrors?.[path];
@@ -88,17 +106,26 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
       </label>
       <table>
         <thead>
-          <tr><th>Rule id</th><th>Channel</th><th>Counts time</th><th>Threshold °C</th><th>Max cumulative min</th><th>Max continuous min</th><th>Max peak °C</th><th /></tr>
+          <tr><th>Rule id</th><th>Kind</th><th>Channel</th><th>Counts time</th><th>Threshold °C</th><th>Max cumulative min</th><th>Max continuous min</th><th>Max peak °C</th><th /></tr>
         </thead>
         <tbody>
           {rules.map((r, i) => (
             <tr key={i} data-testid={`rule-row-${i}`}>
               <td><input aria-label={`rule ${i + 1} id`} value={r.id} size={14} onChange={(e) => set(i, { id: e.target.value })} /></td>
               <td>
+                <select aria-label={`rule ${i + 1} kind`} value={r.kind} onChange={(e) => set(i, { kind: e.target.value as RuleRow["kind"] })}>
+                  <option value="threshold">time beyond a threshold</option>
+                  <option value="growth">growth (log10 increase)</option>
+                  <option value="shelf_life">shelf life consumed (%)</option>
+                </select>
+              </td>
+              <td>
                 <select aria-label={`rule ${i + 1} channel`} value={r.channel} onChange={(e) => set(i, { channel: e.target.value })}>
                   {CHANNELS.map((c) => <option key={c} value={c}>{c}</option>)}
                 </select>
               </td>
+              {r.kind === "threshold" ? (
+                <>
               <td>
                 <select aria-label={`rule ${i + 1} direction`} value={r.direction} onChange={(e) => set(i, { direction: e.target.value as RuleRow["direction"] })}>
                   <option value="above">above</option>
@@ -109,6 +136,18 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
               <td><input aria-label={`rule ${i + 1} max cumulative minutes`} value={r.cumulative} size={6} inputMode="decimal" onChange={(e) => set(i, { cumulative: e.target.value })} /></td>
               <td><input aria-label={`rule ${i + 1} max continuous minutes`} value={r.continuous} size={6} inputMode="decimal" onChange={(e) => set(i, { continuous: e.target.value })} /></td>
               <td><input aria-label={`rule ${i + 1} max peak`} value={r.peak} size={6} inputMode="decimal" onChange={(e) => set(i, { peak: e.target.value })} /></td>
+                </>
+              ) : (
+                <>
+                  <td><input aria-label={`rule ${i + 1} model`} value={r.model} size={8} placeholder={r.kind === "growth" ? "model id" : "(the only one)"} onChange={(e) => set(i, { model: e.target.value })} /></td>
+                  <td colSpan={4}>
+                    <label className="inline">
+                      {r.kind === "growth" ? "at most (log10 increase)" : "at most (% of shelf life consumed)"}{" "}
+                      <input aria-label={`rule ${i + 1} ${r.kind === "growth" ? "max log10 increase" : "max percent consumed"}`} value={r.maxConsequence} size={6} inputMode="decimal" onChange={(e) => set(i, { maxConsequence: e.target.value })} />
+                    </label>
+                  </td>
+                </>
+              )}
               <td><button type="button" className="secondary" onClick={() => setRules(rules.filter((_, j) => j !== i))} disabled={rules.length === 1}>Remove</button></td>
             </tr>
           ))}
@@ -121,7 +160,7 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
             {k.replace(/^rules\.(\d+)/, (_, n: string) => `rule ${Number(n) + 1}`)}: {m}
           </p>
         ))}
-      <p className="hint muted">A rule with no maximum allows no time beyond its threshold. Leave a maximum blank to not use it.</p>
+      <p className="hint muted">A rule with no maximum allows no time beyond its threshold. Leave a maximum blank to not use it. A growth or shelf-life rule names a model id on the product (Products, "Growth and shelf life") and is judged on the guard band of its estimate: the estimate at the temperatures less and plus the sensor accuracy.</p>
       <button type="button" className="secondary" onClick={() => setRules([...rules, emptyRule(rules.length + 1)])}>Add a rule</button>
       <DefinitionFooter definition={definition} editing={editing} state={state} pending={pending} noun="limit set" />
     </ActionForm>

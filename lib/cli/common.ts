@@ -13,7 +13,7 @@ export const USAGE = `usage:
                       [--date-order dmy|mdy|ymd] [--time-format datetime|unix-s|unix-ms|elapsed-s|elapsed-min|elapsed-h] [--start ISO]
                       [--decimal .|,] [--delimiter ,|;|tab||] [--missing CODE,CODE] [--plausible-min C] [--plausible-max C] [--gap-multiple N] [--format json]
   corelag predict --trace FILE --product P.json [--pack K.json] [--model auto|lumped|conduction|conduction-1d] [--out FILE.csv] [import options] [--format json]
-  corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction|conduction-1d] [--window START/END] [import options] [--format json]
+  corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction|conduction-1d] [--window START/END] [--consequence-channels LIST] [import options] [--format json]
   corelag calibrate --trace FILE [--air-col NAME] [--product-col NAME] [--product P.json] [--pack K.json] [--fit-initial] [--fit-offset] [--mismatch-factor F] [import options] --format json
   corelag size --profile FILE(.csv|.json) --product P.json --pack K.json --limits L.json --vary layer:N:thickness_m|coolant:N:mass_kg|product:initial_C --min X --max Y [--model M] --format json
   corelag verify [--review ID] [--anchor FILE_OR_JSON] [--json]   (storage, audit chain, signatures, every row against the chain, re-runs stored reviews; exit 1 on any finding; uses DATABASE_URL)

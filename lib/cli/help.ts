@@ -31,9 +31,11 @@ output, and nothing else is printed there).
 
 ${IMPORT_OPTIONS}`,
   review: `corelag review --trace FILE --product P.json [--pack K.json] --limits L.json [--model auto|lumped|conduction]
-               [--window START/END] [--uncertainty U.json] [import options] [--format json]
+               [--window START/END] [--uncertainty U.json] [--consequence-channels air,probe] [import options] [--format json]
 Predicts the core and judges every rule of the limit set (pass, fail or inconclusive under the guard band); prints the
-review as JSON with the suggested outcome and its cautions.
+review as JSON with the suggested outcome and its cautions. The product's growth and shelf-life models
+("consequences") are applied to the core, to the channels --consequence-channels names and to those their rules
+name; "consequences" in the output lists each, with its guard band (lower, upper).
 
 ${IMPORT_OPTIONS}`,
   calibrate: `corelag calibrate --trace FILE [--product-col NAME] [--product P.json] [--pack K.json] [--fit-initial] [--fit-offset]

@@ -1,11 +1,11 @@
-import type { Rule } from "../exposure/limits";
+import { isConsequenceRule, ruleChannel, type Rule } from "../exposure/limits";
 import type { RuleMeasure } from "./sizing";
 
 /** What a sizing chart plots for the rule that sets the boundary, and where that rule's limit lies. */
 export interface GoverningCurve {
   rule_id: string;
   /** which measure of each curve point to plot */
-  quantity: "extreme_C" | "cumulative_min" | "longest_min";
+  quantity: "extreme_C" | "cumulative_min" | "longest_min" | "consequence";
   /** axis label in words and units: "peak core temperature, °C", "time of the core above 4.5 °C, min" */
   label: string;
   /** what the label's threshold is, when the guard band moved it: "4.5 °C is the 5 °C threshold less the 0.5 K guard band" */
@@ -27,6 +27,19 @@ const r2 = (x: number) => Number(x.toFixed(2));
  * rule starts to pass.
  */
 export function governingCurve(rule: Rule, u_K: number, at: RuleMeasure): GoverningCurve {
+  if (isConsequenceRule(rule)) {
+    // the consequence at T + u (the pass test's side of the guard band), against the rule's limit
+    const growth = rule.kind === "growth";
+    const limit = growth ? rule.max_log10_increase : rule.max_consumed_percent;
+    return {
+      rule_id: rule.id,
+      quantity: "consequence",
+      label: growth ? `log10 increase of ${rule.model} on the ${ruleChannel(rule)}, log10` : `shelf life consumed on the ${ruleChannel(rule)}, %`,
+      note: u_K > 0 ? `estimated with the ${ruleChannel(rule)} ${u_K} K warmer (the guard band)` : null,
+      limit: { value: limit, label: `${rule.id}: ≤ ${limit}${growth ? " log10" : " %"}` },
+      pass: null,
+    };
+  }
   const above = rule.above_C !== undefined;
   const threshold = (rule.above_C ?? rule.below_C)!;
   const strictThreshold = r2(above ? threshold - u_K : threshold + u_K);

@@ -1,4 +1,4 @@
-import type { LimitSet } from "../exposure/limits";
+import { ruleChannel, type LimitSet } from "../exposure/limits";
 import type { Pack } from "../thermal/definitions";
 import { displayOf, type DesignVariable } from "./vary";
 
@@ -15,10 +15,10 @@ export interface RuleNote {
 export function independentRules(limits: LimitSet, variable: DesignVariable, pack: Pack | undefined): RuleNote[] {
   const name = displayOf(variable, pack).name;
   return limits.rules
-    .filter((r) => r.channel === "air")
+    .filter((r) => ruleChannel(r) === "air")
     .map((r) => ({
       id: r.id,
-      channel: r.channel,
+      channel: ruleChannel(r),
       kind: "independent" as const,
       advice: `rule ${r.id} judges the air, which no ${name} changes: drop it from the limit set used for design, or change the ambient profile; judge real shipments against it in a review`,
     }));

@@ -1,6 +1,6 @@
 import type { TraceSeries } from "../trace/series";
 import type { ModelChoice, Pack, Product } from "../thermal/definitions";
-import type { LimitSet } from "../exposure/limits";
+import { isThresholdRule, ruleChannel, type LimitSet } from "../exposure/limits";
 import type { RuleStatus } from "../exposure/rules";
 import { timeBeyond } from "../exposure/timeAbove";
 import { runReview } from "../review/runReview";
@@ -32,6 +32,8 @@ export interface RuleMeasure {
   /** time beyond the threshold moved by the guard band against the shipment: what a pass must keep within the allowance, min */
   cumulative_min: number;
   longest_min: number;
+  /** growth and shelf-life rules: the estimate at T + u (what a pass must keep within the limit); NaN for threshold rules */
+  consequence?: number;
 }
 
 export interface CurvePoint {
@@ -91,7 +93,8 @@ interface Evaluation {
 export function size(input: SizingInput): SizingResult {
   const { series, limits, variable, min, max } = input;
   if (!(max > min)) throw new RangeError("max must be greater than min");
-  const below = limits.rules.every((r) => r.below_C !== undefined);
+  const thresholdRules = limits.rules.filter(isThresholdRule);
+  const below = thresholdRules.length > 0 && thresholdRules.every((r) => r.below_C !== undefined);
   const metricName = below ? "lowest core temperature, °C" : "peak core temperature, °C";
   const precision = precisionOf(variable);
   const display = displayOf(variable, input.pack);
@@ -107,15 +110,19 @@ export function size(input: SizingInput): SizingResult {
     const channel: Record<string, Float64Array> = { air: comp.airBridged_C, core: comp.core_C, surface: comp.surface_C, mean: comp.mean_C };
     const rules: Record<string, RuleMeasure> = {};
     const reasons: Record<string, string> = {};
-    limits.rules.forEach((rule, i) => {
-      const f = comp.result.rules[i]!;
+    for (const c of comp.result.consequence_rules ?? []) {
+      rules[c.id] = { status: c.status, extreme_C: NaN, cumulative_min: NaN, longest_min: NaN, consequence: c.upper };
+      reasons[c.id] = c.reason;
+    }
+    thresholdRules.forEach((rule) => {
+      const f = comp.result.rules.find((r) => r.id === rule.id)!;
       const values = channel[rule.channel];
       // the pass test's threshold: moved by the guard band against the shipment (lib/exposure/rules.ts)
       const strict = values ? timeBeyond(series.t_s, values, f.threshold_C + (f.direction === "above" ? -u : u), f.direction) : null;
-      rules[rule.id] = { status: f.status, extreme_C: f.extreme_C, cumulative_min: strict ? strict.cumulative_s / 60 : NaN, longest_min: strict ? strict.longest_s / 60 : NaN };
+      rules[rule.id] = { status: f.status, extreme_C: f.extreme_C, cumulative_min: strict ? strict.cumulative_s / 60 : NaN, longest_min: strict ? strict.longest_s / 60 : NaN, consequence: NaN };
       reasons[rule.id] = f.reason;
     });
-    return { feasible: comp.result.rules.every((r) => r.status === "pass"), metric: m, core: comp.core_C, rules, reasons };
+    return { feasible: Object.values(rules).every((r) => r.status === "pass"), metric: m, core: comp.core_C, rules, reasons };
   };
   const failingOf = (e: Evaluation) => Object.entries(e.rules).filter(([, r]) => r.status !== "pass").map(([id, r]) => ({ id, status: r.status, reason: e.reasons[id]! }));
 
@@ -140,10 +147,10 @@ export function size(input: SizingInput): SizingResult {
     best.rules[n.id]!.status !== "pass" ? { ...n, advice: `${n.advice}. It does not pass on this ambient: ${best.reasons[n.id]}` } : n,
   );
   for (const r of limits.rules) {
-    if (r.channel === "air" || best.rules[r.id]!.status === "pass" || worst.rules[r.id]!.status === "pass") continue;
+    if (ruleChannel(r) === "air" || best.rules[r.id]!.status === "pass" || worst.rules[r.id]!.status === "pass") continue;
     notes.push({
       id: r.id,
-      channel: r.channel,
+      channel: ruleChannel(r),
       kind: "fails-throughout",
       advice: `rule ${r.id} does not pass at either end of the range (${fmtX(min)} and ${fmtX(max)}): widen the range, or change the rule or the ambient. At ${fmtX(best_x)}: ${best.reasons[r.id]}`,
     });

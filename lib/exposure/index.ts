@@ -5,3 +5,4 @@ export * from "./rules";
 export * from "./window";
 export * from "./templates";
 export * from "./bands";
+export * from "./consequenceRules";

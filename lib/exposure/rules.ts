@@ -1,4 +1,4 @@
-import type { LimitSet, Rule } from "./limits";
+import { isThresholdRule, type LimitSet, type ThresholdRule as Rule } from "./limits";
 import { timeBeyond, type Excursion, type ExposureSummary } from "./timeAbove";
 import { partsOutside, type Span } from "./window";
 
@@ -154,14 +154,15 @@ export function evaluateRule(rule: Rule, ch: ChannelSeries, sensorAccuracy_K: nu
 }
 
 /** accept when every rule passes, reject when any fails, hold for review otherwise. */
-export function overallOutcome(findings: readonly RuleFinding[]): Outcome {
+export function overallOutcome(findings: readonly { status: RuleStatus }[]): Outcome {
   if (findings.some((f) => f.status === "fail")) return "reject";
   if (findings.every((f) => f.status === "pass")) return "accept";
   return "hold";
 }
 
+/** Judges the limit set's threshold rules (consequence rules: consequenceRules.ts). */
 export function evaluateLimitSet(limits: LimitSet, channels: Partial<Record<string, ChannelSeries>>): RuleFinding[] {
-  return limits.rules.map((rule) => {
+  return limits.rules.filter(isThresholdRule).map((rule) => {
     const ch = channels[rule.channel];
     if (!ch) throw new Error(`rule '${rule.id}' needs the '${rule.channel}' channel, which this review does not have`);
     return evaluateRule(rule, ch, limits.sensor_accuracy_K ?? 0);

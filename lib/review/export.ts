@@ -52,8 +52,23 @@ export function findingsCsv(meta: FindingsMeta, r: ReviewResult): string {
     [],
     ["rule", "excursion_start_utc", "excursion_end_utc", "duration_min", "peak_C", "degree_min"],
     ...r.rules.flatMap((x) => x.excursions.map((e) => [x.id, e.start, e.end, e.duration_min, e.peak_C, e.degree_min])),
+    ...consequenceRows(r),
     [],
     ...r.cautions.map((c) => ["caution", c]),
   ];
   return rows.map((row) => csvRow(row)).join("\r\n") + "\r\n";
+}
+
+/** Growth and shelf-life estimates and rules, when the review has them (none: no rows, as before engine 0.5.0). */
+function consequenceRows(r: ReviewResult): Array<Array<string | number>> {
+  if (!r.consequences && !r.consequence_rules) return [];
+  const n = (x: number | null | undefined) => (x === null || x === undefined ? "" : x);
+  return [
+    [],
+    ["consequence", "model", "kind", "channel", "log10_increase", "shelf_life_consumed_days", "shelf_life_consumed_percent", "remaining_days_at_C", "storage_C", "lower", "upper", "guard_K", "minutes_above", "comparison_threshold_C"],
+    ...(r.consequences ?? []).map((c) => [c.id, c.model, c.kind, c.channel, n(c.log10_increase), n(c.shelf_life_consumed_days), n(c.shelf_life_consumed_percent), n(c.remaining_days_at_C), n(c.storage_C), c.lower, c.upper, c.guard_K, c.comparison.minutes_above, c.comparison.threshold_C]),
+    [],
+    ["consequence_rule", "kind", "model", "channel", "limit", "central", "lower", "upper", "reached_at_utc", "status", "reason"],
+    ...(r.consequence_rules ?? []).map((x) => [x.id, x.kind, x.model, x.channel, x.limit, x.central, x.lower, x.upper, x.reached_at ?? "", x.status, x.reason]),
+  ];
 }

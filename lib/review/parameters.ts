@@ -105,7 +105,9 @@ export function readableNumber(x: number): string {
 }
 
 /** A limit rule in words: "core above 5 °C, at most 120 min in all". */
-export function describeRule(r: { channel: string; above_C?: number; below_C?: number; max_cumulative_min?: number; max_continuous_min?: number; max_peak_C?: number }): string {
+export function describeRule(r: { kind?: string; channel?: string; model?: string; above_C?: number; below_C?: number; max_cumulative_min?: number; max_continuous_min?: number; max_peak_C?: number; max_log10_increase?: number; max_consumed_percent?: number }): string {
+  if (r.kind === "growth") return `growth of model ${r.model} on the ${r.channel ?? "core"}, at most ${r.max_log10_increase} log10 increase`;
+  if (r.kind === "shelf_life") return `shelf life${r.model ? ` (model ${r.model})` : ""} on the ${r.channel ?? "core"}, at most ${r.max_consumed_percent} % consumed`;
   const parts = [`${r.channel} ${r.above_C !== undefined ? `above ${r.above_C}` : `below ${r.below_C}`} °C`];
   if (r.max_cumulative_min !== undefined) parts.push(`at most ${r.max_cumulative_min} min in all`);
   if (r.max_continuous_min !== undefined) parts.push(`at most ${r.max_continuous_min} min at a stretch`);

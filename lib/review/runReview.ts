@@ -2,7 +2,11 @@ import { bridgeGaps, findGaps, type TraceSeries } from "../trace/series";
 import { predict, type ScreeningResult, type SolverReport } from "../thermal/predict";
 import { readableDuration } from "../thermal/screening";
 import type { ModelChoice, Pack, Product } from "../thermal/definitions";
-import type { LimitSet } from "../exposure/limits";
+import { isConsequenceRule, isThresholdRule, ruleChannel, type Channel, type LimitSet } from "../exposure/limits";
+import { judgeConsequenceRule, ruleModel, unmatchedConsequenceRule } from "../exposure/consequenceRules";
+import { evaluateConsequence, CURVE_POINTS, type ConsequenceEstimate } from "../consequence/evaluate";
+import { CONSEQUENCE_CAUTIONS } from "../consequence/cautions";
+import type { ConsequenceModel } from "../consequence/definitions";
 import { evaluateLimitSet, overallOutcome, type ChannelSeries, type Outcome } from "../exposure/rules";
 import { meanKineticTemperature_C } from "../exposure/mkt";
 import { timeBeyond } from "../exposure/timeAbove";
@@ -12,7 +16,14 @@ import { CAUTIONS } from "./cautions";
 import { monteCarlo, type UncertaintySpec } from "../uncertainty/monteCarlo";
 
 /** Bumped whenever a change to the engine could change a stored result. */
-export const ENGINE_VERSION = "0.4.0";
+export const ENGINE_VERSION = "0.5.0";
+
+/**
+ * Earlier engine versions whose results this engine reproduces bit for bit, given that version stamped in the
+ * result: 0.5.0 only added growth and shelf-life models (issue 16), which 0.4.0 definitions cannot carry, and
+ * a review without them has no `consequences` fields. verify re-runs such a review as its recorded version.
+ */
+export const REPRODUCIBLE_ENGINE_VERSIONS: readonly string[] = ["0.4.0"];
 
 /** Channels every review has; "probe" exists when the trace has a product-probe column. */
 export const MODELLED_CHANNELS = ["air", "core", "surface", "mean"] as const;
@@ -31,6 +42,8 @@ export interface ReviewOptions {
   model_uncertainty_K?: number;
   /** propagate input uncertainty by seeded Monte Carlo; with use_in_guard_band, its band widens the guard band */
   uncertainty?: UncertaintySpec;
+  /** channels to apply the product's growth and shelf-life models to, besides the core (and those the rules name) */
+  consequence_channels?: Channel[];
 }
 
 export interface ReviewInput {
@@ -41,6 +54,41 @@ export interface ReviewInput {
   options?: ReviewOptions;
   /** pauses longer than this many median intervals are gaps (the trace's import setting) */
   gapMultiple?: number;
+  /** stamp this engine version in the result (verify re-running a review of a reproducible earlier version) */
+  engineVersion?: string;
+}
+
+/** One growth or shelf-life model applied to one channel over the judged window (issue 16). */
+export interface ConsequenceResult {
+  /** "<model>@<channel>" */
+  id: string;
+  /** the model's id on the product */
+  model: string;
+  kind: "growth" | "shelf_life";
+  channel: string;
+  /** growth: the organism as the product names it; the parameters' source */
+  organism?: string;
+  source?: string;
+  log10_increase?: number;
+  /** physiological state used (null: no lag) */
+  q0?: number | null;
+  shelf_life_consumed_days?: number;
+  shelf_life_consumed_percent?: number;
+  /** days left if stored at storage_C from the end of the window; null when the model predicts no spoilage there */
+  remaining_days_at_C?: number | null;
+  /** remaining days under the guard band: [at T + u, at T − u] */
+  remaining_days_range?: [number | null, number | null];
+  storage_C?: number;
+  /** when the whole shelf life is used up on the central estimate, or null */
+  shelf_life_ends_at?: string | null;
+  /** the guard band of log10_increase (growth) or shelf_life_consumed_percent (shelf life): estimates at T − u (bridged gaps adding nothing) and T + u */
+  lower: number;
+  upper: number;
+  guard_K: number;
+  /** the same history's minutes above a threshold: the proxy beside the consequence */
+  comparison: { threshold_C: number; minutes_above: number; threshold_from: string };
+  /** the central cumulative log10 increase or percent consumed at up to 241 sample times (epoch s) */
+  curve: { t_s: number[]; value: number[] };
 }
 
 const iso = (t_s: number) => new Date(Math.round(t_s * 1000)).toISOString();
@@ -71,6 +119,25 @@ export interface ReviewResult {
   bands: { edges_C: number[]; labels: string[]; air_min: number[]; core_min: number[] };
   /** Monte Carlo summary, when asked for: the 5–95 % core band and how often each rule fails */
   uncertainty?: { samples: number; seed: number; half_width_K: number; used_in_guard_band: boolean; fail_fraction: Record<string, number>; redraws: number; p05: number[]; p95: number[] };
+  /** growth and shelf-life estimates, when the product has models or the limit set has consequence rules */
+  consequences?: ConsequenceResult[];
+  /** growth and shelf-life rules, judged like the threshold rules */
+  consequence_rules?: Array<{
+    id: string;
+    kind: "growth" | "shelf_life";
+    model: string;
+    channel: string;
+    quantity: "log10_increase" | "shelf_life_consumed_percent";
+    limit: number;
+    central: number;
+    lower: number;
+    upper: number;
+    guard_K: number;
+    /** when the central estimate reaches the limit, or null */
+    reached_at: string | null;
+    status: "pass" | "fail" | "inconclusive";
+    reason: string;
+  }>;
   outcome: Outcome;
   cautions: string[];
 }
@@ -111,8 +178,8 @@ function excursionReading(tau_s: number, longest: LongestAirExcursion | null): s
 /** Checks that every rule's channel is one the review produces; returns the first offending rule. */
 export function unsupportedRule(limits: LimitSet, hasProbe = false): { index: number; id: string; channel: string } | null {
   const available: readonly string[] = hasProbe ? [...MODELLED_CHANNELS, "probe"] : MODELLED_CHANNELS;
-  const i = limits.rules.findIndex((r) => !available.includes(r.channel));
-  return i < 0 ? null : { index: i, id: limits.rules[i]!.id, channel: limits.rules[i]!.channel };
+  const i = limits.rules.findIndex((r) => !available.includes(ruleChannel(r)));
+  return i < 0 ? null : { index: i, id: limits.rules[i]!.id, channel: ruleChannel(limits.rules[i]!) };
 }
 
 /** Runs the model and the rules over one trace. Pure and deterministic: same inputs, same bits. */
@@ -165,6 +232,7 @@ export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewCo
     channels.probe = channel(bridgeGaps(series, filled), probeSpans, false);
   }
   const findings = evaluateLimitSet(limits, channels);
+  const cons = consequences(product.consequences ?? [], limits, channels, options.consequence_channels ?? [], product.initial_C);
 
   let longestAir: LongestAirExcursion | null = null;
   for (const f of findings) {
@@ -176,7 +244,7 @@ export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewCo
   const minutes = (ch: ChannelSeries) => timeInBands(ch.t_s, ch.value_C, edges).map((s) => round(s / 60, 3));
 
   const result: ReviewResult = {
-    engine_version: ENGINE_VERSION,
+    engine_version: input.engineVersion ?? ENGINE_VERSION,
     screening: { ...pred.screening, excursion_reading: excursionReading(tau, longestAir), lumped_vs_conduction_K: pred.lumped_vs_conduction_K },
     solver: pred.solver,
     gaps: gaps.filter((g) => g.end_s > a && g.start_s < b).map((g) => ({ start: iso(g.start_s), end: iso(g.end_s), duration_s: g.duration_s })),
@@ -219,9 +287,84 @@ export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewCo
           },
         }
       : {}),
-    outcome: overallOutcome(findings),
+    ...(cons ? { consequences: cons.results } : {}),
+    ...(cons && cons.rules.length > 0 ? { consequence_rules: cons.rules } : {}),
+    outcome: overallOutcome([...findings, ...(cons?.rules ?? [])]),
     // what the model assumed that the reader must know (estimated freezing point, coolant treatment, 1-D shortcut)
-    cautions: [...CAUTIONS, ...pred.screening.notes],
+    cautions: [...CAUTIONS, ...pred.screening.notes, ...(cons ? CONSEQUENCE_CAUTIONS : [])],
   };
   return { result, core_C: pred.core, surface_C: pred.surface, mean_C: pred.mean, coolant_C: pred.coolant, airBridged_C: air };
+}
+
+/** Without a threshold rule above on the channel, the comparison uses 5 °C: cold holding in the US FDA Food Code, §3-501.16. */
+const DEFAULT_COMPARISON_C = 5;
+
+/** Evenly spaced sample indices (first and last included) of a monotone cumulative curve, for the stored result. */
+function curveOf(t_s: Float64Array, v: Float64Array, points = CURVE_POINTS): { t_s: number[]; value: number[] } {
+  const n = t_s.length;
+  const idx = n <= points ? Array.from({ length: n }, (_, i) => i) : Array.from({ length: points }, (_, k) => Math.round((k * (n - 1)) / (points - 1)));
+  return { t_s: idx.map((i) => t_s[i]!), value: idx.map((i) => round(v[i]!, 6)) };
+}
+
+/**
+ * The product's growth and shelf-life models on the core (always), on the channels asked for, and on the channels
+ * the consequence rules name; then the consequence rules. Null when there is nothing of the kind (the result then
+ * has no consequence fields, as before engine 0.5.0).
+ */
+function consequences(models: readonly ConsequenceModel[], limits: LimitSet, channels: Record<string, ChannelSeries>, extra: readonly Channel[], initial_C: number) {
+  const rules = limits.rules.filter(isConsequenceRule);
+  if (models.length === 0 && rules.length === 0) return null;
+  const bad = unmatchedConsequenceRule(limits, models);
+  if (bad) throw new Error(bad.message);
+  const wanted: Array<{ model: ConsequenceModel; channel: string }> = [];
+  const add = (model: ConsequenceModel, channel: string) => {
+    if (!wanted.some((w) => w.model.id === model.id && w.channel === channel)) wanted.push({ model, channel });
+  };
+  for (const m of models) add(m, "core");
+  for (const c of extra) for (const m of models) add(m, c);
+  for (const r of rules) {
+    const m = ruleModel(r, models);
+    if (m.ok) add(m.model, ruleChannel(r));
+  }
+  const sensor = limits.sensor_accuracy_K ?? 0;
+  const estimates = new Map<string, ConsequenceEstimate>();
+  const results: ConsequenceResult[] = wanted.map(({ model, channel }) => {
+    const ch = channels[channel];
+    if (!ch) throw new Error(`the ${channel} channel is not available for consequence model '${model.id}'`);
+    const est = evaluateConsequence(model, ch, sensor + ch.modelUncertainty_K, initial_C);
+    estimates.set(`${model.id}@${channel}`, est);
+    const rule = limits.rules.find((r) => isThresholdRule(r) && r.channel === channel && r.above_C !== undefined);
+    const threshold_C = rule && isThresholdRule(rule) ? rule.above_C! : DEFAULT_COMPARISON_C;
+    const comparison = {
+      threshold_C,
+      minutes_above: round(timeBeyond(ch.t_s, ch.value_C, threshold_C, "above").cumulative_s / 60, 3),
+      threshold_from: rule ? `rule ${rule.id}` : "5 °C, cold holding in the US FDA Food Code §3-501.16 (no rule above a threshold on this channel)",
+    };
+    const common = { id: `${model.id}@${channel}`, model: model.id, kind: model.kind, channel, lower: round(est.lower, 6), upper: round(est.upper, 6), guard_K: est.guard_K, comparison, curve: curveOf(ch.t_s, est.cumulative) };
+    if (model.kind === "growth") {
+      return { ...common, organism: model.organism, source: model.source, log10_increase: round(est.central, 6), q0: est.q0 ?? null };
+    }
+    const rd = (x: number | null | undefined) => (x === null || x === undefined ? null : round(x, 4));
+    return {
+      ...common,
+      shelf_life_consumed_days: round(est.shelf_life_consumed_days!, 6),
+      shelf_life_consumed_percent: round(est.central, 6),
+      remaining_days_at_C: rd(est.remaining_days_at_C),
+      remaining_days_range: [rd(est.remaining_days_range![0]), rd(est.remaining_days_range![1])],
+      storage_C: est.storage_C!,
+      shelf_life_ends_at: est.ends_at_s === null || est.ends_at_s === undefined ? null : iso(est.ends_at_s),
+    };
+  });
+  const judged = rules.map((r) => {
+    const m = ruleModel(r, models);
+    if (!m.ok) throw new Error(m.message);
+    const channel = ruleChannel(r);
+    const f = judgeConsequenceRule(r, estimates.get(`${m.model.id}@${channel}`)!, channels[channel]!.uncertainSpans.length);
+    return {
+      id: f.id, kind: f.kind, model: f.model, channel: f.channel, quantity: f.quantity, limit: f.limit,
+      central: round(f.central, 6), lower: round(f.lower, 6), upper: round(f.upper, 6), guard_K: f.guard_K,
+      reached_at: f.reached_at_s === null ? null : iso(f.reached_at_s), status: f.status, reason: f.reason,
+    };
+  });
+  return { results, rules: judged };
 }

@@ -2,7 +2,8 @@ import { z } from "zod";
 import { storedRefusal } from "./storedRefusal";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 import { limitSetSchema, type LimitSet } from "../exposure/limits";
-import { runReview, tryRunReview, ENGINE_VERSION, resultHash, unsupportedRule, canonicalJson, type ReviewComputation, type ReviewInput, type ReviewOptions } from "../review";
+import { unmatchedConsequenceRule } from "../exposure/consequenceRules";
+import { runReview, tryRunReview, ENGINE_VERSION, REPRODUCIBLE_ENGINE_VERSIONS, resultHash, unsupportedRule, canonicalJson, type ReviewComputation, type ReviewInput, type ReviewOptions } from "../review";
 import { importTraceFile, optionsFromSettings, sha256Hex } from "../trace";
 import { getTrace, getTraceOriginal } from "../db/traces";
 import { getDefinition } from "../db/definitions";
@@ -78,6 +79,8 @@ export async function prepareReview(request: RunReviewRequest): Promise<PrepareO
     const why = bad.channel === "probe" ? "this trace has no product-probe column" : "a review does not produce it";
     return { ok: false, field: "limitsId", message: `rule '${bad.id}' is on the '${bad.channel}' channel, but ${why}` };
   }
+  const unmatched = unmatchedConsequenceRule(limits, product.consequences ?? []);
+  if (unmatched) return { ok: false, field: "limitsId", message: `${unmatched.message}: choose a product that has it, or add it to this product` };
   if (!pack && product.h_W_m2K === undefined) return { ok: false, field: "packId", message: "this product has no surface coefficient of its own: choose a pack" };
   if ((req.model === "conduction" || req.model === "conduction-1d") && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
     return { ok: false, field: "model", message: "the conduction model needs the product's shape and conductivity" };
@@ -186,7 +189,9 @@ export async function verifyStoredReview(id: string): Promise<ReproductionCheck>
   for (const def of [review.product, review.pack, review.limits]) {
     if (def && sha256Hex(canonicalJson(def.body)) !== def.sha256) problems.push(`definition ${def.name} v${def.version} no longer matches its hash`);
   }
-  if (review.engineVersion !== ENGINE_VERSION) problems.push(`recorded with engine ${review.engineVersion}; this is engine ${ENGINE_VERSION}`);
+  // An earlier engine whose results this one reproduces is re-run as that version (it stamps the result).
+  const asEarlier = REPRODUCIBLE_ENGINE_VERSIONS.includes(review.engineVersion);
+  if (review.engineVersion !== ENGINE_VERSION && !asEarlier) problems.push(`recorded with engine ${review.engineVersion}; this is engine ${ENGINE_VERSION}`);
   // A stored definition that today's schema refuses (a range added since) is named, not dumped as zod issues.
   const checked = <T>(schema: z.ZodType<T>, noun: string, def: { name: string; version: number; body: unknown }): T => {
     const r = schema.safeParse(def.body);
@@ -201,6 +206,7 @@ export async function verifyStoredReview(id: string): Promise<ReproductionCheck>
       limits: checked(limitSetSchema, "limit set", review.limits),
       options: review.options as unknown as ReviewOptions,
       gapMultiple: trace.meta.importSettings.gapMultiple,
+      ...(asEarlier ? { engineVersion: review.engineVersion } : {}),
     });
     if (resultHash(comp.result, comp.core_C) !== review.resultSha256) problems.push("re-running the engine gives a different result hash");
   } catch (e) {

@@ -1,5 +1,7 @@
 import { z } from "zod";
 import { capped, quantity, strictObject } from "../quantity";
+import { consequenceModelSchema, MAX_CONSEQUENCES } from "../consequence/definitions";
+import { growthRate } from "../consequence/rates";
 
 // Product and pack definitions: the JSON that the UI, the API and the CLI share. SI units in every name.
 // Every physical quantity has a plausible range (README.md, "Plausible ranges"): wide enough for any
@@ -90,7 +92,18 @@ export const productSchema = strictObject({
     h_W_m2K: filmCoefficient("heat-transfer coefficient").optional(),
     /** heat of respiration (fresh produce), W per kg of product */
     respiration: respirationSchema.optional(),
+    /** growth and shelf-life models applied to the predicted history (lib/consequence) */
+    consequences: capped(consequenceModelSchema, "consequence models", MAX_CONSEQUENCES).optional(),
   }).superRefine((p, ctx) => {
+    const ids = new Set<string>();
+    p.consequences?.forEach((m, i) => {
+      if (ids.has(m.id)) ctx.addIssue({ code: "custom", path: ["consequences", i, "id"], message: `consequence id '${m.id}' is used twice` });
+      ids.add(m.id);
+      // lag_h becomes q0 through h0 = μmax·λ at the initial temperature: it needs growth there
+      if (m.kind === "growth" && m.lag_h !== undefined && m.lag_h > 0 && growthRate(m).value(p.initial_C) === 0) {
+        ctx.addIssue({ code: "custom", path: ["consequences", i, "lag_h"], message: `lag_h is read at the initial temperature (${p.initial_C} °C), where model '${m.id}' predicts no growth: give q0 instead` });
+      }
+    });
     if (!p.properties && !p.composition) {
       ctx.addIssue({ code: "custom", path: ["properties"], message: "give either properties or composition" });
     }

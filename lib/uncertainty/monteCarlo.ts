@@ -3,7 +3,9 @@ import type { TraceSeries } from "../trace/series";
 import { bridgeGaps, selectKth } from "../trace/series";
 import type { ModelChoice, Pack, Product } from "../thermal/definitions";
 import { predict } from "../thermal/predict";
-import type { LimitSet } from "../exposure/limits";
+import { isConsequenceRule, ruleChannel, type LimitSet } from "../exposure/limits";
+import { ruleModel } from "../exposure/consequenceRules";
+import { evaluateConsequence } from "../consequence/evaluate";
 import { evaluateLimitSet, type ChannelSeries } from "../exposure/rules";
 import { mulberry32, normalSource } from "./random";
 import { capped, quantity, strictObject } from "../quantity";
@@ -36,7 +38,7 @@ export interface UncertaintyResult {
   p95: Float64Array;
   /** half-width of the widest 5–95 % band, K: the model uncertainty the rules can use */
   half_width_K: number;
-  /** per rule, the fraction of samples in which it fails (nominal threshold, no guard band) */
+  /** per rule, the fraction of samples in which it fails (nominal threshold or growth/shelf-life estimate, no guard band) */
   fail_fraction: Record<string, number>;
   /** draws repeated because they gave a non-positive value for a positive quantity */
   redraws: number;
@@ -104,8 +106,19 @@ export function monteCarlo(
     cores.set(p.core, s * n);
     if (limits) {
       const ch = (v: Float64Array): ChannelSeries => ({ t_s: series.t_s, value_C: v, uncertainSpans: [], modelUncertainty_K: 0 });
-      const found = evaluateLimitSet({ ...limits, sensor_accuracy_K: 0 }, { air: ch(air), core: ch(p.core), surface: ch(p.surface), mean: ch(p.mean) });
+      const channels: Record<string, ChannelSeries> = { air: ch(air), core: ch(p.core), surface: ch(p.surface), mean: ch(p.mean) };
+      const found = evaluateLimitSet({ ...limits, sensor_accuracy_K: 0 }, channels);
       for (const f of found) if (f.status === "fail") fails[f.id] = fails[f.id]! + 1;
+      // growth and shelf-life rules: the sample fails when its estimate (no guard band) exceeds the limit
+      const sampled = defs.product as Product;
+      for (const r of limits.rules.filter(isConsequenceRule)) {
+        const m = ruleModel(r, sampled.consequences ?? []);
+        if (!m.ok) throw new Error(m.message);
+        const c = channels[ruleChannel(r)];
+        if (!c) throw new Error(`rule '${r.id}' needs the '${ruleChannel(r)}' channel, which a Monte Carlo sample does not have`);
+        const est = evaluateConsequence(m.model, c, 0, sampled.initial_C);
+        if (est.central > (r.kind === "growth" ? r.max_log10_increase : r.max_consumed_percent)) fails[r.id] = fails[r.id]! + 1;
+      }
     }
     done++;
     if (hooks.onProgress && (s & 15) === 0) hooks.onProgress(done / spec.samples);

@@ -18,7 +18,7 @@ export function SizeOutcome({ result, t_s, air_C, limits }: { result: SizeResult
     ? `${up ? "Smallest" : "Warmest"} ${d.name} that passes every rule: ${formatVariable(result.value!, d)}`
     : `No ${d.name} in this range passes every rule`;
   const chart = result.chart;
-  const points = result.curve.map((c) => ({ x: c.x * d.factor, y: chart ? c.rules[chart.rule_id]![chart.quantity] : c.metric, feasible: c.feasible, failing: c.failing }));
+  const points = result.curve.map((c) => ({ x: c.x * d.factor, y: chart ? (c.rules[chart.rule_id]![chart.quantity] ?? NaN) : c.metric, feasible: c.feasible, failing: c.failing }));
   const lines: CurveLimit[] = chart ? [{ ...chart.limit, kind: "limit" as const }, ...(chart.pass ? [{ ...chart.pass, kind: "pass" as const }] : [])] : [];
   const metricWords = result.metric.replace(/, °C$/, "");
   return (

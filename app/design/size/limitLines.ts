@@ -1,11 +1,11 @@
-import type { LimitSet } from "@/lib/exposure/limits";
+import { isThresholdRule, type LimitSet } from "@/lib/exposure/limits";
 import type { ChartThreshold } from "@/app/components/TemperatureChart";
 
 /** The limit set's thresholds on the given channels as chart lines, each labelled with the rules it belongs to. */
 export function limitLines(limits: LimitSet, channels: readonly string[]): ChartThreshold[] {
   const byValue = new Map<number, string[]>();
   for (const r of limits.rules) {
-    if (!channels.includes(r.channel)) continue;
+    if (!isThresholdRule(r) || !channels.includes(r.channel)) continue;
     const v = (r.above_C ?? r.below_C)!;
     byValue.set(v, [...(byValue.get(v) ?? []), r.id]);
   }

@@ -1,6 +1,7 @@
 // corelag size: the smallest insulation or coolant (or the warmest start) that keeps every rule passing.
 import { modelChoiceSchema, packSchema, productSchema } from "../../thermal/definitions";
 import { limitSetSchema } from "../../exposure/limits";
+import { unmatchedConsequenceRule } from "../../exposure/consequenceRules";
 import { unsupportedRule } from "../../review";
 import { CAUTIONS } from "../../review/cautions";
 import { profileSchema, profileSeries } from "../../design/profile";
@@ -29,6 +30,8 @@ export async function sizeCommand(argv: string[]): Promise<unknown> {
   if (!model.success) throw new CliError(`--model: ${model.error.issues[0]!.message}`);
   const bad = unsupportedRule(limits);
   if (bad) throw new CliError(`${values.limits}: field 'rules.${bad.index}.channel': '${bad.channel}' is not available in a design study`);
+  const unmatched = unmatchedConsequenceRule(limits, product.consequences ?? []);
+  if (unmatched) throw new CliError(`${values.limits}: field 'rules.${unmatched.index}': ${unmatched.message} (${values.product})`);
   const profileFile = values.profile!;
   const series = /\.json$/i.test(profileFile) ? profileSeries(readJsonFile(profileFile, profileSchema)) : (await importTrace(profileFile, importOptions)).imported.series;
   let r;
