@@ -60,8 +60,8 @@ interface Props {
   zone?: string;
 }
 
-const WIDTH = 960;
-const M = { top: 12, right: 110, bottom: 32, left: 48 };
+export const WIDTH = 960;
+export const M = { top: 12, right: 110, bottom: 32, left: 48 };
 const EXCURSION_FILL = "rgba(155, 31, 46, 0.08)";
 const GUARD_FILL = "rgba(138, 28, 43, 0.06)";
 

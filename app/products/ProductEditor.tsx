@@ -10,6 +10,7 @@ import { screenDefinition } from "@/lib/thermal/predict";
 import { resolveProduct } from "@/lib/thermal/resolve";
 import type { FormState } from "@/lib/validation";
 import { sig } from "@/lib/display/numbers";
+import { ConsequenceEditor, modelsFromRows, rowsFromModels, type ConsequenceRow } from "./ConsequenceEditor";
 
 type ShapeKind = "none" | "sphere" | "cylinder" | "slab" | "box";
 type S = Record<string, string>;
@@ -34,7 +35,7 @@ function stateFrom(p?: Product): S {
   return s;
 }
 
-function definitionFrom(s: S): unknown {
+function definitionFrom(s: S, consequences: ConsequenceRow[]): unknown {
   const shape = s.shape === "none" ? undefined : Object.fromEntries([["kind", s.shape], ...DIMENSIONS[s.shape as Exclude<ShapeKind, "none">].map(([k]) => [k, num(s[`shape.${k}`]) ?? null])]);
   const def: Record<string, unknown> = {
     name: s.name ?? "",
@@ -57,6 +58,7 @@ function definitionFrom(s: S): unknown {
   // heat of respiration: a constant W/kg, or Becker and Fricke's f and g
   if ((s["respiration.W_kg"] ?? "") !== "") def.respiration = { model: "constant", W_kg: num(s["respiration.W_kg"]) ?? null };
   else if ((s["respiration.f"] ?? "") !== "" || (s["respiration.g"] ?? "") !== "") def.respiration = { model: "becker-fricke", f: num(s["respiration.f"]) ?? null, g: num(s["respiration.g"]) ?? null };
+  if (consequences.length > 0) def.consequences = modelsFromRows(consequences);
   return JSON.parse(JSON.stringify(def)); // drops undefined, turns NaN into null for zod to name
 }
 
@@ -122,7 +124,8 @@ export function ProductEditor({ editing, packs }: { editing?: { id: string; line
   const [atC, setAtC] = useState("4");
   const set = (k: string) => (v: string) => setS({ ...s, [k]: v });
   const err = (path: string) => state.fieldErrors?.[path];
-  const def = useMemo(() => definitionFrom(s), [s]);
+  const [consequences, setConsequences] = useState<ConsequenceRow[]>(() => rowsFromModels(editing?.body.consequences));
+  const def = useMemo(() => definitionFrom(s, consequences), [s, consequences]);
   const pack = useMemo(() => {
     const p = packs.find((x) => x.id === previewPack);
     const r = p ? packSchema.safeParse(p.body) : null;
@@ -186,6 +189,7 @@ export function ProductEditor({ editing, packs }: { editing?: { id: string; line
           <NumberField label="or Becker–Fricke f" hint="W = (10.7·f/3600)·(9t/5+32)^g W/kg (ASHRAE tables)" value={s["respiration.f"] ?? ""} onChange={set("respiration.f")} error={err("respiration.f")} testId="respiration-f" />
           <NumberField label="and g" value={s["respiration.g"] ?? ""} onChange={set("respiration.g")} error={err("respiration.g")} testId="respiration-g" />
         </fieldset>
+        <ConsequenceEditor rows={consequences} onChange={setConsequences} err={err} />
         <DefinitionFooter definition={def} editing={editing} state={state} pending={pending} noun="product" />
       </ActionForm>
       <div>

@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { getReview } from "@/lib/db/reviews";
 import { getTrace } from "@/lib/db/traces";
 import { displayZone } from "@/app/displayZone";
-import { HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "./parts";
+import { ConsequenceCard, HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "./parts";
 import { RenameForm, SignOffForm } from "./SignOffForm";
 import { RecheckButton } from "./RecheckButton";
 import { RecordVerified } from "./RecordVerified";
@@ -33,6 +33,7 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
       <ReviewHeader review={review} zone={zone} />
       <RecordVerified review={review} zone={zone} />
       <ReviewChart review={review} series={trace.series} zone={zone} />
+      <ConsequenceCard review={review} series={trace.series} zone={zone} />
       <div className="grid2">
         <ScreeningCard review={review} />
         <HistoryCard review={review} zone={zone} />

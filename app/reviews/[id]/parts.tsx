@@ -4,6 +4,7 @@ import type { TraceSeries } from "@/lib/trace/series";
 import { bridgeGaps, findGaps } from "@/lib/trace/series";
 import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
+import { ConsequenceChart } from "@/app/components/ConsequenceChart";
 import { StatusBadge } from "@/app/components/StatusBadge";
 import { Caution } from "@/app/components/Caution";
 import { ResistanceTable } from "@/app/products/ProductEditor";
@@ -237,6 +238,104 @@ export function RulesCard({ review, zone }: { review: StoredReview; zone: string
         </tbody>
       </table>
       <p className="muted">Crossing times are interpolated linearly between samples. With a guard band, a rule passes only when it holds with the threshold moved against the shipment and fails only when it fails with the threshold moved in its favour (ISO 14253-1 decision rules).</p>
+    </section>
+  );
+}
+
+const CURVE_COLORS = ["#1b7f5b", "#b5522b", "#5b4fa3", "#2b6fa3", "#8a6d1b"];
+
+/**
+ * Growth and shelf life consumed (issue 16): per model and channel the estimate with its guard band, the
+ * remaining shelf life, the cumulative curve on the temperature chart's time axis, the same trip's minutes
+ * above a threshold beside it, and the growth and shelf-life rules. Cautions on every consequence.
+ */
+export function ConsequenceCard({ review, series, zone }: { review: StoredReview; series: TraceSeries; zone: string }) {
+  const r = review.result;
+  if (!r.consequences || r.consequences.length === 0) return null;
+  const domain: [number, number] = [series.t_s[0]! * 1000, series.t_s[series.t_s.length - 1]! * 1000];
+  const rules = r.consequence_rules ?? [];
+  const curves = (kind: "growth" | "shelf_life") =>
+    r.consequences!.filter((c) => c.kind === kind).map((c, i) => ({
+      label: `${c.model} on the ${c.channel}`,
+      color: CURVE_COLORS[i % CURVE_COLORS.length]!,
+      times_ms: c.curve.t_s.map((t) => t * 1000),
+      values: c.curve.value,
+      dashed: c.channel !== "core",
+    }));
+  const limits = (kind: "growth" | "shelf_life") => rules.filter((x) => x.kind === kind).map((x) => ({ value: x.limit, label: `${x.id} ≤ ${sigTrim(x.limit, 3)}${kind === "growth" ? " log10" : " %"}` }));
+  const growth = curves("growth"), shelf = curves("shelf_life");
+  const range = (lo: number, hi: number, unit: string) => `${sigTrim(lo, 3)} to ${sigTrim(hi, 3)}${unit}`;
+  const days = (d: number | null | undefined) => (d === null || d === undefined ? "no spoilage predicted at this temperature" : `${sigTrim(d, 3)} days`);
+  return (
+    <section className="card" data-testid="consequences-card">
+      <h2 style={{ marginTop: 0 }}>Growth and shelf life</h2>
+      <div className="caution" data-testid="consequence-caution">
+        <strong>Model estimates.</strong> The parameters must be validated for this product; these figures do not replace challenge tests, the food business operator&apos;s shelf-life studies or local regulations.
+      </div>
+      {growth.length > 0 && (
+        <>
+          <h3>Cumulative growth, log10 increase (same time axis as the chart above)</h3>
+          <ConsequenceChart domain_ms={domain} curves={growth} limits={limits("growth")} unit="log10 increase" title="Cumulative log10 increase along the trip" zone={zone} testId="growth-chart" />
+        </>
+      )}
+      {shelf.length > 0 && (
+        <>
+          <h3>Shelf life consumed, % (same time axis)</h3>
+          <ConsequenceChart domain_ms={domain} curves={shelf} limits={limits("shelf_life")} unit="% consumed" title="Cumulative shelf life consumed along the trip" zone={zone} testId="shelf-chart" />
+        </>
+      )}
+      <table data-testid="consequences-table">
+        <thead>
+          <tr><th>Model</th><th>Channel</th><th>Estimate</th><th>Guard band (±{sigTrim(r.consequences[0]!.guard_K, 2)} K)</th><th>Remaining life</th><th>Beside it: time above a threshold</th></tr>
+        </thead>
+        <tbody>
+          {r.consequences.map((c) => (
+            <tr key={c.id} data-testid={`consequence-${c.id}`}>
+              <td>{c.model}{c.organism ? ` (${c.organism})` : ""}{c.source ? <span className="muted" style={{ display: "block", fontSize: "0.8rem" }}>source: {c.source}</span> : null}</td>
+              <td>{c.channel}</td>
+              {c.kind === "growth" ? (
+                <>
+                  <td data-testid={`log10-${c.id}`}>{sigTrim(c.log10_increase!, 3)} log10 increase{c.q0 === null ? " (no lag)" : `, q0 ${sig(c.q0!)}`}</td>
+                  <td>{range(c.lower, c.upper, " log10")}</td>
+                  <td className="muted">(growth model)</td>
+                </>
+              ) : (
+                <>
+                  <td data-testid={`consumed-${c.id}`}>{sigTrim(c.shelf_life_consumed_percent!, 3)} % consumed ({sigTrim(c.shelf_life_consumed_days!, 3)} days at the reference){c.shelf_life_ends_at ? <strong>; used up at {formatTime(c.shelf_life_ends_at, zone)}</strong> : null}</td>
+                  <td>{range(c.lower, c.upper, " %")}</td>
+                  <td data-testid={`remaining-${c.id}`}>{days(c.remaining_days_at_C)} at {c.storage_C} °C{c.remaining_days_range ? <span className="muted"> ({days(c.remaining_days_range[0])} to {days(c.remaining_days_range[1])} under the guard band)</span> : null}</td>
+                </>
+              )}
+              <td data-testid={`comparison-${c.id}`}>{sigTrim(c.comparison.minutes_above, 3)} min above {c.comparison.threshold_C} °C <span className="muted">({c.comparison.threshold_from})</span></td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p className="muted">
+        Minutes above a threshold count time only; growth and shelf life weigh each minute by how warm it was (60 min at 6 °C and 60 min at 14 °C are the same time above 5 °C and very different growth).
+        Estimates run over the judged window; the guard band moves the whole history down and up by the sensor accuracy plus the model uncertainty.
+      </p>
+      {rules.length > 0 && (
+        <>
+          <h3>Growth and shelf-life rules</h3>
+          <table data-testid="consequence-rules-table">
+            <thead><tr><th>Rule</th><th>Model</th><th>Channel</th><th>Limit</th><th>Estimate (guard band)</th><th>Limit reached</th><th>Status</th><th>Why</th></tr></thead>
+            <tbody>
+              {rules.map((x) => {
+                const unit = x.kind === "growth" ? " log10" : " %";
+                return (
+                  <tr key={x.id} data-testid={`consequence-rule-${x.id}`}>
+                    <td>{x.id}</td><td>{x.model}</td><td>{x.channel}</td><td>≤ {sigTrim(x.limit, 3)}{unit}</td>
+                    <td>{sigTrim(x.central, 3)}{unit} ({range(x.lower, x.upper, unit)})</td>
+                    <td>{x.reached_at ? formatTime(x.reached_at, zone) : "not reached"}</td>
+                    <td><StatusBadge status={x.status} /></td><td>{x.reason}</td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+        </>
+      )}
     </section>
   );
 }

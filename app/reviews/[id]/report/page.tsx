@@ -3,7 +3,7 @@ import { getReview } from "@/lib/db/reviews";
 import { getTrace } from "@/lib/db/traces";
 import { displayZone } from "@/app/displayZone";
 import { formatTime } from "@/lib/display/time";
-import { HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "../parts";
+import { ConsequenceCard, HistoryCard, ReviewChart, ReviewHeader, RulesCard, ScreeningCard } from "../parts";
 import { PrintButton } from "./PrintButton";
 import { RecordVerified } from "../RecordVerified";
 import { DefinitionParameters } from "@/app/components/DefinitionParameters";
@@ -26,6 +26,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
       <ReviewHeader review={review} zone={zone} />
       <RecordVerified review={review} printing zone={zone} />
       <ReviewChart review={review} series={trace.series} zone={zone} />
+      <ConsequenceCard review={review} series={trace.series} zone={zone} />
       <section className="card" data-testid="report-parameters">
         <h2 style={{ marginTop: 0 }}>Inputs used</h2>
         <p className="muted">The exact definition versions this review ran on, with every parameter as stored (shown to at most 6 significant digits; the JSON export holds the exact values).</p>

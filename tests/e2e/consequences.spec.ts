@@ -1,0 +1,86 @@
+import { test, expect } from "@playwright/test";
+import path from "node:path";
+
+const DEMO = path.join(__dirname, "../../public/demo");
+
+test("a product with growth and shelf-life models, a limit set with a growth rule, and a review showing the curve and the rule", async ({ page }) => {
+  // the demo trace (the 16 June dock delay keeps the core above 5 °C for hours)
+  await page.goto("/traces");
+  await page.getByLabel("Logger file (CSV)").setInputFiles(path.join(DEMO, "route7-tote3.csv"));
+  await page.locator("#f-name").fill("Route 7 growth e2e");
+  await page.getByRole("button", { name: "Upload and import" }).click();
+  await expect(page.getByTestId("trace-samples")).toHaveText("361");
+
+  // product: the demo tray's numbers with a shelf-life model and a growth model (invented parameters)
+  await page.goto("/products");
+  await page.getByTestId("product-name").fill("Growth tray e2e");
+  await page.getByTestId("initial_C").fill("3.2");
+  await page.getByTestId("mass_kg").fill("0.45");
+  await page.getByTestId("area_m2").fill("0.062");
+  await page.getByTestId("h_W_m2K").fill("2.5");
+  await page.getByTestId("cp_J_kgK").fill("3600");
+  await page.getByTestId("add-shelf-life").click();
+  await page.getByTestId("cons-0-id").fill("sl");
+  await page.getByTestId("cons-0-reference_C").fill("4");
+  await page.getByTestId("cons-0-shelf_life_days").fill("10");
+  await page.getByTestId("cons-0-tmin_C").fill("-10");
+  await page.getByTestId("add-growth").click();
+  await page.getByTestId("cons-1-id").fill("lm");
+  await page.getByTestId("cons-1-organism").fill("test organism (invented parameters)");
+  await page.getByTestId("cons-1-b_per_C_sqrt_h").fill("5");
+  await page.getByTestId("cons-1-tmin_C").fill("-1.5");
+  await page.getByTestId("cons-1-lag_h").fill("10");
+  await page.getByTestId("cons-1-source").fill("invented for the end-to-end test");
+  await page.getByRole("button", { name: "Save product" }).click();
+  // refused by field, and the form keeps what was typed
+  await expect(page.getByTestId("error-cons-1-b_per_C_sqrt_h")).toHaveText("b_per_C_sqrt_h must be between 0.001 and 1 1/(°C·√h)");
+  await expect(page.getByTestId("cons-1-organism")).toHaveValue("test organism (invented parameters)");
+  await expect(page.getByTestId("cons-0-tmin_C")).toHaveValue("-10");
+  await page.getByTestId("cons-1-b_per_C_sqrt_h").fill("0.03");
+  await page.getByRole("button", { name: "Save product" }).click();
+  await expect(page.getByTestId("product-list")).toContainText("Growth tray e2e");
+
+  // limit set: a time rule and a growth rule on the product's model
+  await page.goto("/limits");
+  await page.locator("#f-ls-name").fill("Growth plan e2e");
+  await page.locator("#f-accuracy").fill("0.5");
+  await page.getByLabel("rule 1 id").fill("core-above-5C");
+  await page.getByLabel("rule 1 threshold").fill("5");
+  await page.getByLabel("rule 1 max cumulative minutes").fill("120");
+  await page.getByRole("button", { name: "Add a rule" }).click();
+  await page.getByLabel("rule 2 id").fill("lm-0.1-log");
+  await page.getByLabel("rule 2 kind").selectOption("growth");
+  await page.getByLabel("rule 2 model").fill("lm");
+  await page.getByLabel("rule 2 max log10 increase").fill("0.1");
+  await page.getByRole("button", { name: "Save limit set" }).click();
+  await expect(page.getByTestId("limits-list")).toContainText("growth of model lm on the core, at most 0.1 log10 increase");
+
+  // the review
+  await page.goto("/reviews/new");
+  await page.getByLabel("Title").fill("E2E growth route 7");
+  await page.locator("#f-traceId").selectOption({ label: "Route 7 growth e2e (361 samples)" });
+  await page.locator("#f-productId").selectOption({ label: "Growth tray e2e v1" });
+  await page.locator("#f-limitsId").selectOption({ label: "Growth plan e2e v1" });
+  await page.getByRole("button", { name: "Run review" }).click();
+  await expect(page.getByRole("heading", { name: "Review: E2E growth route 7" })).toBeVisible();
+  const card = page.getByTestId("consequences-card");
+  await expect(card).toBeVisible();
+  await expect(page.getByTestId("consequence-caution")).toContainText("do not replace challenge tests");
+  await expect(page.getByTestId("growth-chart")).toBeVisible();
+  await expect(page.getByTestId("consequence-curve-lm-on-the-core")).toHaveAttribute("d", /^M/);
+  await expect(page.getByTestId("shelf-chart")).toBeVisible();
+  await expect(page.getByTestId("consequence-limit")).toHaveCount(1);
+  await expect(page.getByTestId("log10-lm@core")).toContainText("log10 increase");
+  await expect(page.getByTestId("consumed-sl@core")).toContainText("% consumed");
+  await expect(page.getByTestId("remaining-sl@core")).toContainText("days at 4 °C");
+  await expect(page.getByTestId("comparison-lm@core")).toContainText(/min above 5 °C \(rule core-above-5C\)/);
+  const row = page.getByTestId("consequence-rule-lm-0.1-log");
+  await expect(row).toContainText(/pass|fail|inconclusive/);
+  await expect(row).toContainText("log10");
+  await page.screenshot({ path: "test-results/consequences.png", fullPage: true });
+
+  // the JSON export carries the consequences
+  const json = await (await page.request.get(page.url() + "/export/review.json")).json();
+  expect(json.result.consequences.map((c: { id: string }) => c.id)).toEqual(["sl@core", "lm@core"]);
+  expect(json.result.consequence_rules[0].id).toBe("lm-0.1-log");
+});
