@@ -8,6 +8,9 @@ import { startReviewRun, waitForRun } from "@/lib/services/runs";
 import { renameReview } from "@/lib/db/reviews";
 import { fieldErrors, formValues, textField, type FormState } from "@/lib/validation";
 
+/** channels besides the core that the form offers for the growth and shelf-life models (checkboxes cc-air, …) */
+const CONSEQUENCE_CHANNELS = ["air", "surface", "mean", "probe"] as const;
+
 /** datetime-local inputs carry no zone; the form states that they are UTC. */
 const utc = (v: string | undefined) => (v ? (v.length === 16 ? `${v}:00Z` : `${v}Z`) : undefined);
 
@@ -33,6 +36,7 @@ export async function startReview(_prev: FormState, form: FormData): Promise<For
     windowStart: utc(textField(form, "windowStart") || undefined),
     windowEnd: utc(textField(form, "windowEnd") || undefined),
     correctsId: textField(form, "correctsId") || undefined,
+    consequenceChannels: CONSEQUENCE_CHANNELS.filter((c) => textField(form, `cc-${c}`) === "on"),
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
   // The engine runs in the worker pool; a quick run opens its review directly, a long one its progress page.

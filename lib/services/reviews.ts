@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { storedRefusal } from "./storedRefusal";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
-import { limitSetSchema, type LimitSet } from "../exposure/limits";
+import { CHANNELS, limitSetSchema, type LimitSet } from "../exposure/limits";
 import { unmatchedConsequenceRule } from "../exposure/consequenceRules";
 import { runReview, tryRunReview, ENGINE_VERSION, REPRODUCIBLE_ENGINE_VERSIONS, resultHash, unsupportedRule, canonicalJson, type ReviewComputation, type ReviewInput, type ReviewOptions } from "../review";
 import { importTraceFile, optionsFromSettings, sha256Hex } from "../trace";
@@ -27,12 +27,14 @@ export const runReviewRequestSchema = z
     correctsId: z.string().optional(),
     /** optional Monte Carlo propagation of input uncertainty */
     uncertainty: uncertaintySpecSchema.optional(),
+    /** channels to apply the product's growth and shelf-life models to besides the core */
+    consequenceChannels: z.array(z.enum(CHANNELS, { error: `consequence channel must be one of ${CHANNELS.join(", ")}` })).max(CHANNELS.length).optional(),
   })
   .refine((r) => (r.windowStart === undefined) === (r.windowEnd === undefined), { message: "give both ends of the window, or neither", path: ["windowEnd"] })
   .refine((r) => r.windowStart === undefined || Date.parse(r.windowEnd!) > Date.parse(r.windowStart), { message: "the window must end after it starts", path: ["windowEnd"] });
 export type RunReviewRequest = z.input<typeof runReviewRequestSchema>;
 
-type Field = "title" | "traceId" | "productId" | "packId" | "limitsId" | "model" | "windowStart" | "windowEnd" | "correctsId" | "uncertainty" | "form";
+type Field = "title" | "traceId" | "productId" | "packId" | "limitsId" | "model" | "windowStart" | "windowEnd" | "correctsId" | "uncertainty" | "consequenceChannels" | "form";
 export type RunReviewOutcome = { ok: true; reviewId: string } | { ok: false; field: Field; message: string };
 
 /** A review ready to run: the engine's input and the exact stored versions it was loaded from. */
@@ -85,7 +87,10 @@ export async function prepareReview(request: RunReviewRequest): Promise<PrepareO
   if ((req.model === "conduction" || req.model === "conduction-1d") && (!product.shape || (!product.composition && product.properties?.k_W_mK === undefined))) {
     return { ok: false, field: "model", message: "the conduction model needs the product's shape and conductivity" };
   }
-  const options: ReviewOptions = { model: req.model, ...(req.uncertainty ? { uncertainty: req.uncertainty } : {}) };
+  const channels = [...new Set(req.consequenceChannels ?? [])].filter((c) => c !== "core");
+  if (channels.includes("probe") && trace.series.probe_C === undefined) return { ok: false, field: "consequenceChannels", message: "this trace has no product-probe column to apply the growth and shelf-life models to" };
+  if (channels.length > 0 && !(product.consequences?.length)) return { ok: false, field: "consequenceChannels", message: "this product has no growth or shelf-life models to apply" };
+  const options: ReviewOptions = { model: req.model, ...(req.uncertainty ? { uncertainty: req.uncertainty } : {}), ...(channels.length ? { consequence_channels: channels } : {}) };
   if (req.uncertainty) {
     const base = { product, pack } as Record<string, unknown>;
     for (const u of req.uncertainty.inputs) {

@@ -37,6 +37,7 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await expect(page.getByTestId("cons-1-organism")).toHaveValue("test organism (invented parameters)");
   await expect(page.getByTestId("cons-0-tmin_C")).toHaveValue("-10");
   await page.getByTestId("cons-1-b_per_C_sqrt_h").fill("0.03");
+  await page.getByTestId("consequences").screenshot({ path: "test-results/consequence-editor.png" });
   await page.getByRole("button", { name: "Save product" }).click();
   await expect(page.getByTestId("product-list")).toContainText("Growth tray e2e");
 
@@ -61,6 +62,8 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await page.locator("#f-traceId").selectOption({ label: "Route 7 growth e2e (361 samples)" });
   await page.locator("#f-productId").selectOption({ label: "Growth tray e2e v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Growth plan e2e v1" });
+  await page.getByText("Growth and shelf life on other channels (optional)").click();
+  await page.getByTestId("cc-air").check();
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByRole("heading", { name: "Review: E2E growth route 7" })).toBeVisible();
   const card = page.getByTestId("consequences-card");
@@ -74,6 +77,8 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await expect(page.getByTestId("consumed-sl@core")).toContainText("% consumed");
   await expect(page.getByTestId("remaining-sl@core")).toContainText("days at 4 °C");
   await expect(page.getByTestId("comparison-lm@core")).toContainText(/min above 5 °C \(rule core-above-5C\)/);
+  // the air for comparison, drawn dashed: the air was warmer than the core, so its growth is larger
+  await expect(page.getByTestId("consequence-curve-lm-on-the-air")).toHaveAttribute("stroke-dasharray", "4 3");
   const row = page.getByTestId("consequence-rule-lm-0.1-log");
   await expect(row).toContainText(/pass|fail|inconclusive/);
   await expect(row).toContainText("log10");
@@ -81,6 +86,14 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
 
   // the JSON export carries the consequences
   const json = await (await page.request.get(page.url() + "/export/review.json")).json();
-  expect(json.result.consequences.map((c: { id: string }) => c.id)).toEqual(["sl@core", "lm@core"]);
+  expect(json.result.consequences.map((c: { id: string }) => c.id)).toEqual(["sl@core", "lm@core", "sl@air", "lm@air"]);
+  const byId = Object.fromEntries(json.result.consequences.map((c: { id: string }) => [c.id, c]));
+  expect(byId["lm@air"].log10_increase).toBeGreaterThan(byId["lm@core"].log10_increase);
   expect(json.result.consequence_rules[0].id).toBe("lm-0.1-log");
+
+  // the printed report carries the same part
+  await page.goto(page.url() + "/report");
+  await expect(page.getByTestId("consequences-card")).toBeVisible();
+  await expect(page.getByTestId("growth-chart")).toBeVisible();
+  await page.screenshot({ path: "test-results/consequences-report.png", fullPage: true });
 });

@@ -84,6 +84,18 @@ export function ReviewForm({ traces, products, packs, limits, initial }: { trace
           <span key={k} className="field-error" data-testid="error-uncertainty">{k}: {m}</span>
         ))}
       </details>
+      <details open={["air", "surface", "mean", "probe"].some((c) => state.values?.[`cc-${c}`] === "on")}>
+        <summary>Growth and shelf life on other channels (optional)</summary>
+        <p className="hint muted">The product&apos;s growth and shelf-life models always run on the predicted core; tick a channel to see them there too (the air for comparison; the product probe when the trace has one).</p>
+        <div style={{ display: "flex", gap: "1rem" }}>
+          {(["air", "surface", "mean", "probe"] as const).map((c) => (
+            <label key={c} style={{ fontWeight: 400 }}>
+              <input type="checkbox" name={`cc-${c}`} defaultChecked={state.values?.[`cc-${c}`] === "on"} data-testid={`cc-${c}`} /> {c}
+            </label>
+          ))}
+        </div>
+        {state.fieldErrors?.consequenceChannels && <span className="field-error" data-testid="error-consequence-channels">{state.fieldErrors.consequenceChannels}</span>}
+      </details>
       {state.fieldErrors?.correctsId && <p className="field-error">{state.fieldErrors.correctsId}</p>}
       <FormMessage state={state} />
       <button type="submit" disabled={pending}>{pending ? "Running…" : "Run review"}</button>
