@@ -11,6 +11,7 @@ import { benchDesign } from "./design";
 import { benchCli } from "./cli";
 import { benchWeb } from "./web";
 import { benchBox } from "./multiD";
+import { benchConsequence } from "./consequence";
 
 
 function best<T>(runs: number, fn: () => T): { ms: number; value: T } {
@@ -80,6 +81,7 @@ benchTimeBeyond();
 benchSphere();
 benchBox();
 benchDesign();
+benchConsequence();
 benchCli();
 benchWeb().catch((e: unknown) => {
   console.error(`web benchmark failed: ${e instanceof Error ? e.message : String(e)}`);

@@ -14,6 +14,13 @@ export interface ParameterRow {
 
 /** Unit suffixes, longest first so that `_J_kgK` wins over `_K`. */
 const UNITS: ReadonlyArray<[string, string]> = [
+  ["_per_C_sqrt_h", "1/(°C·√h)"],
+  ["_per_C", "1/°C"],
+  ["_kJ_mol", "kJ/mol"],
+  ["_log10_increase", "log10"],
+  ["_log10", "log10 CFU/g"],
+  ["_percent", "%"],
+  ["_days", "days"],
   ["_W_m2K", "W/m²·K"],
   ["_J_kgK", "J/kg·K"],
   ["_kg_m3", "kg/m³"],
@@ -27,7 +34,25 @@ const UNITS: ReadonlyArray<[string, string]> = [
   ["_C", "°C"],
   ["_K", "K"],
   ["_s", "s"],
+  ["_h", "h"],
 ];
+
+/** Labels of growth and shelf-life fields whose base would read as another field's ("initial_log10" is not a temperature). */
+const FIELD_LABELS: Record<string, string> = {
+  initial_log10: "initial count",
+  max_log10: "maximum population",
+  max_log10_increase: "at most, log10 increase",
+  max_consumed_percent: "at most, shelf life consumed",
+  lag_h: "lag time",
+  shelf_life_days: "shelf life at the reference",
+  reference_C: "reference temperature",
+  storage_C: "storage temperature",
+  tmin_C: "Tmin",
+  tmax_C: "Tmax",
+  b_per_C_sqrt_h: "b (square-root model)",
+  c_per_C: "c (extended model)",
+  ea_kJ_mol: "activation energy Ea",
+};
 
 /** Labels for the fields whose name alone reads poorly. */
 const LABELS: Record<string, string> = {
@@ -85,7 +110,7 @@ export function definitionParameters(body: unknown): ParameterRow[] {
         if ((k === "name" || k === "id") && path.length > 0 && /^\d+$/.test(path[path.length - 1]!)) continue; // already in the item's heading
         if (k === "name" && path.length === 0) continue;
         const { base, unit: u } = unitOf(k);
-        walk(x, [...path, k], [...label, words(base)], u);
+        walk(x, [...path, k], [...label, FIELD_LABELS[k] ?? words(base)], u);
       }
       return;
     }

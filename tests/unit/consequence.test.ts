@@ -276,3 +276,17 @@ describe("cumulativeIntegral", () => {
     expect(cum[2]!).toBeCloseTo(0.0361 * 7, 12);
   });
 });
+
+describe("definitionParameters names growth and shelf-life fields with their units", () => {
+  it("reads b, the lag, counts and the shelf life in words and units", async () => {
+    const { definitionParameters } = await import("@/lib/review/parameters");
+    const rows = definitionParameters({ name: "p", consequences: [{ id: "lm", kind: "growth", b_per_C_sqrt_h: 0.02, lag_h: 10, initial_log10: 1, c_per_C: 0.3 }, { id: "sl", kind: "shelf_life", shelf_life_days: 10, ea_kJ_mol: 80 }] });
+    const by = Object.fromEntries(rows.map((r) => [r.path, `${r.label} [${r.unit}]`]));
+    expect(by["consequences.1.b_per_C_sqrt_h"]).toBe("consequence 1 (lm): b (square-root model) [1/(°C·√h)]");
+    expect(by["consequences.1.lag_h"]).toBe("consequence 1 (lm): lag time [h]");
+    expect(by["consequences.1.initial_log10"]).toBe("consequence 1 (lm): initial count [log10 CFU/g]");
+    expect(by["consequences.1.c_per_C"]).toBe("consequence 1 (lm): c (extended model) [1/°C]");
+    expect(by["consequences.2.shelf_life_days"]).toBe("consequence 2 (sl): shelf life at the reference [days]");
+    expect(by["consequences.2.ea_kJ_mol"]).toBe("consequence 2 (sl): activation energy Ea [kJ/mol]");
+  });
+});
