@@ -2,6 +2,7 @@
 
 import { NumberField, num } from "@/app/components/NumberField";
 import type { ConsequenceModel } from "@/lib/consequence/definitions";
+import { DEPENDENCE_TEMPLATES } from "@/lib/consequence/templates";
 
 /** One growth or shelf-life model as typed (strings, kept as the user wrote them). */
 export type ConsequenceRow = Record<string, string>;
@@ -78,6 +79,25 @@ export function ConsequenceEditor({ rows, onChange, err }: { rows: ConsequenceRo
             ) : (
               <>
                 {SHELF_FIELDS.map(number)}
+                <label>
+                  Start from a published temperature dependence (optional)
+                  <select
+                    value={r.template ?? ""}
+                    data-testid={`cons-${i}-template`}
+                    onChange={(ev) => {
+                      const t = DEPENDENCE_TEMPLATES.find((x) => x.key === ev.target.value);
+                      const next: ConsequenceRow = { ...r, template: ev.target.value };
+                      if (t) for (const [k, v] of Object.entries(t.fields)) next[k] = String(v);
+                      onChange(rows.map((x, j) => (j === i ? next : x)));
+                    }}
+                  >
+                    <option value="">(none: enter your own)</option>
+                    {DEPENDENCE_TEMPLATES.map((t) => <option key={t.key} value={t.key}>{t.title}</option>)}
+                  </select>
+                </label>
+                {r.template && DEPENDENCE_TEMPLATES.find((t) => t.key === r.template) && (
+                  <p className="caution" data-testid={`cons-${i}-template-source`}>Source: {DEPENDENCE_TEMPLATES.find((t) => t.key === r.template)!.source}</p>
+                )}
                 <label>
                   Temperature dependence
                   <select value={r.dependence ?? "sqrt"} onChange={(ev) => set(i, "dependence")(ev.target.value)} data-testid={`cons-${i}-dependence`}>

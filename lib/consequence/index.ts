@@ -4,3 +4,4 @@ export * from "./integrate";
 export * from "./baranyi";
 export * from "./evaluate";
 export * from "./cautions";
+export * from "./templates";

@@ -23,7 +23,9 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await page.getByTestId("cons-0-id").fill("sl");
   await page.getByTestId("cons-0-reference_C").fill("4");
   await page.getByTestId("cons-0-shelf_life_days").fill("10");
-  await page.getByTestId("cons-0-tmin_C").fill("-10");
+  await page.getByTestId("cons-0-template").selectOption("fresh-seafood-sqrt");
+  await expect(page.getByTestId("cons-0-tmin_C")).toHaveValue("-10");
+  await expect(page.getByTestId("cons-0-template-source")).toContainText("Dalgaard (2002)");
   await page.getByTestId("add-growth").click();
   await page.getByTestId("cons-1-id").fill("lm");
   await page.getByTestId("cons-1-organism").fill("test organism (invented parameters)");

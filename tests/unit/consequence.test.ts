@@ -290,3 +290,32 @@ describe("definitionParameters names growth and shelf-life fields with their uni
     expect(by["consequences.2.ea_kJ_mol"]).toBe("consequence 2 (sl): activation energy Ea [kJ/mol]");
   });
 });
+
+describe("published worked example (relative rate of spoilage)", () => {
+  // Seafood Spoilage and Safety Predictor help, "RRS models with user defined temperature characteristics"
+  // (DTU Aqua, after Dalgaard 2002): a seafood with a shelf life of 21 days at 5 °C is predicted to keep
+  // 47.2 days at 0 °C with the square-root model and Tmin = −10 °C, and 46.4 days with the Arrhenius model and
+  // Ea = 100 kJ/mol. Shelf life at T = 21 days / RRS(T): 21 days at 0 °C use 21·RRS(0) days at the reference.
+  const sl = (extra: Record<string, unknown>) => shelfLifeModelSchema.parse({ id: "s", kind: "shelf_life", reference_C: 5, shelf_life_days: 21, ...extra });
+  it("square root, Tmin −10 °C: 47.2 days at 0 °C", () => {
+    const rrs0 = relativeRate(sl({ dependence: "sqrt", tmin_C: -10 })).value(0);
+    expect(21 / rrs0).toBeCloseTo(47.2, 1);
+    // storing at 0 °C from the start: the remaining life is the whole 47.25 days
+    const e = evaluateShelfLife(sl({ dependence: "sqrt", tmin_C: -10, storage_C: 0 }), ch([0, 1e-9], [0, 0]), 0);
+    expect(e.remaining_days_at_C!).toBeCloseTo(47.2, 1);
+  });
+  it("Arrhenius, Ea 100 kJ/mol: 46.4 days at 0 °C", () => {
+    const rrs0 = relativeRate(sl({ dependence: "arrhenius", ea_kJ_mol: 100 })).value(0);
+    expect(Math.abs(21 / rrs0 - 46.4)).toBeLessThan(0.1);
+  });
+});
+
+describe("DEPENDENCE_TEMPLATES", () => {
+  it("the cold-smoked salmon template reproduces ln(RRS) = 0.089·T (Dalgaard, Murillo and Jørgensen 2004) to 1e-4", async () => {
+    const { DEPENDENCE_TEMPLATES } = await import("@/lib/consequence/templates");
+    const t = DEPENDENCE_TEMPLATES.find((x) => x.key === "cold-smoked-salmon-exponential")!;
+    const f = relativeRate(shelfLifeModelSchema.parse({ id: "s", kind: "shelf_life", reference_C: 0, shelf_life_days: 30, ...t.fields }));
+    for (const T of [0, 5, 10, 25]) expect(Math.log(f.value(T))).toBeCloseTo(0.089 * T, 4);
+    for (const x of DEPENDENCE_TEMPLATES) expect(x.source.length).toBeGreaterThan(40);
+  });
+});
