@@ -114,9 +114,9 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
               <td><input aria-label={`rule ${i + 1} id`} value={r.id} size={14} onChange={(e) => set(i, { id: e.target.value })} /></td>
               <td>
                 <select aria-label={`rule ${i + 1} kind`} value={r.kind} onChange={(e) => set(i, { kind: e.target.value as RuleRow["kind"] })}>
-                  <option value="threshold">time beyond a threshold</option>
-                  <option value="growth">growth (log10 increase)</option>
-                  <option value="shelf_life">shelf life consumed (%)</option>
+                  <option value="threshold">time beyond</option>
+                  <option value="growth">growth</option>
+                  <option value="shelf_life">shelf life</option>
                 </select>
               </td>
               <td>
@@ -139,13 +139,9 @@ export function LimitSetEditor({ templates, editing }: { templates: readonly Lim
                 </>
               ) : (
                 <>
-                  <td><input aria-label={`rule ${i + 1} model`} value={r.model} size={8} placeholder={r.kind === "growth" ? "model id" : "(the only one)"} onChange={(e) => set(i, { model: e.target.value })} /></td>
-                  <td colSpan={4}>
-                    <label className="inline">
-                      {r.kind === "growth" ? "at most (log10 increase)" : "at most (% of shelf life consumed)"}{" "}
-                      <input aria-label={`rule ${i + 1} ${r.kind === "growth" ? "max log10 increase" : "max percent consumed"}`} value={r.maxConsequence} size={6} inputMode="decimal" onChange={(e) => set(i, { maxConsequence: e.target.value })} />
-                    </label>
-                  </td>
+                  <td><span className="hint">model id</span><input aria-label={`rule ${i + 1} model`} value={r.model} size={8} placeholder={r.kind === "growth" ? "e.g. lm" : "(the only one)"} onChange={(e) => set(i, { model: e.target.value })} /></td>
+                  <td><span className="hint">{r.kind === "growth" ? "max log10 increase" : "max % consumed"}</span><input aria-label={`rule ${i + 1} ${r.kind === "growth" ? "max log10 increase" : "max percent consumed"}`} value={r.maxConsequence} size={6} inputMode="decimal" onChange={(e) => set(i, { maxConsequence: e.target.value })} /></td>
+                  <td colSpan={3} className="muted">{r.kind === "growth" ? "log10 increase of the product's growth model, judged under the guard band" : "percent of the shelf life consumed, judged under the guard band"}</td>
                 </>
               )}
               <td><button type="button" className="secondary" onClick={() => setRules(rules.filter((_, j) => j !== i))} disabled={rules.length === 1}>Remove</button></td>

@@ -55,6 +55,7 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await page.getByLabel("rule 2 kind").selectOption("growth");
   await page.getByLabel("rule 2 model").fill("lm");
   await page.getByLabel("rule 2 max log10 increase").fill("0.1");
+  await page.screenshot({ path: "test-results/consequence-limits.png", fullPage: true });
   await page.getByRole("button", { name: "Save limit set" }).click();
   await expect(page.getByTestId("limits-list")).toContainText("growth of model lm on the core, at most 0.1 log10 increase");
 
@@ -98,4 +99,15 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await expect(page.getByTestId("consequences-card")).toBeVisible();
   await expect(page.getByTestId("growth-chart")).toBeVisible();
   await page.screenshot({ path: "test-results/consequences-report.png", fullPage: true });
+
+  // Monte Carlo in a review: how often the growth rule fails when b is uncertain (±20 %, 50 seeded samples)
+  await page.goto("/reviews/new");
+  await page.getByLabel("Title").fill("E2E growth Monte Carlo");
+  await page.locator("#f-traceId").selectOption({ label: "Route 7 growth e2e (361 samples)" });
+  await page.locator("#f-productId").selectOption({ label: "Growth tray e2e v1" });
+  await page.locator("#f-limitsId").selectOption({ label: "Growth plan e2e v1" });
+  await page.getByText("Propagate input uncertainty (optional)").click();
+  await page.getByTestId("uncertainty-json").fill('{"inputs": [{"path": "product.consequences.1.b_per_C_sqrt_h", "plusminus": 20, "percent": true}], "samples": 50, "seed": 3}');
+  await page.getByRole("button", { name: "Run review" }).click();
+  await expect(page.getByTestId("uncertainty-summary")).toContainText(/lm-0\.1-log: \d+(\.\d)? %/);
 });
