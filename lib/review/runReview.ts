@@ -1,4 +1,4 @@
-import { bridgeGaps, findGaps, type TraceSeries } from "../trace/series";
+import { bridgeGaps, findGaps, type Gap, type TraceSeries } from "../trace/series";
 import { predict, type ScreeningResult, type SolverReport } from "../thermal/predict";
 import { readableDuration } from "../thermal/screening";
 import type { ModelChoice, Pack, Product } from "../thermal/definitions";
@@ -7,7 +7,7 @@ import { judgeConsequenceRule, ruleModel, unmatchedConsequenceRule } from "../ex
 import { evaluateConsequence, CURVE_POINTS, type ConsequenceEstimate } from "../consequence/evaluate";
 import { CONSEQUENCE_CAUTIONS } from "../consequence/cautions";
 import type { ConsequenceModel } from "../consequence/definitions";
-import { evaluateLimitSet, overallOutcome, type ChannelSeries, type Outcome } from "../exposure/rules";
+import { evaluateLimitSet, overallOutcome, type ChannelSeries, type Outcome, type RuleFinding } from "../exposure/rules";
 import { meanKineticTemperature_C } from "../exposure/mkt";
 import { timeBeyond } from "../exposure/timeAbove";
 import { clip, type Span } from "../exposure/window";
@@ -188,16 +188,23 @@ export interface ReviewHooks {
   onProgress?: (fraction: number) => void;
 }
 
-export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewComputation {
-  const { series, product, pack, limits } = input;
-  const options = input.options ?? { model: "auto" };
-  const gaps = findGaps(series, input.gapMultiple);
-  const air = bridgeGaps(series);
-  const pred = predict(product, pack, series.t_s, air, { model: options.model });
-  const tau = pred.screening.tau_s;
-  const mc = options.uncertainty ? monteCarlo({ t_s: series.t_s, air_C: air }, product, pack, limits, options.uncertainty, options.model, { onProgress: hooks.onProgress }) : null;
-  const modelUncertainty = mc && options.uncertainty!.use_in_guard_band ? mc.half_width_K : (options.model_uncertainty_K ?? 0);
+/** What the threshold rules judged: each rule's finding, the channels as judged (cut to the window) and the gaps. */
+export interface RuleJudgement {
+  findings: RuleFinding[];
+  channels: Record<string, ChannelSeries> & { air: ChannelSeries; core: ChannelSeries };
+  gaps: Gap[];
+  /** the judged window, epoch s */
+  a: number;
+  b: number;
+}
 
+/**
+ * The threshold rules over a trace and its predicted channels, as a review judges them: air bridged across
+ * gaps (uncertain there), modelled channels uncertain for GAP_MEMORY_TAUS·tau after a gap, the probe on its
+ * own gaps. A live monitor judges its readings so far with this same function.
+ */
+export function judgeRules(series: TraceSeries, air: Float64Array, pred: { core: Float64Array; surface: Float64Array; mean: Float64Array }, tau: number, limits: LimitSet, options: Pick<ReviewOptions, "window">, modelUncertainty: number, gapMultiple?: number): RuleJudgement {
+  const gaps = findGaps(series, gapMultiple);
   const airSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s]);
   const modelSpans: Span[] = gaps.map((g) => [g.start_s, g.end_s + GAP_MEMORY_TAUS * tau]);
   const t0 = series.t_s[0]!, t1 = series.t_s[series.t_s.length - 1]!;
@@ -220,7 +227,7 @@ export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewCo
   };
   if (series.probe_C && series.probe_C.some((v) => !Number.isNaN(v))) {
     // the probe is measured: its own gaps (including missing ends) are its uncertain spans
-    const probeSpans: Span[] = findGaps(series, input.gapMultiple, series.probe_C).map((g) => [g.start_s, g.end_s]);
+    const probeSpans: Span[] = findGaps(series, gapMultiple, series.probe_C).map((g) => [g.start_s, g.end_s]);
     const first = series.probe_C.findIndex((v) => !Number.isNaN(v));
     let last = series.probe_C.length - 1;
     while (Number.isNaN(series.probe_C[last]!)) last--;
@@ -231,7 +238,18 @@ export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewCo
     if (last < filled.length - 1) probeSpans.push([series.t_s[last]!, series.t_s[filled.length - 1]!]);
     channels.probe = channel(bridgeGaps(series, filled), probeSpans, false);
   }
-  const findings = evaluateLimitSet(limits, channels);
+  return { findings: evaluateLimitSet(limits, channels), channels, gaps, a, b };
+}
+
+export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewComputation {
+  const { series, product, pack, limits } = input;
+  const options = input.options ?? { model: "auto" };
+  const air = bridgeGaps(series);
+  const pred = predict(product, pack, series.t_s, air, { model: options.model });
+  const tau = pred.screening.tau_s;
+  const mc = options.uncertainty ? monteCarlo({ t_s: series.t_s, air_C: air }, product, pack, limits, options.uncertainty, options.model, { onProgress: hooks.onProgress }) : null;
+  const modelUncertainty = mc && options.uncertainty!.use_in_guard_band ? mc.half_width_K : (options.model_uncertainty_K ?? 0);
+  const { findings, channels, gaps, a, b } = judgeRules(series, air, pred, tau, limits, options, modelUncertainty, input.gapMultiple);
   const cons = consequences(product.consequences ?? [], limits, channels, options.consequence_channels ?? [], product.initial_C);
 
   let longestAir: LongestAirExcursion | null = null;

@@ -6,3 +6,4 @@ export * from "./screening";
 export * from "./predict";
 export * from "./resolve";
 export { compositionMaterial, constantMaterial, type Material } from "./properties/material";
+export * from "./stepper";

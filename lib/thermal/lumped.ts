@@ -16,13 +16,15 @@ export function lumpedResponse(t_s: Float64Array, air_C: Float64Array, initial_C
   out[0] = T;
   const rate = 1 / tau_s;
   for (let i = 1; i < n; i++) {
-    const x = (t_s[i]! - t_s[i - 1]!) * rate;
-    const a0 = air_C[i - 1]!;
-    const a1 = air_C[i]!;
-    const oneMinusE = -Math.expm1(-x);
-    const phi = x > 0 ? oneMinusE / x : 1;
-    T = T * (1 - oneMinusE) + a0 * oneMinusE + (a1 - a0) * (1 - phi);
+    T = lumpedStep(T, air_C[i - 1]!, air_C[i]!, (t_s[i]! - t_s[i - 1]!) * rate);
     out[i] = T;
   }
   return out;
+}
+
+/** One interval of the exact update: from T0 with the air going linearly from a0 to a1 over x = Δ/tau. */
+export function lumpedStep(T0: number, a0: number, a1: number, x: number): number {
+  const oneMinusE = -Math.expm1(-x);
+  const phi = x > 0 ? oneMinusE / x : 1;
+  return T0 * (1 - oneMinusE) + a0 * oneMinusE + (a1 - a0) * (1 - phi);
 }

@@ -95,7 +95,7 @@ function mean(a: Float64Array): number {
 }
 
 /** Which conduction model "conduction" means for this product's shape. */
-function conductionKindFor(p: ResolvedProduct, choice: ModelChoice): ConductionKind {
+export function conductionKindFor(p: ResolvedProduct, choice: ModelChoice): ConductionKind {
   if (choice === "conduction-1d") return "1-D";
   const kind = p.product.shape?.kind;
   // a slab is conducted across its thickness (its edges' area counted on the faces: the safe side)
@@ -118,7 +118,7 @@ function shortcutNote(p: ResolvedProduct): string | undefined {
   return undefined;
 }
 
-interface Range {
+export interface Range {
   lo_C: number;
   hi_C: number;
 }
@@ -224,14 +224,14 @@ export function screenDefinition(product: Product, pack: Pack | undefined, model
   return screen(p, r, rHot, model, rg);
 }
 
-interface Channels {
+export interface Channels {
   core: Float64Array;
   surface: Float64Array;
   mean: Float64Array;
   coolant: Float64Array | null;
 }
 
-function readChannels(b: BuiltNetwork, p: ResolvedProduct, T: Float64Array, air: Float64Array, ns: number): Channels {
+export function readChannels(b: BuiltNetwork, p: ResolvedProduct, T: Float64Array, air: Float64Array, ns: number): Channels {
   const n = b.net.mass.length;
   const core = new Float64Array(ns);
   const surface = new Float64Array(ns);
@@ -336,7 +336,7 @@ function solveChain(b: BuiltNetwork, p: ResolvedProduct, t: Float64Array, air: F
   );
 }
 
-function gridFor(p: ResolvedProduct, model: "lumped" | "conduction", kind: ConductionKind, options: PredictOptions): ProductGrid {
+export function gridFor(p: ResolvedProduct, model: "lumped" | "conduction", kind: ConductionKind, options: PredictOptions): ProductGrid {
   if (model === "lumped") return lumpedGrid(p.area_m2);
   const shape = p.product.shape!;
   if (kind === "3-D box" && shape.kind === "box") return boxGrid(shape.x_m / 2, shape.y_m / 2, shape.z_m / 2, options.intervals ?? DEFAULT_BOX_INTERVALS);
@@ -372,16 +372,32 @@ function solveGraph(p: ResolvedProduct, pack: Pack | undefined, r: Resistances, 
 }
 
 /** Features only the graph network carries: radiation updated every step, coolants with their own film, walls that store heat, respiration. */
-function needsGraph(p: ResolvedProduct, pack: Pack | undefined): boolean {
+export function needsGraph(p: ResolvedProduct, pack: Pack | undefined): boolean {
   if (p.product.respiration) return true;
   if (!pack) return false;
   return (pack.emissivity ?? 0) > 0 || pack.coolants.some((c) => c.mass_kg > 0 && c.area_m2 !== undefined) || pack.layers.some((l) => l.density_kg_m3 !== undefined);
 }
 
-function runModel(p: ResolvedProduct, pack: Pack | undefined, r: Resistances, model: "lumped" | "conduction", kind: ConductionKind, options: PredictOptions, t: Float64Array, air: Float64Array, tau: number, notes: string[]) {
+/** Which solver a model runs on: the exact lumped update, the chain (Thomas) or the graph (conjugate gradients). */
+export type SolverPath = "exact" | "chain" | "graph";
+
+export function solverPath(p: ResolvedProduct, pack: Pack | undefined, model: "lumped" | "conduction", kind: ConductionKind): SolverPath {
   const hasCoolant = (pack?.coolants ?? []).some((c) => c.mass_kg > 0);
   const graph = needsGraph(p, pack) || (model === "conduction" && kind !== "1-D");
-  if (model === "lumped" && p.material.linear && !hasCoolant && !graph) {
+  if (model === "lumped" && p.material.linear && !hasCoolant && !graph) return "exact";
+  return graph ? "graph" : "chain";
+}
+
+/** The range of temperatures a prediction meets (initial and air) and the mean temperature its radiation is evaluated at, as predict uses them. */
+export function predictionRange(product: Product, pack: Pack | undefined, aMin: number, aMax: number, airMean: number): { range: Range; tMean_C: number } {
+  return { range: { lo_C: Math.min(product.initial_C, aMin), hi_C: Math.max(product.initial_C, aMax) }, tMean_C: pack?.emissivity ? (airMean + product.initial_C) / 2 : product.initial_C };
+}
+
+function runModel(p: ResolvedProduct, pack: Pack | undefined, r: Resistances, model: "lumped" | "conduction", kind: ConductionKind, options: PredictOptions, t: Float64Array, air: Float64Array, tau: number, notes: string[]) {
+  const hasCoolant = (pack?.coolants ?? []).some((c) => c.mass_kg > 0);
+  const path = solverPath(p, pack, model, kind);
+  const graph = path === "graph";
+  if (path === "exact") {
     const core = lumpedResponse(t, air, p.product.initial_C, tau);
     const solver: SolverReport = { method: "exact lumped update", step_s: null, halving_change_K: null, shells: 1, nodes: 1, energy_residual_J: null };
     return { ch: { core, surface: core, mean: core, coolant: null } as Channels, solver };

@@ -29,6 +29,8 @@ export interface ChainRun {
   storedEnd_J: number;
   /** internal steps taken, including any subdivided for Newton convergence */
   steps: number;
+  /** enthalpy of every node at the last sample, J: the state a later run continues from (a live monitor) */
+  endE_J: Float64Array;
 }
 
 // TR-BDF2 (Bank et al., 1985; Hosea and Shampine, 1996): a trapezoidal stage to t + γΔ, then BDF2 to
@@ -249,7 +251,7 @@ function runLinear(net: ChainNetwork, t_s: Float64Array, air_C: Float64Array, in
     }
     out.set(T, k * n);
   }
-  return { T: out, heatIn_J: heatIn, storedStart_J, storedEnd_J: stored(), steps };
+  return { T: out, heatIn_J: heatIn, storedStart_J, storedEnd_J: stored(), steps, endE_J: Float64Array.from(T, (x, i) => cap[i]! * x) };
 }
 
 /**
@@ -299,5 +301,5 @@ export function runChain(net: ChainNetwork, t_s: Float64Array, air_C: Float64Arr
     temperatures(net, ws.E, ws.T);
     out.set(ws.T, k * n);
   }
-  return { T: out, heatIn_J: heatIn, storedStart_J, storedEnd_J: stored(), steps };
+  return { T: out, heatIn_J: heatIn, storedStart_J, storedEnd_J: stored(), steps, endE_J: Float64Array.from(ws.E) };
 }

@@ -281,5 +281,5 @@ export function runGraph(net: GraphNetwork, t_s: Float64Array, air_C: Float64Arr
     temperatures(net, w.E, w.T);
     out.set(w.T, k * n);
   }
-  return { T: out, heatIn_J: heatIn, generated_J: generated, storedStart_J, storedEnd_J: stored(), steps };
+  return { T: out, heatIn_J: heatIn, generated_J: generated, storedStart_J, storedEnd_J: stored(), steps, endE_J: Float64Array.from(w.E) };
 }

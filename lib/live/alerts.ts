@@ -1,0 +1,32 @@
+import type { Forecast } from "./forecast";
+import type { RuleRunning } from "./monitor";
+import type { Staleness } from "./stale";
+
+/** A condition that raises an alert while it holds. The key is what "once per condition" means: one open alert per key. */
+export interface AlertCondition {
+  key: string;
+  kind: "forecast" | "rule-fail" | "stale";
+  rule: string | null;
+  message: string;
+}
+
+/**
+ * The conditions that hold now: the forecast reaches a limit within `lead_min` (including already beyond it),
+ * a rule fails, the monitor is stale.
+ */
+export function alertConditions(rules: readonly RuleRunning[], fc: Forecast | null, stale: Staleness, lead_min: number): AlertCondition[] {
+  const out: AlertCondition[] = [];
+  if (fc && fc.minutes_to_limit !== null && fc.minutes_to_limit <= lead_min && fc.limit_rule) {
+    out.push({ key: `forecast:${fc.limit_rule}`, kind: "forecast", rule: fc.limit_rule, message: fc.minutes_to_limit === 0 ? fc.reason : `limit within ${Math.round(fc.minutes_to_limit)} min (alert lead ${lead_min} min): ${fc.reason}` });
+  }
+  for (const r of rules) if (r.status_so_far === "fail") out.push({ key: `rule-fail:${r.id}`, kind: "rule-fail", rule: r.id, message: `rule ${r.id} fails: ${r.reason}` });
+  if (stale.stale) out.push({ key: "stale", kind: "stale", rule: null, message: `no reading for ${Math.round(stale.silent_s / 60)} min (usual interval ${Math.round((stale.interval_s ?? 0) / 60)} min)` });
+  return out;
+}
+
+/** Which alerts to raise (conditions without an open alert) and which to clear (open alerts whose condition ended). */
+export function alertChanges(conditions: readonly AlertCondition[], openKeys: readonly string[]): { raise: AlertCondition[]; clear: string[] } {
+  const now = new Set(conditions.map((c) => c.key));
+  const open = new Set(openKeys);
+  return { raise: conditions.filter((c) => !open.has(c.key)), clear: openKeys.filter((k) => !now.has(k)) };
+}

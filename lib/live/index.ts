@@ -1,0 +1,4 @@
+export * from "./monitor";
+export * from "./forecast";
+export * from "./stale";
+export * from "./alerts";
