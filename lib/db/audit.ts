@@ -9,9 +9,9 @@ import { loadSigningKey, prepareKeyRotation, SigningKeyError, type SigningKey } 
 export type Tx = Prisma.TransactionClient;
 
 export interface AuditEvent {
-  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel";
+  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel" | "readings" | "raise" | "clear" | "deliver" | "close";
   /** "run": a background run that stored nothing (cancelled); its entityId is the run's id */
-  entity: "trace" | "definition" | "review" | "key" | "run";
+  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert";
   entityId: string;
   /** who did it: the reviewer's name at sign-off, "web" or "cli" otherwise (there are no accounts yet) */
   actor: string;

@@ -2,3 +2,4 @@ export * from "./monitor";
 export * from "./forecast";
 export * from "./stale";
 export * from "./alerts";
+export * from "./body";

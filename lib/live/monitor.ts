@@ -86,52 +86,67 @@ export class LiveMonitor {
     return this.states[this.states.length - 1] ?? null;
   }
 
+  /** What `add` would do with these readings, without changing anything (a service checks before it stores). */
+  classify(readings: readonly LiveReading[]): ReadingOutcome[] {
+    return this.sortIn(readings, [...this.t_s], [...this.air_C], [...this.probe_C]).outcomes;
+  }
+
   /** Offers readings (any order). Equal repeats are ignored, different values at a stored time and readings older than the late window are refused; the rest are added and the model re-stepped from the first affected reading. */
   add(readings: readonly LiveReading[]): ReadingOutcome[] {
-    const window = this.config.lateWindow_s ?? LATE_WINDOW_S;
-    const order = readings.map((_, i) => i).sort((a, b) => readings[a]!.t_s - readings[b]!.t_s);
-    const outcomes: ReadingOutcome[] = new Array(readings.length);
+    const { outcomes, inserted } = this.sortIn(readings, this.t_s, this.air_C, this.probe_C);
+    if (inserted.length === 0) return outcomes;
     let firstAffected = Infinity;
-    for (const i of order) {
-      const r = readings[i]!;
-      if (!Number.isFinite(r.t_s) || !Number.isFinite(r.air_C) || (r.probe_C !== undefined && !Number.isFinite(r.probe_C))) throw new RangeError(`reading ${i}: time and temperatures must be finite numbers`);
-      const at = this.lowerBound(r.t_s);
-      if (at < this.t_s.length && this.t_s[at] === r.t_s) {
-        const sameProbe = (r.probe_C ?? NaN) === this.probe_C[at] || (r.probe_C === undefined && Number.isNaN(this.probe_C[at]!));
-        outcomes[i] = this.air_C[at] === r.air_C && sameProbe
-          ? { index: i, status: "duplicate" }
-          : { index: i, status: "conflict", reason: `a reading at this time is already stored with air ${this.air_C[at]} °C${Number.isNaN(this.probe_C[at]!) ? "" : `, probe ${this.probe_C[at]} °C`}; stored readings are not replaced` };
-        continue;
-      }
-      const newest = this.t_s[this.t_s.length - 1];
-      if (newest !== undefined && r.t_s < newest - window) {
-        outcomes[i] = { index: i, status: "too-late", reason: `the reading is ${((newest - r.t_s) / 60).toFixed(1)} min older than the newest one; late readings are taken up to ${window / 60} min behind it` };
-        continue;
-      }
-      this.t_s.splice(at, 0, r.t_s);
-      this.air_C.splice(at, 0, r.air_C);
-      this.probe_C.splice(at, 0, r.probe_C ?? NaN);
+    for (const at of [...inserted].sort((a, b) => a - b)) {
+      // final positions, in ascending order: each placeholder lands where its reading is
       this.core_C.splice(at, 0, NaN);
       this.surface_C.splice(at, 0, NaN);
       this.mean_C.splice(at, 0, NaN);
       this.states.splice(at, 0, null);
-      this.aMin = Math.min(this.aMin, r.air_C);
-      this.aMax = Math.max(this.aMax, r.air_C);
       firstAffected = Math.min(firstAffected, at);
-      outcomes[i] = { index: i, status: "added" };
     }
-    if (firstAffected < Infinity) this.restep(firstAffected);
+    for (const at of inserted) {
+      this.aMin = Math.min(this.aMin, this.air_C[at]!);
+      this.aMax = Math.max(this.aMax, this.air_C[at]!);
+    }
+    this.restep(firstAffected);
     return outcomes;
   }
 
-  private lowerBound(t: number): number {
-    let lo = 0, hi = this.t_s.length;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (this.t_s[mid]! < t) lo = mid + 1;
-      else hi = mid;
+  /** Inserts the acceptable readings into the given arrays in time order; returns each offer's outcome and the insertion positions, in insertion order. */
+  private sortIn(readings: readonly LiveReading[], t_s: number[], air_C: number[], probe_C: number[]): { outcomes: ReadingOutcome[]; inserted: number[] } {
+    const window = this.config.lateWindow_s ?? LATE_WINDOW_S;
+    const order = readings.map((_, i) => i).sort((a, b) => readings[a]!.t_s - readings[b]!.t_s || a - b);
+    const outcomes: ReadingOutcome[] = new Array(readings.length);
+    const inserted: number[] = [];
+    for (const i of order) {
+      const r = readings[i]!;
+      if (!Number.isFinite(r.t_s) || !Number.isFinite(r.air_C) || (r.probe_C !== undefined && !Number.isFinite(r.probe_C))) throw new RangeError(`reading ${i}: time and temperatures must be finite numbers`);
+      const at = lowerBound(t_s, r.t_s);
+      if (at < t_s.length && t_s[at] === r.t_s) {
+        const sameProbe = r.probe_C === undefined ? Number.isNaN(probe_C[at]!) : r.probe_C === probe_C[at];
+        outcomes[i] = air_C[at] === r.air_C && sameProbe
+          ? { index: i, status: "duplicate" }
+          : { index: i, status: "conflict", reason: `a reading at this time is already stored with air ${air_C[at]} °C${Number.isNaN(probe_C[at]!) ? "" : `, probe ${probe_C[at]} °C`}; stored readings are not replaced` };
+        continue;
+      }
+      const newest = t_s[t_s.length - 1];
+      if (newest !== undefined && r.t_s < newest - window) {
+        outcomes[i] = { index: i, status: "too-late", reason: `the reading is ${((newest - r.t_s) / 60).toFixed(1)} min older than the newest one; late readings are taken up to ${window / 60} min behind it` };
+        continue;
+      }
+      t_s.splice(at, 0, r.t_s);
+      air_C.splice(at, 0, r.air_C);
+      probe_C.splice(at, 0, r.probe_C ?? NaN);
+      // earlier insertions at or after this position have moved one place on
+      for (let j = 0; j < inserted.length; j++) if (inserted[j]! >= at) inserted[j]!++;
+      inserted.push(at);
+      outcomes[i] = { index: i, status: "added" };
     }
-    return lo;
+    return { outcomes, inserted };
+  }
+
+  private lowerBound(t: number): number {
+    return lowerBound(this.t_s, t);
   }
 
   /** The model for the readings' temperature range (radiation, when the pack has it, at the first reading's air and the initial temperature). */
@@ -203,4 +218,14 @@ export class LiveMonitor {
       };
     });
   }
+}
+
+function lowerBound(a: readonly number[], t: number): number {
+  let lo = 0, hi = a.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (a[mid]! < t) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
 }
