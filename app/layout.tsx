@@ -3,6 +3,7 @@ import Link from "next/link";
 import "./globals.css";
 import { ZonePicker } from "@/app/components/ZonePicker";
 import { chosenZone } from "@/app/displayZone";
+import { AlertBadge } from "@/app/monitors/AlertBadge";
 
 export const metadata: Metadata = {
   title: "Corelag",
@@ -22,6 +23,7 @@ export default async function RootLayout({ children }: { children: React.ReactNo
             <Link href="/packs">Packs</Link>
             <Link href="/limits">Limit sets</Link>
             <Link href="/design">Design</Link>
+            <Link href="/monitors" data-testid="nav-monitors">Monitors <AlertBadge /></Link>
             <Link href="/audit">Audit log</Link>
           </nav>
           <ZonePicker chosen={await chosenZone()} />

@@ -46,6 +46,12 @@ ${IMPORT_OPTIONS}`,
   size: `corelag size --profile FILE(.csv|.json) --product P.json --pack K.json --limits L.json
              --vary layer:N:thickness_m|coolant:N:mass_kg|product:initial_C --min X --max Y [--model M] --format json
 Finds the smallest insulation thickness or coolant mass (or the warmest start) that keeps every rule passing.`,
+  simulate: `corelag simulate --monitor ID --trace FILE --speed 600 [--url http://127.0.0.1:3000] --token T [--quiet] [import options]
+Replays a trace file's rows as live readings to a monitor (POST /api/v1/monitors/ID/readings with the device token T),
+--speed times faster than real time (default 600: a 10-minute interval every second). Readings keep the file's times.
+Progress goes to stderr; at the end prints JSON with the readings sent, accepted, duplicates and conflicts.
+
+${IMPORT_OPTIONS}`,
   verify: `corelag verify [--review ID] [--anchor FILE_OR_JSON] [--json]
 Checks the database file (integrity check, foreign keys), the audit chain and its Ed25519 signatures, every trace,
 definition and review against the content hash its latest audit entry recorded (and every entry against its row),
@@ -69,6 +75,7 @@ const SUMMARY: Record<string, string> = {
   review: "predict the core and judge a limit set; suggest an outcome",
   calibrate: "fit the time constant to a probe test",
   size: "size insulation or coolant against a profile and a limit set",
+  simulate: "replay a trace file as live readings to a monitor",
   verify: "check the database, the signed audit chain, every record against it; re-run reviews",
   anchor: "print the chain head as one JSON line to keep elsewhere",
   key: "rotate the audit signing key (key rotate)",

@@ -32,6 +32,7 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
   review: async () => (await import("./commands/review")).reviewCommand,
   calibrate: async () => (await import("./commands/calibrate")).calibrateCommand,
   size: async () => (await import("./commands/size")).sizeCommand,
+  simulate: async () => (await import("./commands/simulate")).simulateCommand,
 };
 
 /** Runs one command; returns the exit code (0 done, 1 verify found a problem, 2 bad input, 3 unexpected failure). */

@@ -20,7 +20,7 @@ export function alertConditions(rules: readonly RuleRunning[], fc: Forecast | nu
     out.push({ key: `forecast:${fc.limit_rule}`, kind: "forecast", rule: fc.limit_rule, message: fc.minutes_to_limit === 0 ? fc.reason : `limit within ${Math.round(fc.minutes_to_limit)} min (alert lead ${lead_min} min): ${fc.reason}` });
   }
   for (const r of rules) if (r.status_so_far === "fail") out.push({ key: `rule-fail:${r.id}`, kind: "rule-fail", rule: r.id, message: `rule ${r.id} fails: ${r.reason}` });
-  if (stale.stale) out.push({ key: "stale", kind: "stale", rule: null, message: `no reading for ${Math.round(stale.silent_s / 60)} min (usual interval ${Math.round((stale.interval_s ?? 0) / 60)} min)` });
+  if (stale.stale) out.push({ key: "stale", kind: "stale", rule: null, message: `no reading for ${span(stale.silent_s)} (readings usually arrive every ${span(stale.interval_s ?? 0)})` });
   return out;
 }
 
@@ -29,4 +29,9 @@ export function alertChanges(conditions: readonly AlertCondition[], openKeys: re
   const now = new Set(conditions.map((c) => c.key));
   const open = new Set(openKeys);
   return { raise: conditions.filter((c) => !open.has(c.key)), clear: openKeys.filter((k) => !now.has(k)) };
+}
+
+/** A duration in words: seconds under 90 s (a replay at 600× arrives every second or so), else minutes. */
+function span(s: number): string {
+  return s < 90 ? `${Math.round(s)} s` : `${Math.round(s / 60)} min`;
 }

@@ -7,7 +7,8 @@ import { limitSetSchema } from "../exposure/limits";
 import { createTrace } from "../db/traces";
 import { createDefinition, listLatestDefinitions } from "../db/definitions";
 import { db } from "../db/client";
-import { DEMO_DESIGN_NAMES } from "./demoNames";
+import { DEMO_DESIGN_NAMES, DEMO_MONITOR } from "./demoNames";
+import { createMonitorService } from "./monitors";
 import { runAndStoreReview, signOff } from "./reviews";
 
 const DEMO = path.resolve(__dirname, "..", "..", "public", "demo");
@@ -47,6 +48,9 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   // the example plan without its air rule: a route's air is not something a pack can change
   await createDefinition("limits", limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.limits), "utf8"))));
   for (const profile of EXAMPLE_PROFILES) await createDefinition("profile", profile);
+  // A live monitor with no readings yet: `corelag simulate` feeds it the 16 June trace on request (README).
+  const live = await createMonitorService({ name: DEMO_MONITOR.name, product_id: p.id, limits_id: l.id, shipment_id: "R7-0616 (invented)", serial: "HX-20417", alert: { lead_min: 60 } }, "system:demo", DEMO_MONITOR.token);
+  if (!live.ok) throw new Error(`demo monitor failed: ${live.message}`);
   return "loaded";
 }
 

@@ -7,3 +7,9 @@ export const DEMO_DESIGN_NAMES = {
   pack: "EPS tote, 25 mm, with one gel pack (share per tray)",
   limits: "Harrowgate tote design (core rules of the example plan)",
 } as const;
+
+/**
+ * The demo's live monitor and its device token. The token is printed in the README so that anyone can feed
+ * the demo monitor with the simulator: it is public, so the demo database must never watch a real shipment.
+ */
+export const DEMO_MONITOR = { name: "Route 7 north, tote 3, live (demo)", token: "cmd_demo-route7-tote3-public-token" } as const;

@@ -36,7 +36,7 @@ export type CreateMonitorOutcome = { ok: true; id: string; device_token: string 
 const hashToken = (token: string) => createHash("sha256").update(token, "utf8").digest("hex");
 
 /** Creates a monitor; the device token is returned once and only its hash is kept. */
-export async function createMonitorService(input: unknown, actor: string): Promise<CreateMonitorOutcome> {
+export async function createMonitorService(input: unknown, actor: string, fixedToken?: string): Promise<CreateMonitorOutcome> {
   const parsed = createMonitorSchema.safeParse(input);
   if (!parsed.success) {
     const i = parsed.error.issues[0]!;
@@ -46,7 +46,8 @@ export async function createMonitorService(input: unknown, actor: string): Promi
   const b = parsed.data;
   const defs = await loadMonitorDefinitions({ productId: b.product_id, packId: b.pack_id ?? null, limitsId: b.limits_id });
   if (!defs.ok) return { ok: false, field: defs.field, message: `${defs.field}: ${defs.message}` };
-  const device_token = `cmd_${randomBytes(24).toString("base64url")}`;
+  // a fixed token only for the demo monitor (lib/services/demoNames.ts), whose token is public
+  const device_token = fixedToken ?? `cmd_${randomBytes(24).toString("base64url")}`;
   const m = await createMonitor(
     {
       name: b.name, productId: b.product_id, packId: b.pack_id, limitsId: b.limits_id, shipmentId: b.shipment_id, serial: b.serial, model: b.model,
@@ -255,4 +256,9 @@ export async function closeMonitor(id: string, actor: string): Promise<CloseOutc
     notifyMonitorChange(id);
     return { ok: true, traceId: stored.traceId, reviewId: review.reviewId };
   });
+}
+
+/** Whether this monitor is fed with the demo's public token (the page then shows the whole simulator command). */
+export async function usesDemoToken(id: string, demoToken: string): Promise<boolean> {
+  return (await monitorTokenHash(id)) === hashToken(demoToken);
 }

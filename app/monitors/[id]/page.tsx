@@ -1,0 +1,18 @@
+import { notFound } from "next/navigation";
+import { livePayload } from "@/lib/services/monitorPage";
+import { ensureSweeper, usesDemoToken } from "@/lib/services/monitors";
+import { DEMO_MONITOR } from "@/lib/services/demoNames";
+import { displayZone } from "@/app/displayZone";
+import { LiveView } from "./LiveView";
+
+export const dynamic = "force-dynamic";
+
+export default async function MonitorPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const [payload, zone] = await Promise.all([livePayload(id), displayZone()]);
+  if (!payload) notFound();
+  ensureSweeper();
+  // the demo monitor's token is public (README): show the whole command that feeds it
+  const demoToken = (await usesDemoToken(id, DEMO_MONITOR.token)) ? DEMO_MONITOR.token : null;
+  return <LiveView initial={payload} zone={zone} demoToken={demoToken} />;
+}
