@@ -29,6 +29,15 @@ test("create a monitor, replay the demo trace with the simulator, watch the char
   await expect(page.getByTestId("no-readings")).toBeVisible();
   const id = page.url().split("/monitors/")[1]!;
 
+  // The readings endpoint answers problem+json: no token, a bad reading (nothing stored, refused by index).
+  const noToken = await page.request.post(`/api/v1/monitors/${id}/readings`, { data: { readings: [{ t: "2026-06-16T03:00:00Z", air_C: 3 }] } });
+  expect(noToken.status()).toBe(401);
+  expect(noToken.headers()["content-type"]).toContain("application/problem+json");
+  const bad = await page.request.post(`/api/v1/monitors/${id}/readings`, { headers: { Authorization: `Bearer ${token}` }, data: { readings: [{ t: "2026-06-16T03:00:00Z", air_C: 3 }, { t: "2026-06-16T03:02:00", air_C: 3 }] } });
+  expect(bad.status()).toBe(422);
+  expect(await bad.json()).toMatchObject({ type: "/api/v1/problems/invalid-readings", refused: [{ index: 1 }] });
+  expect((await (await page.request.get(`/api/v1/monitors/${id}`)).json()).last_reading).toBeNull();
+
   // 2. Replay the demo trace at 2000× (12 h in about 22 s) while the page is open: it grows by Server-Sent Events.
   const sim = spawn(process.execPath, [path.join(ROOT, "scripts/corelag.mjs"), "simulate", "--monitor", id, "--trace", TRACE, "--speed", "2000", "--url", baseURL!, "--token", token, "--quiet"], { cwd: ROOT, stdio: ["ignore", "pipe", "pipe"] });
   let out = "", err = "";

@@ -126,6 +126,22 @@ describe("LiveMonitor (network continued from its state)", () => {
     const ref = predict(sphere, undefined, t, air, { model: "auto" });
     for (let k = 0; k < t.length; k++) expectClose(m.core_C[k]!, ref.core[k]!, { abs: 0.01 });
   });
+
+  it("late and out-of-order readings re-step the network from its checkpoint: the same bits as the readings in order (property)", () => {
+    const all = readings(24, 11);
+    const inOrder = new LiveMonitor({ product: sphere, limits, model: "auto" });
+    for (const r of all) inOrder.add([r]);
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 0, max: 5 }), { minLength: 24, maxLength: 24 }), (delays) => {
+        const order = all.map((r, i) => ({ r, at: i + delays[i]! })).sort((a, b) => a.at - b.at).map((x) => x.r);
+        const m = new LiveMonitor({ product: sphere, limits, model: "auto" });
+        for (const r of order) m.add([r]);
+        expect(m.model!.path).toBe("chain");
+        for (let k = 0; k < all.length; k++) expectClose(m.core_C[k]!, inOrder.core_C[k]!, { abs: 1e-9 });
+      }),
+      { numRuns: 8, seed: 5 },
+    );
+  });
 });
 
 describe("forecast", () => {
