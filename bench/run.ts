@@ -12,6 +12,7 @@ import { benchCli } from "./cli";
 import { benchWeb } from "./web";
 import { benchBox } from "./multiD";
 import { benchConsequence } from "./consequence";
+import { benchLive } from "./live";
 
 
 function best<T>(runs: number, fn: () => T): { ms: number; value: T } {
@@ -80,6 +81,7 @@ benchLumped();
 benchTimeBeyond();
 benchSphere();
 benchBox();
+benchLive();
 benchDesign();
 benchConsequence();
 benchCli();

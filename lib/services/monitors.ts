@@ -200,7 +200,13 @@ export async function postReadings(id: string, body: Uint8Array, contentType: st
 /** Re-evaluates every open monitor at `now` (staleness needs a clock; readings do not come to say they stopped). */
 export async function sweepMonitors(now = new Date()): Promise<void> {
   for (const id of await openMonitorIds()) {
-    await withMonitor(id, async () => evaluateAlerts(await liveEntry(id), now));
+    await withMonitor(id, async () => {
+      const entry = await liveEntry(id);
+      // only staleness changes with the clock alone: re-judge (rules over the whole history) only when it did
+      const stale = staleness(entry.arrivals_s, now.getTime() / 1000).stale;
+      const open = (await openAlerts(id)).some((a) => a.key === "stale");
+      if (stale !== open) await evaluateAlerts(entry, now);
+    });
   }
 }
 
