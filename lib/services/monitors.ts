@@ -46,6 +46,9 @@ export async function createMonitorService(input: unknown, actor: string, fixedT
   const b = parsed.data;
   const defs = await loadMonitorDefinitions({ productId: b.product_id, packId: b.pack_id ?? null, limitsId: b.limits_id });
   if (!defs.ok) return { ok: false, field: defs.field, message: `${defs.field}: ${defs.message}` };
+  if ((b.model === "conduction" || b.model === "conduction-1d") && (!defs.product.shape || (!defs.product.composition && defs.product.properties?.k_W_mK === undefined))) {
+    return { ok: false, field: "model", message: "model: the conduction model needs the product's shape and conductivity" };
+  }
   // a fixed token only for the demo monitor (lib/services/demoNames.ts), whose token is public
   const device_token = fixedToken ?? `cmd_${randomBytes(24).toString("base64url")}`;
   const m = await createMonitor(

@@ -75,42 +75,53 @@ export function makeStepper(product: Product, pack: Pack | undefined, model: Mod
   }
   const step_s = Math.min(60, Math.max(0.5, tau / LIVE_STEPS_PER_TAU));
   const r = resistances(product, p.geometry, p.area_m2, pack, tMean_C);
+  // the network is built on first use: a caller that only compares keys pays for the screening alone
+  const once = <T>(make: () => T): (() => T) => {
+    let v: T | undefined;
+    return () => (v ??= make());
+  };
   if (path === "chain") {
-    const b = buildNetwork(p, pack, r, screening.model, DEFAULT_SHELLS);
-    const n = b.net.mass.length;
+    const built = once(() => buildNetwork(p, pack, r, screening.model, DEFAULT_SHELLS));
+    const net = once(() => ({ b: built(), n: built().net.mass.length }));
     return {
       path, screening, key, step_s,
       start: (t_s, air_C) => {
+        const { b, n } = net();
         // the start's node temperatures as a run reports them (from the enthalpies, for a nonlinear chain)
         const run = runChain(b.net, Float64Array.of(t_s), Float64Array.of(air_C), b.initial_C, 1, new Int32Array(0), b.initialE_J);
         return { t_s, air_C, T: run.T.slice(0, n), E: Float64Array.from(b.initialE_J) };
       },
       advance: (s, t1, a1, index) => {
+        const { b, n } = net();
         const run = runChain(b.net, Float64Array.of(s.t_s, t1), Float64Array.of(s.air_C, a1), s.T, 1, Int32Array.of(substepsFor(t1 - s.t_s, step_s, index)), s.E ?? undefined);
         return { t_s: t1, air_C: a1, T: run.T.slice(n), E: run.endE_J };
       },
       read: (s) => {
-        const ch = readChannels(b, p, s.T, Float64Array.of(s.air_C), 1);
+        const ch = readChannels(net().b, p, s.T, Float64Array.of(s.air_C), 1);
         return { core: ch.core[0]!, surface: ch.surface[0]!, mean: ch.mean[0]!, coolant: ch.coolant ? ch.coolant[0]! : null };
       },
     };
   }
-  const g = buildGraph(p, pack, r, gridFor(p, screening.model, kind, { model }), air0_C);
-  const n = g.net.mass.length;
+  const graph = once(() => {
+    const g = buildGraph(p, pack, r, gridFor(p, screening.model, kind, { model }), air0_C);
+    return { g, n: g.net.mass.length };
+  });
   return {
     path, screening, key, step_s,
     start: (t_s, air_C) => {
+      const { g, n } = graph();
       const E = Float64Array.from(g.initialE);
       // the start's node temperatures as a run reports them (from the enthalpies)
       const run = runGraph(g.net, Float64Array.of(t_s), Float64Array.of(air_C), E, new Int32Array(0));
       return { t_s, air_C, T: run.T.slice(0, n), E };
     },
     advance: (s, t1, a1, index) => {
+      const { g, n } = graph();
       const run = runGraph(g.net, Float64Array.of(s.t_s, t1), Float64Array.of(s.air_C, a1), s.E!, Int32Array.of(substepsFor(t1 - s.t_s, step_s, index)));
       return { t_s: t1, air_C: a1, T: run.T.slice(n), E: run.endE_J };
     },
     read: (s) => {
-      const v = g.read(s.T, s.air_C);
+      const v = graph().g.read(s.T, s.air_C);
       return { core: v.core, surface: v.surface, mean: v.mean, coolant: v.coolant };
     },
   };
