@@ -1,4 +1,5 @@
 import { displaySeries } from "../display/series";
+import { isThresholdRule } from "../exposure/limits";
 import { alertHistory, getMonitor } from "../db/monitors";
 import { getDefinition } from "../db/definitions";
 import { liveEntry } from "./liveRegistry";
@@ -44,7 +45,7 @@ export async function livePayload(id: string, now = new Date()): Promise<LivePay
   const disp = displaySeries({
     t_s: live.t_s,
     channels: { air: live.air_C, core: live.core_C },
-    thresholds: entry.limits.rules.map((r) => ({ value_C: (r.above_C ?? r.below_C)!, direction: r.above_C !== undefined ? ("above" as const) : ("below" as const), channels: [r.channel === "air" ? "air" : "core"] })),
+    thresholds: entry.limits.rules.filter(isThresholdRule).map((r) => ({ value_C: (r.above_C ?? r.below_C)!, direction: r.above_C !== undefined ? ("above" as const) : ("below" as const), channels: [r.channel === "air" ? "air" : "core"] })),
   });
   const times_ms = [...disp.times_ms];
   const air = [...(disp.channels.air ?? [])];
@@ -61,7 +62,7 @@ export async function livePayload(id: string, now = new Date()): Promise<LivePay
     }
   }
   const byValue = new Map<number, string[]>();
-  for (const r of entry.limits.rules) {
+  for (const r of entry.limits.rules.filter(isThresholdRule)) {
     const value = (r.above_C ?? r.below_C)!;
     byValue.set(value, [...(byValue.get(value) ?? []), `${r.id} (${r.channel})`]);
   }
