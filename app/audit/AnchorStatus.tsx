@@ -7,8 +7,8 @@ const utc = (iso: string) => `${iso.slice(0, 19).replace("T", " ")} UTC`;
  * The last anchor taken on this machine (`corelag anchor`) and whether the chain still contains it, signed
  * by the same key. Anchors count when kept elsewhere: this line only says whether the newest one still holds.
  */
-export function AnchorStatus() {
-  const s = lastAnchorStatus();
+export async function AnchorStatus() {
+  const s = await lastAnchorStatus();
   return (
     <div data-testid="chain-anchor">
       <p data-testid="signing-key">

@@ -9,7 +9,7 @@ import { formatTime } from "@/lib/display/time";
  * record against its latest entry. Doing that on every view would grow with the log.
  */
 export async function ChainCheck({ head, verify, zone }: { head: { entries: number; seq: number | null; hash: string | null; at: Date | null }; verify: boolean; zone: string }) {
-  const check = verify ? checkStoredRecords() : null;
+  const check = verify ? await checkStoredRecords() : null;
   return (
     <div data-testid="chain-check">
       <p data-testid="chain-head">

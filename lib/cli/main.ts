@@ -10,7 +10,7 @@ import { RECORD_COMMANDS, RecordsUsageError } from "./records";
 /**
  * The record commands (verify, anchor, key, seal) read and extend existing records; they must never
  * create a database. SQLite creates a missing file on open, so a mistyped DATABASE_URL would be
- * "verified" as an empty database: refuse it first, in one line.
+ * "verified" as an empty database: refuse it first, in one line (PostgreSQL: a database without tables).
  */
 async function requireExistingDatabase(): Promise<void> {
   const { config } = await import("../config");
@@ -19,6 +19,12 @@ async function requireExistingDatabase(): Promise<void> {
     url = config().DATABASE_URL;
   } catch (e) {
     throw new CliError((e as Error).message);
+  }
+  if (/^postgres(ql)?:/.test(url)) {
+    const { postgresDatabaseProblem } = await import("../services/verify");
+    const problem = await postgresDatabaseProblem(url);
+    if (problem) throw new CliError(problem);
+    return;
   }
   const file = path.resolve(url.replace(/^file:/, ""));
   if (!existsSync(file)) throw new CliError(`DATABASE_URL: there is no database at ${file}; check the path (verify never creates one)`);

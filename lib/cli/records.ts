@@ -45,7 +45,7 @@ export async function verifyCommand(argv: string[]): Promise<CommandResult> {
 export async function anchorCommand(argv: string[]): Promise<CommandResult> {
   const { values } = parseArgs({ args: argv, options: { post: { type: "boolean" } }, strict: true });
   const { takeAnchor, postAnchor } = await import("../services/verify");
-  const r = takeAnchor();
+  const r = await takeAnchor();
   if (!r.anchor) return { stdout: "", stderr: `corelag anchor: nothing to anchor: ${r.reason}\n`, code: 1 };
   const line = JSON.stringify(r.anchor) + "\n";
   if (!values.post) return { stdout: line, code: 0 };

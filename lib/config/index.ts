@@ -8,10 +8,15 @@ import { parseEnv } from "node:util";
 import { z } from "zod";
 
 const configSchema = z.object({
-  /** The database: a SQLite file: URL; a relative path is relative to the working directory. */
+  /**
+   * The database: a SQLite file: URL (one machine; a relative path is relative to the working directory), or a
+   * postgresql:// URL naming a database (a team's server, several app instances).
+   */
   DATABASE_URL: z
     .string()
-    .regex(/^file:.+/, { message: "DATABASE_URL must be a SQLite file: URL, e.g. file:data/corelag.db" })
+    .regex(/^(file:.+|postgres(ql)?:\/\/[^/]*\/[^/?#]+([?#].*)?)$/, {
+      message: "DATABASE_URL must be a SQLite file: URL (e.g. file:data/corelag.db) or a PostgreSQL URL naming a database (e.g. postgresql://corelag@db.example:5432/corelag)",
+    })
     .default(`file:${path.join("data", "corelag.db")}`),
   /** The audit signing key itself, PEM or base64 PKCS#8 DER (for teams that keep it in a secret store). */
   CORELAG_SIGNING_KEY: z.string().min(1).optional(),

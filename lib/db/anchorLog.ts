@@ -1,13 +1,15 @@
 // A local log of the anchors `corelag anchor` printed (one JSON line each, beside the database), so the
 // audit page can show the last one and whether the chain still contains it. The anchors that count are
 // the copies kept outside this machine; this log is a convenience and is not trusted by verify.
-import { appendFileSync, existsSync, readFileSync } from "node:fs";
-import { databaseFile } from "./env";
+import { appendFileSync, existsSync, mkdirSync, readFileSync } from "node:fs";
+import path from "node:path";
+import { localStateBase } from "./env";
 import { anchorSchema, type Anchor } from "../review/anchor";
 
-export const anchorLogFile = () => `${databaseFile()}.anchors.jsonl`;
+export const anchorLogFile = () => `${localStateBase()}.anchors.jsonl`;
 
 export function recordAnchor(a: Anchor): void {
+  mkdirSync(path.dirname(anchorLogFile()), { recursive: true });
   appendFileSync(anchorLogFile(), JSON.stringify(a) + "\n", { mode: 0o600 });
 }
 

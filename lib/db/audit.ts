@@ -1,5 +1,5 @@
 import type { Prisma } from "../../generated/prisma/client";
-import { db } from "./client";
+import { db, dbKind } from "./client";
 import { auditHash, GENESIS_HASH, type AuditEntryRecord } from "../review/audit";
 import { publicKeyText, signEntry } from "../review/signature";
 import { definitionContentHash, reviewContentHash, traceContentHash } from "../review/content";
@@ -18,6 +18,20 @@ export interface AuditEvent {
   details: Record<string, unknown>;
   /** SHA-256 of the canonical content of the row as this change left it (lib/review/content.ts); every change but an export has one */
   contentSha256?: string;
+}
+
+/** The advisory-lock key that serialises audit appends on PostgreSQL (any fixed number; "corl" in ASCII). */
+const AUDIT_CHAIN_LOCK = 0x636f726c;
+
+/**
+ * Makes this transaction the only one appending to the chain until it commits or rolls back. PostgreSQL:
+ * a transaction-scoped advisory lock, taken before the chain's head is read (READ COMMITTED: the next
+ * statement sees the entry the previous holder committed), so concurrent writers on any number of app
+ * instances queue instead of colliding on the next sequence number. SQLite: the transaction already holds
+ * the database's one write lock (BEGIN IMMEDIATE, lib/db/guardTransactions.ts).
+ */
+async function lockChain(tx: Tx): Promise<void> {
+  if (dbKind() === "postgres") await tx.$executeRawUnsafe(`SELECT pg_advisory_xact_lock(${AUDIT_CHAIN_LOCK})`);
 }
 
 /** Writes one entry and its signature; the caller has checked that `signer` is the key in force. */
@@ -55,12 +69,13 @@ async function chainKey(tx: Tx): Promise<string | null> {
 
 /**
  * Appends one entry to the hash chain, signed, inside the caller's transaction so the entry and the
- * change it records are written together or not at all. SQLite serialises write transactions, so the
+ * change it records are written together or not at all. Appends are serialised (lockChain), so the
  * entry read as "last" stays the last until this one is added. The first write records the signing
  * key in the chain; a key that is not the chain's key is refused (rotate with `corelag key rotate`).
  */
 export async function appendAudit(tx: Tx, e: AuditEvent, at: Date = new Date()): Promise<AuditEntryRecord> {
   const signer = loadSigningKey({ create: true })!;
+  await lockChain(tx);
   const inForce = await chainKey(tx);
   if (inForce === null) await writeEntry(tx, keyEvent(signer, null, "system"), signer, at);
   else if (inForce !== signer.fingerprint) {
@@ -76,6 +91,7 @@ export async function rotateSigningKey(actor = "cli"): Promise<{ from: string; t
   const r = prepareKeyRotation();
   try {
     const entry = await db.$transaction(async (tx) => {
+      await lockChain(tx);
       const inForce = await chainKey(tx);
       if (inForce !== null && inForce !== r.old.fingerprint) throw new SigningKeyError(`the current key file is not the chain's key (${inForce.slice(0, 16)}…); rotation needs the key in force`);
       if (inForce === null) await writeEntry(tx, keyEvent(r.old, null, "system"), r.old, new Date());

@@ -3,7 +3,7 @@ import type { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
 type Adapter = Awaited<ReturnType<PrismaBetterSQLite3["connect"]>>;
 type Transaction = Awaited<ReturnType<Adapter["startTransaction"]>>;
 /** The better-sqlite3 connection the adapter and its transactions hold (a public field of both). */
-type WithConnection = { client: { inTransaction: boolean; exec(sql: string): unknown } };
+type WithConnection = { client: { inTransaction: boolean; exec(sql: string): unknown; prepare(sql: string): { run(): unknown } } };
 
 /**
  * Keeps the one SQLite connection usable after a failed write.
@@ -21,6 +21,7 @@ export function guardTransactions(factory: PrismaBetterSQLite3): PrismaBetterSQL
   const connect = factory.connect.bind(factory);
   factory.connect = async () => {
     const adapter = await connect();
+    beginImmediate((adapter as unknown as WithConnection).client);
     const start = adapter.startTransaction.bind(adapter);
     adapter.startTransaction = async (isolationLevel) => closeOnFailure(await start(isolationLevel));
     return adapter;
@@ -46,4 +47,30 @@ function closeOnFailure(tx: Transaction): Transaction {
     }
   };
   return tx;
+}
+
+/**
+ * Write transactions take SQLite's write lock when they begin (`BEGIN IMMEDIATE`), not at their first
+ * write: a transaction that reads the audit chain's head and then appends cannot be overtaken by another
+ * process between the two, and a second writer (the CLI beside the server) waits for the lock (the busy
+ * timeout) instead of failing mid-transaction with SQLITE_BUSY. The adapter issues a plain `BEGIN`; when
+ * the lock is still held after the busy timeout, the transaction begins deferred and its first write
+ * reports SQLITE_BUSY, which rolls it back through Prisma's usual path (releasing the adapter's lock) and
+ * lets lib/db/busy.ts retry it whole.
+ */
+function beginImmediate(connection: WithConnection["client"]): void {
+  const prepare = connection.prepare.bind(connection);
+  connection.prepare = (sql: string) => {
+    if (sql.trim().toUpperCase() !== "BEGIN") return prepare(sql);
+    return {
+      run: () => {
+        try {
+          return prepare("BEGIN IMMEDIATE").run();
+        } catch (e) {
+          if (!/SQLITE_BUSY|SQLITE_LOCKED/.test(String((e as { code?: unknown }).code))) throw e;
+          return prepare("BEGIN").run();
+        }
+      },
+    };
+  };
 }

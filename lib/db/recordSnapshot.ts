@@ -1,16 +1,18 @@
-// Reads everything `verify` compares, straight from the SQLite file (read-only, without Prisma), so a
-// damaged or tampered file gives findings instead of a crash. A second database gets its own reader
-// returning the same RecordSnapshot; the comparison (lib/review/records.ts) stays as it is.
+// Reads everything `verify` compares, straight from the database (read-only, without Prisma), so a
+// damaged or tampered database gives findings instead of a crash: the SQLite file with better-sqlite3, or
+// PostgreSQL with pg (recordSnapshotPg.ts). Both return the same RecordSnapshot; the comparison
+// (lib/review/records.ts) knows no database.
 import Database from "better-sqlite3";
 import { existsSync } from "node:fs";
 import type { AuditEntryRecord } from "../review/audit";
 import type { DefinitionRowContent, ReviewRowContent, TraceRowContent } from "../review/content";
 import type { Finding, RecordSnapshot, SignatureRecord } from "../review/records";
-import { databaseFile } from "./env";
+import { databaseFile, databaseKind, databaseUrl } from "./env";
+import { readPgSnapshot } from "./recordSnapshotPg";
 
-type Raw = Record<string, unknown>;
+export type Raw = Record<string, unknown>;
 
-const MAX_STORAGE_FINDINGS = 100;
+export const MAX_STORAGE_FINDINGS = 100;
 
 /** JSON text as a value; text that does not parse stays as a marked string, so its hash differs. */
 function json(v: unknown): unknown {
@@ -25,23 +27,23 @@ const bytes = (v: unknown): Uint8Array => (v instanceof Uint8Array ? v : new Tex
 const blob = (v: unknown): Uint8Array | null => (v === null || v === undefined ? null : bytes(v));
 const str = (v: unknown): string => (v === null || v === undefined ? "" : String(v));
 const strOrNull = (v: unknown): string | null => (v === null || v === undefined ? null : String(v));
-const when = (v: unknown): Date | string => (typeof v === "number" ? new Date(v) : str(v));
+const when = (v: unknown): Date | string => (typeof v === "number" ? new Date(v) : v instanceof Date ? v : str(v));
 
-function toEntry(r: Raw): AuditEntryRecord {
+export function toEntry(r: Raw): AuditEntryRecord {
   const at = new Date(when(r.at));
   return { seq: Number(r.seq), at, action: str(r.action), entity: str(r.entity), entityId: str(r.entityId), actor: str(r.actor), details: json(r.details), prevHash: str(r.prevHash), hash: str(r.hash) };
 }
-function toTrace(r: Raw): TraceRowContent {
+export function toTrace(r: Raw): TraceRowContent {
   return {
     id: str(r.id), name: str(r.name), fileName: str(r.fileName), sha256: str(r.sha256), original: bytes(r.original), importSettings: json(r.importSettings),
     timesS: bytes(r.timesS), airC: bytes(r.airC), probeC: blob(r.probeC), sampleCount: Number(r.sampleCount), startAt: when(r.startAt), endAt: when(r.endAt),
     warnings: json(r.warnings), createdAt: when(r.createdAt),
   };
 }
-function toDefinition(r: Raw): DefinitionRowContent {
+export function toDefinition(r: Raw): DefinitionRowContent {
   return { id: str(r.id), kind: str(r.kind), lineage: str(r.lineage), version: Number(r.version), name: str(r.name), body: json(r.body), sha256: str(r.sha256), createdAt: when(r.createdAt) };
 }
-function toReview(r: Raw): ReviewRowContent {
+export function toReview(r: Raw): ReviewRowContent {
   return {
     id: str(r.id), title: str(r.title), traceId: str(r.traceId), productId: str(r.productId), packId: strOrNull(r.packId), limitsId: str(r.limitsId),
     options: json(r.options), engineVersion: str(r.engineVersion), result: json(r.result), coreC: bytes(r.coreC), surfaceC: blob(r.surfaceC), meanC: blob(r.meanC),
@@ -57,13 +59,36 @@ export interface SnapshotRead {
   storage: Finding[];
 }
 
-const emptySnapshot = (): RecordSnapshot => ({ entries: [], signatures: [], traces: [], definitions: [], reviews: [], incompleteTables: [] });
+export const emptySnapshot = (): RecordSnapshot => ({ entries: [], signatures: [], traces: [], definitions: [], reviews: [], incompleteTables: [] });
+
+export interface SnapshotOptions {
+  /** a SQLite file other than DATABASE_URL's */
+  file?: string;
+  /** a database URL other than DATABASE_URL */
+  url?: string;
+  scope?: ReadonlySet<string>;
+  storageChecks?: boolean;
+}
 
 /**
  * Everything verify needs. `scope` limits the rows read to these ids (a review and its inputs), for the
  * app's per-review check; the chain and signatures are always read whole. Never throws.
  */
-export function readRecordSnapshot(opts: { file?: string; scope?: ReadonlySet<string>; storageChecks?: boolean } = {}): SnapshotRead {
+export async function readRecordSnapshot(opts: SnapshotOptions = {}): Promise<SnapshotRead> {
+  if (!opts.file) {
+    let url: string;
+    try {
+      url = opts.url ?? databaseUrl();
+    } catch (e) {
+      return { snapshot: emptySnapshot(), storage: [{ kind: "storage-damaged", message: (e as Error).message }] };
+    }
+    if (databaseKind(url) === "postgres") return readPgSnapshot(url, opts);
+    opts = { ...opts, file: databaseFile(url) };
+  }
+  return readSqliteSnapshot(opts);
+}
+
+function readSqliteSnapshot(opts: SnapshotOptions): SnapshotRead {
   const storage: Finding[] = [];
   const snapshot = emptySnapshot();
   if (opts.scope) snapshot.scope = opts.scope;

@@ -2,6 +2,7 @@ import { z } from "zod";
 import { importOptionsSchema, importTraceFile, TraceImportError } from "../trace";
 import { createTrace } from "../db/traces";
 import { isDiskFull } from "../db/errors";
+import { StorageBusyError } from "../db/busy";
 
 export const uploadSchema = z.object({
   name: z.string().trim().max(160, { message: "the name is longer than 160 characters" }).optional(),
@@ -15,8 +16,8 @@ export const uploadSchema = z.object({
 
 export type StoreTraceOutcome =
   | { ok: true; traceId: string }
-  /** diskFull: the import was fine but the server could not store it (HTTP 507); field: the part of the request at fault */
-  | { ok: false; message: string; diskFull?: true; field?: "fileName" | "name" | "options" };
+  /** diskFull: the import was fine but the server could not store it (HTTP 507); busy: the database stayed busy (HTTP 503, try again); field: the part of the request at fault */
+  | { ok: false; message: string; diskFull?: true; busy?: true; field?: "fileName" | "name" | "options" };
 
 /**
  * Imports a logger file and stores it, or refuses it as a whole: a file that cannot be imported
@@ -46,6 +47,7 @@ export async function importAndStoreTrace(bytes: Uint8Array, input: z.input<type
     if (isDiskFull(e)) {
       return { ok: false, diskFull: true, message: `${req.fileName}: the server's disk is full, so the trace could not be stored. Nothing was stored; free some space (or ask the administrator to) and upload it again.` };
     }
+    if (e instanceof StorageBusyError) return { ok: false, busy: true, message: `${req.fileName}: ${e.message}` };
     throw e;
   }
 }

@@ -1,6 +1,7 @@
 // `corelag verify` and the app's "verified at" line: storage checks, the chain and its signatures, every
 // row against its latest audit entry, an optional external anchor, and (CLI) re-running stored reviews.
 import { readRecordSnapshot } from "../db/recordSnapshot";
+export { postgresDatabaseProblem } from "../db/presence";
 import { loadSigningKey, SigningKeyError } from "../db/signingKey";
 import { lastRecordedAnchor, recordAnchor } from "../db/anchorLog";
 import { rotateSigningKey, sealUnsealedRows } from "../db/audit";
@@ -44,8 +45,8 @@ function localKey(): { fp: string | null; note?: string } {
 const validSignatures = new Set<string>();
 
 /** Checks the records without re-running the engine; `scope` limits the rows read (the chain is always read whole). */
-export function checkStoredRecords(opts: { scope?: ReadonlySet<string>; anchor?: Anchor; storageChecks?: boolean; now?: Date } = {}) {
-  const { snapshot, storage } = readRecordSnapshot({ scope: opts.scope, storageChecks: opts.storageChecks });
+export async function checkStoredRecords(opts: { scope?: ReadonlySet<string>; anchor?: Anchor; storageChecks?: boolean; now?: Date } = {}) {
+  const { snapshot, storage } = await readRecordSnapshot({ scope: opts.scope, storageChecks: opts.storageChecks });
   const local = localKey();
   if (validSignatures.size > 1_000_000) validSignatures.clear();
   const check = checkRecords(snapshot, { localKeyFingerprint: local.fp, validSignatures });
@@ -62,7 +63,7 @@ export function checkStoredRecords(opts: { scope?: ReadonlySet<string>; anchor?:
 
 /** The full check behind `corelag verify`: never throws on a damaged or tampered database; every problem is a finding. */
 export async function verifyRecords(opts: { reviewId?: string; anchor?: Anchor; reproduce?: boolean } = {}): Promise<VerifyReport> {
-  const r = checkStoredRecords({ anchor: opts.anchor });
+  const r = await checkStoredRecords({ anchor: opts.anchor });
   const findings = [...r.findings];
   const reviews: ReproductionCheck[] = [];
   if (opts.reproduce !== false) {
@@ -82,8 +83,8 @@ export async function verifyRecords(opts: { reviewId?: string; anchor?: Anchor; 
 }
 
 /** The head to keep outside the database; null with a reason when there is nothing signed to anchor. */
-export function currentAnchor(now = new Date()): { anchor: Anchor } | { anchor: null; reason: string; findings: Finding[] } {
-  const r = checkStoredRecords({ storageChecks: false, now });
+export async function currentAnchor(now = new Date()): Promise<{ anchor: Anchor } | { anchor: null; reason: string; findings: Finding[] }> {
+  const r = await checkStoredRecords({ storageChecks: false, now });
   const a = anchorOf(r.head, now);
   if (a) return { anchor: a };
   return { anchor: null, reason: r.head ? "the chain's newest entry is not signed by the key in force" : "the audit chain is empty", findings: r.findings };
@@ -98,15 +99,15 @@ export interface RecordVerification {
 }
 
 /** The app's per-review check: the chain and signatures whole, this review and its inputs against it. */
-export function verifyReviewRecord(ids: { reviewId: string; traceId: string; productId: string; packId?: string | null; limitsId: string }): RecordVerification {
+export async function verifyReviewRecord(ids: { reviewId: string; traceId: string; productId: string; packId?: string | null; limitsId: string }): Promise<RecordVerification> {
   const scope = new Set([ids.reviewId, ids.traceId, ids.productId, ids.limitsId, ...(ids.packId ? [ids.packId] : [])]);
-  const r = checkStoredRecords({ scope, storageChecks: false });
+  const r = await checkStoredRecords({ scope, storageChecks: false });
   return { ok: r.findings.length === 0, checked_at: r.checked_at, head: r.head, key: r.key, findings: r.findings };
 }
 
 /** `corelag anchor`: the current head, also noted in the local anchor log for the audit page. */
-export function takeAnchor(now = new Date()): ReturnType<typeof currentAnchor> {
-  const r = currentAnchor(now);
+export async function takeAnchor(now = new Date()): ReturnType<typeof currentAnchor> {
+  const r = await currentAnchor(now);
   if (r.anchor) recordAnchor(r.anchor);
   return r;
 }
@@ -144,7 +145,7 @@ export interface AnchorStatus {
 }
 
 /** The audit page's anchor line: the last anchor taken here, checked against the chain as it is now. */
-export function lastAnchorStatus(): AnchorStatus {
+export async function lastAnchorStatus(): Promise<AnchorStatus> {
   let anchor: Anchor | null = null;
   try {
     anchor = lastRecordedAnchor();
@@ -152,7 +153,7 @@ export function lastAnchorStatus(): AnchorStatus {
     anchor = null;
   }
   // no rows are read (empty scope): only the chain, its signatures and the anchor
-  const r = checkStoredRecords({ scope: new Set(), storageChecks: false, ...(anchor ? { anchor } : {}) });
+  const r = await checkStoredRecords({ scope: new Set(), storageChecks: false, ...(anchor ? { anchor } : {}) });
   const anchorFindings = r.findings.filter((f) => f.kind.startsWith("anchor-"));
   return { anchor, contained: anchor ? anchorFindings.length === 0 : null, findings: anchorFindings, head: r.head, key: r.key, checked_at: r.checked_at };
 }

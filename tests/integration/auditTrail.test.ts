@@ -3,11 +3,12 @@ import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { createHash } from "node:crypto";
+import { dropTriggerSql, testDatabaseUrl } from "../helpers/database";
 
 // What an auditor and a QA reviewer read back, on a real SQLite file: the audit log with names, links,
 // filters, pages and CSV; the original file; re-checks; findings with the sign-off; lists and attention.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-audit-"));
-const url = `file:${path.join(dir, "audit.db")}`;
+const url = testDatabaseUrl(dir, "audit.db");
 process.env.DATABASE_URL = url;
 const DEMO = path.join(__dirname, "../../public/demo");
 const sha = (b: Uint8Array | string) => createHash("sha256").update(b).digest("hex");
@@ -151,7 +152,7 @@ describe("re-check a review", () => {
     const changed = Buffer.from(otherBytes);
     changed[changed.length - 3] = changed[changed.length - 3] === 0x31 ? 0x32 : 0x31;
     // behind the application's back: drop the trigger that refuses changes to a trace, as a raw SQL client could
-    await db.$executeRawUnsafe(`DROP TRIGGER "Trace_no_update"`);
+    await db.$executeRawUnsafe(dropTriggerSql("Trace_no_update", "Trace"));
     await db.trace.update({ where: { id: ids.otherTraceId }, data: { original: new Uint8Array(changed) } });
     const out = await recheckReview(r.reviewId, "web");
     expect(out.ok && out.check.reproduced).toBe(false);

@@ -2,10 +2,11 @@ import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
+import { testDatabaseUrl } from "../helpers/database";
 
 // The server's calibration fit runs in the engine's worker pool and gives exactly the in-process fit.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-calpool-"));
-const url = `file:${path.join(dir, "cal.db")}`;
+const url = testDatabaseUrl(dir, "cal.db");
 process.env.DATABASE_URL = url;
 const DEMO = path.join(__dirname, "../../public/demo");
 

@@ -3,10 +3,11 @@ import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { spawnSync } from "node:child_process";
+import { testDatabaseUrl } from "../helpers/database";
 
 // The demo scenario loaded into a fresh SQLite file, as `npm start` does on first run.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-demo-"));
-const url = `file:${path.join(dir, "demo.db")}`;
+const url = testDatabaseUrl(dir, "demo.db");
 process.env.DATABASE_URL = url;
 
 beforeAll(async () => {

@@ -2,10 +2,11 @@ import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
+import { testDatabaseUrl } from "../helpers/database";
 
 // The demo as `npm start` loads it, then the sizing study the size page offers for it.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-demo-sizing-"));
-const url = `file:${path.join(dir, "demo.db")}`;
+const url = testDatabaseUrl(dir, "demo.db");
 process.env.DATABASE_URL = url;
 
 beforeAll(async () => {

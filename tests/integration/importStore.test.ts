@@ -2,10 +2,11 @@ import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
+import { testDatabaseUrl } from "../helpers/database";
 
 // Every refused file of the corpus goes through the storing path: nothing may be written.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-imp-"));
-const url = `file:${path.join(dir, "import.db")}`;
+const url = testDatabaseUrl(dir, "import.db");
 process.env.DATABASE_URL = url;
 const CORPUS = path.join(__dirname, "../fixtures/traces");
 const expected = JSON.parse(readFileSync(path.join(CORPUS, "expected.json"), "utf8")) as Record<string, { refused?: string }>;

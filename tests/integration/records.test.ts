@@ -4,10 +4,11 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { spawnSync } from "node:child_process";
 import { ENGINE_VERSION } from "@/lib/review/runReview";
+import { dropTriggerSql, testDatabaseUrl } from "../helpers/database";
 
 // Review records on a real SQLite file: sign-off, immutability, the audit chain and reproduction.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-rec-"));
-const url = `file:${path.join(dir, "records.db")}`;
+const url = testDatabaseUrl(dir, "records.db");
 process.env.DATABASE_URL = url;
 const ROOT = path.resolve(__dirname, "../..");
 const DEMO = path.join(ROOT, "public/demo");
@@ -151,7 +152,7 @@ describe("review records", () => {
   it("verify detects an audit entry changed behind the database's back", async () => {
     const { db } = await import("@/lib/db/client");
     // Someone with direct access to the file drops the guard and edits an entry.
-    await db.$executeRawUnsafe(`DROP TRIGGER "AuditEntry_no_update"`);
+    await db.$executeRawUnsafe(dropTriggerSql("AuditEntry_no_update", "AuditEntry"));
     await db.$executeRawUnsafe(`UPDATE "AuditEntry" SET "actor" = 'mallory' WHERE "seq" = 3`);
     const r = verifyCli();
     expect(r.code).toBe(1);

@@ -3,11 +3,12 @@ import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { createHash } from "node:crypto";
+import { testDatabaseUrl } from "../helpers/database";
 
 // A real SQLite file in a temporary folder, migrated with the committed migrations. The database
 // modules read DATABASE_URL when first imported, so they are imported after it is set.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-it-"));
-const url = `file:${path.join(dir, "test.db")}`;
+const url = testDatabaseUrl(dir, "test.db");
 process.env.DATABASE_URL = url;
 
 type Db = typeof import("@/lib/db");

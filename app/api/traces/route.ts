@@ -68,6 +68,6 @@ export async function POST(req: Request) {
   const name = form.get("name");
   const bytes = new Uint8Array(await file.arrayBuffer());
   const res = await importAndStoreTrace(bytes, { name: typeof name === "string" ? name : undefined, fileName: file.name, options: options.data });
-  if (!res.ok) return Response.json({ error: res.message, ...(res.field ? { field: res.field } : {}) }, { status: res.diskFull ? 507 : 422 });
+  if (!res.ok) return Response.json({ error: res.message, ...(res.field ? { field: res.field } : {}) }, { status: res.diskFull ? 507 : res.busy ? 503 : 422, ...(res.busy ? { headers: { "retry-after": "2" } } : {}) });
   return Response.json({ id: res.traceId }, { status: 201 });
 }

@@ -8,9 +8,9 @@ import { formatTime } from "@/lib/display/time";
  * compared with the signed audit chain as the page is rendered (no engine re-run; that is the re-check).
  * On the printed report it also states the chain's head at printing time, in full.
  */
-export function RecordVerified({ review, printing = false, zone = "UTC" }: { review: { id: string; traceId: string; productId: string; packId: string | null; limitsId: string }; printing?: boolean; zone?: string }) {
+export async function RecordVerified({ review, printing = false, zone = "UTC" }: { review: { id: string; traceId: string; productId: string; packId: string | null; limitsId: string }; printing?: boolean; zone?: string }) {
   const utc = (iso: string) => formatTime(iso, zone, { seconds: true });
-  const v = verifyReviewRecord({ reviewId: review.id, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId });
+  const v = await verifyReviewRecord({ reviewId: review.id, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId });
   const head = v.head;
   const key = head?.key_fingerprint ?? v.key.chain;
   const against = head ? <>chain head {head.seq}, key <code className="hash" title={key ?? undefined}>{key ? shortFingerprint(key) : "none"}</code></> : <>an empty chain</>;

@@ -1,0 +1,60 @@
+// verify's reader for PostgreSQL: one read-only REPEATABLE READ transaction (a consistent snapshot while
+// the app keeps writing), rows streamed table by table through the pg driver, not Prisma. PostgreSQL
+// enforces foreign keys itself and has no file-level integrity check to run from a client; page-level
+// checks are the server's business (pg_amcheck). Never throws: every problem is a finding.
+import pg from "pg";
+import type { Finding, SignatureRecord } from "../review/records";
+import { pgConnection } from "./pgAdapter";
+import { emptySnapshot, toDefinition, toEntry, toReview, toTrace, type Raw, type SnapshotOptions, type SnapshotRead } from "./recordSnapshot";
+
+const TIMESTAMP = 1114; // timestamp without time zone: Prisma stores UTC
+const parsers = {
+  getTypeParser: ((oid: number, format?: string) =>
+    oid === TIMESTAMP ? (v: string) => new Date(`${v.replace(" ", "T")}Z`) : pg.types.getTypeParser(oid, format as "text")) as typeof pg.types.getTypeParser,
+};
+
+export async function readPgSnapshot(url: string, opts: SnapshotOptions): Promise<SnapshotRead> {
+  const storage: Finding[] = [];
+  const snapshot = emptySnapshot();
+  if (opts.scope) snapshot.scope = opts.scope;
+  let client: pg.Client;
+  try {
+    client = new pg.Client({ ...pgConnection(url), types: parsers });
+    await client.connect();
+  } catch (e) {
+    storage.push({ kind: "storage-damaged", message: `the PostgreSQL database cannot be opened (${(e as Error).message})` });
+    return { snapshot, storage };
+  }
+  try {
+    await client.query("BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY");
+    const read = async <T>(table: string, sql: string, map: (r: Raw) => T, into: T[], params: unknown[] = []) => {
+      try {
+        for (const r of (await client.query(sql, params)).rows as Raw[]) {
+          try {
+            into.push(map(r));
+          } catch (e) {
+            storage.push({ kind: "table-unreadable", table, message: `${table}: a row cannot be read (${(e as Error).message})` });
+          }
+        }
+      } catch (e) {
+        snapshot.incompleteTables.push(table);
+        storage.push({ kind: "table-unreadable", table, message: `${table}: reading stopped after ${into.length} rows (${(e as Error).message})` });
+        await client.query("ROLLBACK").catch(() => undefined);
+        await client.query("BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY").catch(() => undefined);
+      }
+    };
+    // JSON columns are read as text and parsed like the SQLite reader does, so both compare the same values.
+    await read("AuditEntry", `SELECT "seq", "at", "action", "entity", "entityId", "actor", "details"::text AS "details", "prevHash", "hash" FROM "AuditEntry" ORDER BY "seq"`, toEntry, snapshot.entries);
+    await read("AuditSignature", `SELECT * FROM "AuditSignature" ORDER BY "seq"`, (r) => ({ seq: Number(r.seq), keyFingerprint: String(r.keyFingerprint), signature: String(r.signature) }) as SignatureRecord, snapshot.signatures);
+    const ids = opts.scope ? [...opts.scope] : null;
+    const where = ids ? ` WHERE "id" = ANY($1::text[])` : "";
+    const params = ids ? [ids] : [];
+    await read("Trace", `SELECT *, "importSettings"::text AS "importSettings", "warnings"::text AS "warnings" FROM "Trace"${where}`, toTrace, snapshot.traces, params);
+    await read("Definition", `SELECT *, "body"::text AS "body" FROM "Definition"${where}`, toDefinition, snapshot.definitions, params);
+    await read("Review", `SELECT *, "options"::text AS "options", "result"::text AS "result" FROM "Review"${where}`, toReview, snapshot.reviews, params);
+    await client.query("COMMIT");
+  } finally {
+    await client.end().catch(() => undefined);
+  }
+  return { snapshot, storage };
+}
