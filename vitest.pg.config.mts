@@ -14,6 +14,7 @@ export const POSTGRES_TESTS = [
   "tests/integration/calibrationPool.test.ts",
   "tests/integration/runs.test.ts",
   "tests/integration/concurrency.test.ts",
+  "tests/integration/crash.test.ts",
 ];
 
 export default defineConfig({

@@ -11,6 +11,8 @@ export interface RunningServer {
   url: string;
   output: () => string;
   stop: () => Promise<void>;
+  /** SIGKILL, as a crash or the OOM killer would; resolves when the process is gone */
+  kill: () => Promise<void>;
 }
 
 async function freePort(): Promise<number> {
@@ -61,9 +63,15 @@ export async function startServer(env: Record<string, string | undefined>, ready
     output: () => log,
     stop: () =>
       new Promise<void>((resolve) => {
-        if (child.exitCode !== null) return resolve();
+        if (child.exitCode !== null || child.signalCode !== null) return resolve();
         child.once("exit", () => resolve());
         child.kill("SIGTERM");
+      }),
+    kill: () =>
+      new Promise<void>((resolve) => {
+        if (child.exitCode !== null || child.signalCode !== null) return resolve();
+        child.once("exit", () => resolve());
+        child.kill("SIGKILL");
       }),
   };
 }
