@@ -15,6 +15,7 @@ export const POSTGRES_TESTS = [
   "tests/integration/runs.test.ts",
   "tests/integration/concurrency.test.ts",
   "tests/integration/crash.test.ts",
+  "tests/integration/backup.test.ts",
 ];
 
 export default defineConfig({

@@ -21,6 +21,8 @@ export const USAGE = `usage:
   corelag anchor                        (prints the chain head as one JSON line to keep outside the database)
   corelag key rotate                    (a new signing key, endorsed in the chain by the old one)
   corelag seal                          (once after upgrading: content hashes for rows recorded before them)
+  corelag backup --out FILE             (a consistent copy while the app runs: SQLite online backup, or pg_dump)
+  corelag restore FILE                  (a backup into the empty database DATABASE_URL names; then run verify)
   review also takes --uncertainty U.json (Monte Carlo: inputs, samples, seed, use_in_guard_band)`;
 
 export const IMPORT_FLAGS = {

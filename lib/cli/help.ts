@@ -65,6 +65,15 @@ this machine (mail it, print it, commit it elsewhere); corelag verify --anchor t
 --post also sends the line to the URL in CORELAG_ANCHOR_WEBHOOK (exit 1 if that fails); run it daily from cron.`,
   key: `corelag key rotate
 Makes a new signing key, records it in the audit chain signed by the outgoing key, and deletes the old private key.`,
+  backup: `corelag backup --out FILE
+A consistent copy of the database named by DATABASE_URL, taken while the app keeps running: SQLite's online backup
+API (the copy passes SQLite's integrity check before it is kept), or pg_dump's custom format for PostgreSQL (pg_dump
+must be installed). Never overwrites FILE. The signing key is not in the backup: keep the key file apart.
+Prints {database, out, bytes, sha256, head_seq}.`,
+  restore: `corelag restore FILE
+Restores a backup made by corelag backup into the database named by DATABASE_URL, which must be empty (a SQLite path
+that does not exist yet; a PostgreSQL database without tables, created when missing). All or nothing. Then run
+corelag verify on it, with the original's signing key (CORELAG_SIGNING_KEY_FILE).`,
   seal: `corelag seal
 Once after upgrading: records the content hash of every row whose audit entries were written before entries carried one.`,
 };
@@ -80,6 +89,8 @@ const SUMMARY: Record<string, string> = {
   anchor: "print the chain head as one JSON line to keep elsewhere",
   key: "rotate the audit signing key (key rotate)",
   seal: "record content hashes for rows written before they existed",
+  backup: "a consistent copy of the database while the app runs",
+  restore: "restore a backup into an empty database",
 };
 
 export const PROGRAM_HELP = `corelag: predicts product core temperature from cold-chain logger traces and judges it against your limits.

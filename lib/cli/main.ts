@@ -54,7 +54,8 @@ export async function runCli(args: string[]): Promise<number> {
   }
   try {
     if (records) {
-      await requireExistingDatabase();
+      // restore writes into an empty database, which is the one kind it must not refuse
+      if (command !== "restore") await requireExistingDatabase();
       // verify: exit 1 on any finding, the JSON lists each with its kind, row and audit entry.
       const r = await records(rest);
       process.stdout.write(r.stdout);

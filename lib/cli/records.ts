@@ -71,7 +71,38 @@ export async function sealCommand(argv: string[]): Promise<CommandResult> {
   return { stdout: JSON.stringify({ sealed: await sealRows("cli") }) + "\n", code: 0 };
 }
 
+/** `backup --out FILE`: a consistent copy while the app runs; prints what was written. */
+export async function backupCommand(argv: string[]): Promise<CommandResult> {
+  const { values } = parseArgs({ args: argv, options: { out: { type: "string" } }, strict: true });
+  if (!values.out) throw new RecordsUsageError("--out FILE is required: where to write the backup");
+  const { config } = await import("../config");
+  const { backupDatabase, BackupError } = await import("../services/verify");
+  try {
+    return { stdout: JSON.stringify(await backupDatabase(config().DATABASE_URL, values.out), null, 2) + "\n", code: 0 };
+  } catch (e) {
+    if (e instanceof BackupError) throw new RecordsUsageError(e.message);
+    throw e;
+  }
+}
+
+/** `restore FILE`: a backup into the empty database DATABASE_URL names; run verify on it afterwards. */
+export async function restoreCommand(argv: string[]): Promise<CommandResult> {
+  const { positionals } = parseArgs({ args: argv, options: {}, allowPositionals: true, strict: true });
+  if (positionals.length !== 1) throw new RecordsUsageError("usage: corelag restore FILE (into the empty database DATABASE_URL names)");
+  const { config } = await import("../config");
+  const { restoreDatabase, BackupError } = await import("../services/verify");
+  try {
+    const r = await restoreDatabase(config().DATABASE_URL, positionals[0]!);
+    return { stdout: JSON.stringify({ restored: true, ...r, next: "run corelag verify on the restored database (with the signing key of the original)" }, null, 2) + "\n", code: 0 };
+  } catch (e) {
+    if (e instanceof BackupError) throw new RecordsUsageError(e.message);
+    throw e;
+  }
+}
+
 export const RECORD_COMMANDS: Record<string, (argv: string[]) => Promise<CommandResult>> = {
+  backup: backupCommand,
+  restore: restoreCommand,
   verify: verifyCommand,
   anchor: anchorCommand,
   key: keyCommand,

@@ -1,4 +1,4 @@
-// The small part of better-sqlite3's API that the verify reader uses (the package ships no types).
+// The small part of better-sqlite3's API that the verify reader and backups use (the package ships no types).
 declare module "better-sqlite3" {
   namespace Database {
     interface Statement {
@@ -12,6 +12,8 @@ declare module "better-sqlite3" {
       prepare(sql: string): Statement;
       exec(sql: string): Database;
       close(): void;
+      /** SQLite's online backup API: copies the database to a file while others keep writing */
+      backup(destination: string, options?: { progress?: (p: { totalPages: number; remainingPages: number }) => number }): Promise<{ totalPages: number; remainingPages: number }>;
     }
   }
   interface DatabaseConstructor {

@@ -9,6 +9,7 @@ import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";
 import pg from "pg";
 import { pgConnection } from "./pgAdapter";
+import { createDatabaseIfMissing } from "./pgDatabase";
 
 export const PG_MIGRATIONS = path.resolve(__dirname, "..", "..", "prisma", "postgres", "migrations");
 /** Prisma's advisory lock key for migrations (so `prisma migrate` and this runner exclude each other). */
@@ -41,32 +42,6 @@ export function pgMigrations(dir = PG_MIGRATIONS): PgMigration[] {
       const sql = readFileSync(path.join(dir, name, "migration.sql"), "utf8");
       return { name, sql, checksum: createHash("sha256").update(sql).digest("hex") };
     });
-}
-
-/**
- * Creates the database the URL names when the server does not have it yet (as SQLite creates its file),
- * through the server's `postgres` database; the role needs CREATEDB, else the server's refusal is reported.
- */
-async function createDatabaseIfMissing(url: string): Promise<void> {
-  const conn = pgConnection(url);
-  const probe = new pg.Client(conn);
-  try {
-    await probe.connect();
-    return;
-  } catch (e) {
-    if ((e as { code?: string }).code !== "3D000") throw e; // 3D000: invalid_catalog_name, no such database
-  } finally {
-    await probe.end().catch(() => undefined);
-  }
-  const admin = new pg.Client({ ...conn, database: "postgres" });
-  await admin.connect();
-  try {
-    await admin.query(`CREATE DATABASE "${String(conn.database).replace(/"/g, '""')}"`);
-  } catch (e) {
-    if ((e as { code?: string }).code !== "42P04") throw new Error(`the database ${conn.database} does not exist and cannot be created: ${(e as Error).message}`); // 42P04: created meanwhile
-  } finally {
-    await admin.end();
-  }
 }
 
 /** Applies every migration not yet applied, in order; returns the names applied. Idempotent. */

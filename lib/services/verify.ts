@@ -2,6 +2,7 @@
 // row against its latest audit entry, an optional external anchor, and (CLI) re-running stored reviews.
 import { readRecordSnapshot } from "../db/recordSnapshot";
 export { postgresDatabaseProblem } from "../db/presence";
+export { backupDatabase, restoreDatabase, BackupError } from "../db/backup";
 import { loadSigningKey, SigningKeyError } from "../db/signingKey";
 import { lastRecordedAnchor, recordAnchor } from "../db/anchorLog";
 import { rotateSigningKey, sealUnsealedRows } from "../db/audit";
