@@ -78,15 +78,19 @@ async function auditWhere(f: AuditFilter) {
 /** Names and links for the objects of a batch of entries, in three queries whatever the batch size. */
 async function subjects(entries: ReadonlyArray<{ entity: string; entityId: string }>): Promise<Map<string, AuditSubject>> {
   const ids = (entity: string) => [...new Set(entries.filter((e) => e.entity === entity).map((e) => e.entityId))];
-  const [traces, defs, reviews] = await Promise.all([
+  const [traces, defs, reviews, monitors, alerts] = await Promise.all([
     db.trace.findMany({ where: { id: { in: ids("trace") } }, select: { id: true, name: true } }),
     db.definition.findMany({ where: { id: { in: ids("definition") } }, select: { id: true, name: true, kind: true, version: true } }),
     db.review.findMany({ where: { id: { in: ids("review") } }, select: { id: true, title: true } }),
+    db.monitor.findMany({ where: { id: { in: ids("monitor") } }, select: { id: true, name: true } }),
+    db.alert.findMany({ where: { id: { in: ids("alert") } }, select: { id: true, kind: true, monitorId: true, monitor: { select: { name: true } } } }),
   ]);
   const out = new Map<string, AuditSubject>();
   for (const t of traces) out.set(`trace:${t.id}`, { name: t.name, href: `/traces/${t.id}` });
   for (const d of defs) out.set(`definition:${d.id}`, { name: `${d.name} v${d.version}`, kind: d.kind, href: definitionHref(d.id) });
   for (const r of reviews) out.set(`review:${r.id}`, { name: r.title, href: `/reviews/${r.id}` });
+  for (const m of monitors) out.set(`monitor:${m.id}`, { name: m.name, href: `/monitors/${m.id}` });
+  for (const a of alerts) out.set(`alert:${a.id}`, { name: `${a.kind} alert, ${a.monitor.name}`, href: `/monitors/${a.monitorId}` });
   // a signing key is named by its fingerprint (the entry's id); it has no page
   for (const fp of ids("key")) out.set(`key:${fp}`, { name: `signing key ${fp.slice(0, 16)}…`, href: null });
   return out;

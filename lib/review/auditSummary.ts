@@ -25,6 +25,15 @@ export function auditSummary(action: string, details: unknown): string {
         const problems = Array.isArray(d.problems) ? d.problems.length : 0;
         return [d.reproduced === true ? "reproduced" : d.reproduced === false ? `${problems} problem(s)` : null];
       }
+      case "readings":
+        return [s("accepted") && `${s("accepted")} reading(s)`, d.duplicates ? `${s("duplicates")} duplicate(s)` : null, d.conflicts ? `${s("conflicts")} conflict(s)` : null, short(s("sha256")) && `SHA-256 ${short(s("sha256"))}`];
+      case "raise":
+      case "clear":
+        return [s("key")];
+      case "deliver":
+        return [s("channel") && s("target") && `${s("event")} by ${s("channel")} to ${s("target")}, attempt ${s("attempt")}: ${d.ok === true ? "delivered" : `failed${s("error") ? ` (${s("error")})` : ""}`}`];
+      case "close":
+        return [s("reviewId") && `review ${s("reviewId")}`];
       default:
         return [];
     }

@@ -101,6 +101,12 @@ describe("monitors: readings, alerts and webhooks (SQLite, local receiver)", () 
     const { createHash } = await import("node:crypto");
     const { listAudit } = await import("@/lib/db/audit");
     const entries = (await listAudit({ entityId: m.id })).filter((e) => e.action === "readings");
+    // the audit page names the monitor, links to it and sums up each batch
+    const { queryAudit } = await import("@/lib/db/auditQueries");
+    const { auditSummary } = await import("@/lib/review/auditSummary");
+    const page = await queryAudit({ object: m.id, action: "readings" });
+    expect(page.rows[0]!.subject).toEqual({ name: "Route 7 tote 3", href: `/monitors/${m.id}` });
+    expect(auditSummary("readings", page.rows[0]!.details)).toMatch(/^1 reading\(s\), 1 duplicate\(s\), 1 conflict\(s\), SHA-256 [0-9a-f]{12}…$/);
     expect(entries.map((e) => (e.details as { sha256: string }).sha256)).toEqual([createHash("sha256").update(json([{ t: iso(T0), air_C: 3 }, { t: "2026-06-09T08:10:00+02:00", air_C: 3.1 }])).digest("hex"), createHash("sha256").update(csv).digest("hex")]);
   });
 
