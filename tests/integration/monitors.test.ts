@@ -4,11 +4,12 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { createHmac } from "node:crypto";
 import { createServer, type Server } from "node:http";
+import { testDatabaseUrl } from "../helpers/database";
 
-// A real SQLite file, the real services, and a real HTTP receiver for the webhooks on a local port (3600–3699
+// A real database (SQLite here, PostgreSQL under npm run test:pg), the real services, and a real HTTP receiver for the webhooks on a local port (3600–3699
 // are this suite's). Retries are made fast through the configuration (30 s in production).
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-live-"));
-const url = `file:${path.join(dir, "test.db")}`;
+const url = testDatabaseUrl(dir, "test.db");
 process.env.DATABASE_URL = url;
 process.env.CORELAG_WEBHOOK_RETRY_BASE_S = "0.05";
 process.env.CORELAG_WEBHOOK_MAX_ATTEMPTS = "4";
@@ -71,7 +72,7 @@ async function newMonitor(extra: Record<string, unknown> = {}) {
   return out;
 }
 
-describe("monitors: readings, alerts and webhooks (SQLite, local receiver)", () => {
+describe("monitors: readings, alerts and webhooks (local receiver)", () => {
   it("refuses bad readings by index and stores nothing, unless partial acceptance is asked", async () => {
     const m = await newMonitor({ alert: { lead_min: 60 } });
     const body = json([{ t: iso(T0), air_C: 3 }, { t: "2026-06-09 06:05", air_C: 3 }, { t: iso(T0 + 600), air_C: "warm" }, { t: iso(T0 + 900), air_C: 3.2 }]);
