@@ -4,6 +4,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { createHmac } from "node:crypto";
 import { createServer, type Server } from "node:http";
+import { createServer as createTcpServer, type Server as TcpServer } from "node:net";
 import { testDatabaseUrl } from "../helpers/database";
 
 // A real database (SQLite here, PostgreSQL under npm run test:pg), the real services, and a real HTTP receiver for the webhooks on a local port (3600–3699
@@ -14,6 +15,9 @@ process.env.DATABASE_URL = url;
 process.env.CORELAG_WEBHOOK_RETRY_BASE_S = "0.05";
 process.env.CORELAG_WEBHOOK_MAX_ATTEMPTS = "4";
 const RECEIVER_PORT = 3611;
+const SMTP_PORT = 3612;
+process.env.CORELAG_SMTP_URL = `smtp://127.0.0.1:${SMTP_PORT}`;
+process.env.CORELAG_MAIL_FROM = "alerts@corelag.test";
 const DEMO = path.join(__dirname, "../../public/demo");
 
 type Monitors = typeof import("@/lib/services/monitors");
@@ -30,6 +34,44 @@ const received: Received[] = [];
 /** The receiver answers 500 to the first two attempts of each event, then 200. */
 const failuresLeft = new Map<string, number>();
 let receiver: Server;
+
+/** A minimal SMTP receiver (RFC 5321 commands, no TLS, no auth): keeps each message's envelope and data. */
+const mails: Array<{ from: string; to: string[]; data: string }> = [];
+let smtp: TcpServer;
+function startSmtp(): Promise<void> {
+  smtp = createTcpServer((sock) => {
+    let buf = "", inData = false, cur = { from: "", to: [] as string[], data: "" };
+    sock.write("220 test ESMTP\r\n");
+    sock.on("data", (d) => {
+      buf += d.toString("utf8");
+      for (;;) {
+        if (inData) {
+          const end = buf.indexOf("\r\n.\r\n");
+          if (end < 0) return;
+          cur.data = buf.slice(0, end);
+          buf = buf.slice(end + 5);
+          inData = false;
+          mails.push(cur);
+          cur = { from: "", to: [], data: "" };
+          sock.write("250 queued\r\n");
+          continue;
+        }
+        const nl = buf.indexOf("\r\n");
+        if (nl < 0) return;
+        const line = buf.slice(0, nl);
+        buf = buf.slice(nl + 2);
+        const cmd = line.slice(0, 4).toUpperCase();
+        if (cmd === "EHLO" || cmd === "HELO") sock.write("250 test\r\n");
+        else if (cmd === "MAIL") (cur.from = line), sock.write("250 ok\r\n");
+        else if (cmd === "RCPT") cur.to.push(line), sock.write("250 ok\r\n");
+        else if (cmd === "DATA") (inData = true), sock.write("354 go on\r\n");
+        else if (cmd === "QUIT") sock.end("221 bye\r\n");
+        else sock.write("250 ok\r\n");
+      }
+    });
+  });
+  return new Promise((r) => smtp.listen(SMTP_PORT, "127.0.0.1", () => r()));
+}
 
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
@@ -53,10 +95,12 @@ beforeAll(async () => {
     });
   });
   await new Promise<void>((r) => receiver.listen(RECEIVER_PORT, "127.0.0.1", () => r()));
+  await startSmtp();
 });
 
 afterAll(async () => {
   receiver?.close();
+  smtp?.close();
   const { db } = await import("@/lib/db/client");
   await db.$disconnect();
   rmSync(dir, { recursive: true, force: true });
@@ -152,6 +196,22 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
     expect(actions.filter((a) => a === "raise")).toHaveLength(1);
     expect(actions.filter((a) => a === "clear")).toHaveLength(1);
     expect(actions.filter((a) => a === "deliver")).toHaveLength(6);
+  });
+
+  it("e-mails an alert through the configured SMTP server (nodemailer), with the caution, and logs the attempt", async () => {
+    const m = await newMonitor({ name: "Route 9 tote 1", alert: { lead_min: 120, emails: ["qa@example.org"] } });
+    const rs = Array.from({ length: 13 }, (_, i) => ({ t: iso(T0 + i * 300), air_C: i < 12 ? 3 : 14 }));
+    expect((await svc.postReadings(m.id, json(rs), "application/json", false, "test")).ok).toBe(true);
+    const { deliveriesSettled } = await import("@/lib/services/alertDelivery");
+    await deliveriesSettled();
+    const mail = mails.find((x) => x.data.includes("Route 9 tote 1"))!;
+    expect(mail.from).toContain("alerts@corelag.test");
+    expect(mail.to).toEqual(["RCPT TO:<qa@example.org>"]);
+    expect(mail.data).toMatch(/Subject: Alert: Route 9 tote 1: limit forecast/);
+    expect(mail.data.replace(/=\r\n/g, "")).toContain("local regulations");
+    const { alertHistory } = await import("@/lib/db/monitors");
+    const email = (await alertHistory(m.id))[0]!.deliveries.filter((d) => d.channel === "email");
+    expect(email.map((d) => [d.target, d.attempt, d.ok])).toEqual([["qa@example.org", 1, true]]);
   });
 
   it("raises a stale alert on the injected clock, and clears it when readings come back", async () => {
