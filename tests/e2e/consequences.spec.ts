@@ -1,5 +1,13 @@
 import { test, expect } from "@playwright/test";
+import { execFileSync } from "node:child_process";
+import { readFileSync } from "node:fs";
 import path from "node:path";
+import { size } from "../../lib/design/sizing";
+import { parseVariable } from "../../lib/design/vary";
+import { profileSchema, profileSeries } from "../../lib/design/profile";
+import { packSchema, productSchema } from "../../lib/thermal/definitions";
+import { limitSetSchema } from "../../lib/exposure/limits";
+import { GROWTH_LIMITS, GROWTH_MODEL } from "./helpers/growthInputs";
 
 const DEMO = path.join(__dirname, "../../public/demo");
 
@@ -110,4 +118,37 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await page.getByTestId("uncertainty-json").fill('{"inputs": [{"path": "product.consequences.1.b_per_C_sqrt_h", "plusminus": 20, "percent": true}], "samples": 50, "seed": 3}');
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByTestId("uncertainty-summary")).toContainText(/lm-0\.1-log: \d+(\.\d)? %/);
+});
+
+test("sizing against a growth rule: the rule governs, and its log10 increase is plotted against the wall with its limit", async ({ page }) => {
+  const url = `file:${path.resolve("test-results", "e2e-db", "e2e.db")}`;
+  execFileSync(process.execPath, ["node_modules/tsx/dist/cli.mjs", "tests/e2e/helpers/seedGrowthDesign.ts"], { env: { ...process.env, DATABASE_URL: url }, stdio: "inherit" });
+  const S = " (growth e2e) v1";
+  await page.goto("/design/size");
+  await page.getByTestId("size-source").selectOption({ label: `profile: Example: summer multi-drop route, 2 days${S}` });
+  await page.getByTestId("size-product").selectOption({ label: `Ready meal tray 450 g (shaped)${S}` });
+  await page.getByTestId("size-pack").selectOption({ label: `EPS tote, 25 mm, with one gel pack (share per tray)${S}` });
+  await page.getByTestId("size-limits").selectOption({ label: `Growth only${S}` });
+  await page.getByRole("button", { name: "Use these" }).click();
+  await expect(page.getByTestId("size-variable").locator("option:checked")).toHaveText("EPS wall thickness, mm");
+  await expect(page.getByTestId("consequence-caution")).toContainText("must be validated for this product");
+  await page.getByRole("button", { name: "Find the boundary" }).click();
+  // the same search in Node on the same inputs: the browser's worker must agree to the 0.1 mm
+  const demo = (f: string) => JSON.parse(readFileSync(path.join(DEMO, f), "utf8"));
+  const expected = size({
+    series: profileSeries(profileSchema.parse(demo("summer-route.profile.json"))),
+    product: productSchema.parse({ ...demo("ready-meal-shaped.product.json"), consequences: [GROWTH_MODEL] }),
+    pack: packSchema.parse(demo("tote.pack.json")),
+    limits: limitSetSchema.parse(GROWTH_LIMITS),
+    variable: parseVariable("layer:1:thickness_m")!,
+    min: 0.001,
+    max: 0.15,
+  });
+  expect(expected.feasible).toBe(true);
+  await expect(page.getByTestId("size-headline")).toHaveText(`Smallest EPS wall thickness that passes every rule: ${(expected.value! * 1000).toFixed(1)} mm`);
+  await expect(page.getByTestId("size-reason")).toContainText("set by rule lm-0.3");
+  await expect(page.getByTestId("curve-y-label")).toHaveText("log10 increase of lm on the core, log10");
+  await expect(page.getByTestId("curve-limit-line")).toContainText("lm-0.3:≤ 0.3 log10");
+  await page.getByTestId("size-result").scrollIntoViewIfNeeded();
+  await page.screenshot({ path: "test-results/consequence-sizing.png", fullPage: true });
 });

@@ -3,7 +3,9 @@ import { listTraces, getTrace } from "@/lib/db/traces";
 import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
 import { profileSchema, profileSeries, type Profile } from "@/lib/design/profile";
 import { packSchema, productSchema } from "@/lib/thermal/definitions";
-import { limitSetSchema } from "@/lib/exposure/limits";
+import { unmatchedConsequenceRule } from "@/lib/exposure/consequenceRules";
+import { isConsequenceRule, limitSetSchema } from "@/lib/exposure/limits";
+import { CONSEQUENCE_CAUTIONS } from "@/lib/consequence/cautions";
 import { bridgeGaps } from "@/lib/trace/series";
 import { demoSizingQuery } from "@/lib/services/demo";
 import { DesignRunner } from "./DesignRunner";
@@ -38,6 +40,7 @@ export default async function SizePage({ searchParams }: { searchParams: Promise
     else if (!p?.success) problem = "that product does not exist";
     else if (!l?.success) problem = "that limit set does not exist";
     else if (l.data.rules.some((r) => r.channel === "probe")) problem = "design studies have no measured probe: choose a limit set without probe rules";
+    else if (unmatchedConsequenceRule(l.data, p.data.consequences ?? [])) problem = `${unmatchedConsequenceRule(l.data, p.data.consequences ?? [])!.message}: choose a product that has it, or a limit set without that rule`;
     else if (!k?.success && p.data.h_W_m2K === undefined) problem = "this product needs a pack (it has no surface coefficient of its own)";
     else setup = { t_s: Array.from(series.t_s), air_C: Array.from(series.air_C), product: p.data, pack: k?.success ? k.data : undefined, limits: l.data };
   }
@@ -68,6 +71,9 @@ export default async function SizePage({ searchParams }: { searchParams: Promise
         </form>
       </section>
       {problem && <p className="form-error" data-testid="size-problem">{problem}</p>}
+      {setup && setup.limits.rules.some(isConsequenceRule) && (
+        <p className="caution" data-testid="consequence-caution">Growth and shelf-life rules: {CONSEQUENCE_CAUTIONS.join(" ")}</p>
+      )}
       {setup && <DesignRunner key={`${q.source}|${q.product}|${q.pack}|${q.limits}`} {...setup} />}
     </>
   );
