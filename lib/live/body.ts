@@ -9,7 +9,10 @@ const MIN_C = -100, MAX_C = 200;
 const celsius = (what: string) => z.number({ error: `${what} must be a number (°C)` }).finite({ message: `${what} must be a finite number` }).min(MIN_C, { message: `${what} below ${MIN_C} °C is not a plausible reading` }).max(MAX_C, { message: `${what} above ${MAX_C} °C is not a plausible reading` });
 
 export const readingSchema = z.strictObject({
-  t: z.iso.datetime({ offset: true, message: "t must be an ISO 8601 date-time with Z or an offset, e.g. 2026-06-09T14:05:00+02:00" }),
+  t: z.iso
+    .datetime({ offset: true, message: "t must be an ISO 8601 date-time with Z or an offset, e.g. 2026-06-09T14:05:00+02:00" })
+    // as the importer: a date outside 1990–2100 is an unset logger clock, and closing the monitor would refuse it
+    .refine((t) => Date.parse(t) >= Date.UTC(1990, 0, 1) && Date.parse(t) < Date.UTC(2101, 0, 1), { message: "t is outside 1990–2100: is the logger's clock set?" }),
   air_C: celsius("air_C"),
   probe_C: celsius("probe_C").optional(),
 });

@@ -33,6 +33,9 @@ export type CreateMonitorInput = z.input<typeof createMonitorSchema>;
 
 export type CreateMonitorOutcome = { ok: true; id: string; device_token: string } | { ok: false; field: string; message: string };
 
+/** Readings may carry times up to this far ahead of the server's clock (clocks drift; zones get mixed up), s. */
+export const FUTURE_TOLERANCE_S = 24 * 3600;
+
 const hashToken = (token: string) => createHash("sha256").update(token, "utf8").digest("hex");
 
 /** Creates a monitor; the device token is returned once and only its hash is kept. */
@@ -170,9 +173,15 @@ export async function postReadings(id: string, body: Uint8Array, contentType: st
   const sha256 = sha256Hex(body);
   return withMonitor(id, async () => {
     const entry = await liveEntry(id);
-    const { valid } = parsed.parsed;
-    const outcomes = entry.live.classify(valid.map((v) => v.reading));
+    // a reading from the future would push the late window ahead and make every true reading "too late"
+    const latest_s = now().getTime() / 1000 + FUTURE_TOLERANCE_S;
     const refused = [...parsed.parsed.refused];
+    const valid = parsed.parsed.valid.filter((v) => {
+      if (v.reading.t_s <= latest_s) return true;
+      refused.push({ index: v.index, reason: `t is more than ${FUTURE_TOLERANCE_S / 3600} h ahead of the server's clock: is the logger's clock set?` });
+      return false;
+    });
+    const outcomes = entry.live.classify(valid.map((v) => v.reading));
     const conflicts: Array<{ index: number; t: string; reason: string }> = [];
     let duplicates = 0;
     const accepted: typeof valid = [];

@@ -119,12 +119,14 @@ async function newMonitor(extra: Record<string, unknown> = {}) {
 describe("monitors: readings, alerts and webhooks (local receiver)", () => {
   it("refuses bad readings by index and stores nothing, unless partial acceptance is asked", async () => {
     const m = await newMonitor({ alert: { lead_min: 60 } });
-    const body = json([{ t: iso(T0), air_C: 3 }, { t: "2026-06-09 06:05", air_C: 3 }, { t: iso(T0 + 600), air_C: "warm" }, { t: iso(T0 + 900), air_C: 3.2 }]);
+    const body = json([{ t: iso(T0), air_C: 3 }, { t: "2026-06-09 06:05", air_C: 3 }, { t: iso(T0 + 600), air_C: "warm" }, { t: iso(T0 + 900), air_C: 3.2 }, { t: "2099-01-01T00:00:00Z", air_C: 3 }, { t: "1970-01-01T00:00:00Z", air_C: 3 }]);
     const refused = await svc.postReadings(m.id, body, "application/json", false, "test");
     expect(refused.ok).toBe(false);
     if (refused.ok) return;
     expect(refused.status).toBe(422);
-    expect(refused.refused!.map((r) => r.index)).toEqual([1, 2]);
+    expect(refused.refused!.map((r) => r.index)).toEqual([1, 2, 4, 5]);
+    expect(refused.refused![2]!.reason).toMatch(/ahead of the server's clock/);
+    expect(refused.refused![3]!.reason).toMatch(/outside 1990–2100/);
     expect(refused.refused![0]!.reason).toMatch(/^t must be an ISO 8601 date-time/);
     expect(refused.refused![1]!.reason).toMatch(/^air_C must be a number/);
     const { monitorReadings } = await import("@/lib/db/monitors");
