@@ -10,6 +10,7 @@ import { benchImport } from "./import";
 import { benchDesign } from "./design";
 import { benchCli } from "./cli";
 import { benchWeb } from "./web";
+import { benchDatabases } from "./databases";
 import { benchBox } from "./multiD";
 import { benchConsequence } from "./consequence";
 import { benchLive } from "./live";
@@ -85,7 +86,9 @@ benchLive();
 benchDesign();
 benchConsequence();
 benchCli();
-benchWeb().catch((e: unknown) => {
-  console.error(`web benchmark failed: ${e instanceof Error ? e.message : String(e)}`);
-  process.exitCode = 1;
-});
+benchWeb()
+  .then(() => benchDatabases())
+  .catch((e: unknown) => {
+    console.error(`web benchmark failed: ${e instanceof Error ? e.message : String(e)}`);
+    process.exitCode = 1;
+  });
