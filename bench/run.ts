@@ -14,6 +14,7 @@ import { benchDatabases } from "./databases";
 import { benchBox } from "./multiD";
 import { benchConsequence } from "./consequence";
 import { benchLive } from "./live";
+import { benchHistory } from "./history";
 
 
 function best<T>(runs: number, fn: () => T): { ms: number; value: T } {
@@ -83,6 +84,7 @@ benchTimeBeyond();
 benchSphere();
 benchBox();
 benchLive();
+benchHistory();
 benchDesign();
 benchConsequence();
 benchCli();

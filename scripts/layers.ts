@@ -4,7 +4,7 @@
 //
 //   app/ → lib/services → lib/db → engine          (lib/cli sits beside app/: services and engine)
 //   lib/config (environment and .env, validated) is read by db, services and cli
-//   engine, lowest first: trace < thermal < exposure < uncertainty < review < design, and live (monitors) beside design; consequence (growth and
+//   engine, lowest first: trace < thermal < exposure < uncertainty < review < design < shipment, and live (monitors) beside design; consequence (growth and
 //   shelf-life models on a temperature history, and their schemas) imports no other lib folder and sits below
 //   thermal, whose product schema carries its models; display (charts, times and
 //   numbers as shown) and access (roles, permissions, actors) stand alone and import no other lib folder
@@ -24,6 +24,7 @@ export const ENGINE_LAYERS: Record<string, string[]> = {
   access: [],
   design: ["trace", "thermal", "exposure", "uncertainty", "review", "consequence"],
   live: ["trace", "thermal", "exposure", "uncertainty", "review", "consequence"],
+  shipment: ["trace", "thermal", "exposure", "uncertainty", "review", "design", "consequence"],
 };
 const ENGINE = Object.keys(ENGINE_LAYERS);
 

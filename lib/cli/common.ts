@@ -17,6 +17,8 @@ export const USAGE = `usage:
   corelag calibrate --trace FILE [--air-col NAME] [--product-col NAME] [--product P.json] [--pack K.json] [--fit-initial] [--fit-offset] [--mismatch-factor F] [import options] --format json
   corelag size --profile FILE(.csv|.json) --product P.json --pack K.json --limits L.json --vary layer:N:thickness_m|coolant:N:mass_kg|product:initial_C --min X --max Y [--model M] --format json
   corelag simulate --monitor ID --trace FILE --speed 600 [--url http://127.0.0.1:3000] --token T [--quiet] [import options]   (replays a file's rows as live readings)
+  corelag shipment review --manifest M.json [--model M] [import options] --format json
+  corelag profile from-traces FILE... --percentile P --step-min M [--align departure|time-of-day] [--smooth-steps N] [--name NAME] [import options] --format json
   corelag verify [--review ID] [--anchor FILE_OR_JSON] [--json]   (storage, audit chain, signatures, every row against the chain, re-runs stored reviews; exit 1 on any finding; uses DATABASE_URL)
   corelag anchor                        (prints the chain head as one JSON line to keep outside the database)
   corelag key rotate                    (a new signing key, endorsed in the chain by the old one)

@@ -52,6 +52,25 @@ Replays a trace file's rows as live readings to a monitor (POST /api/v1/monitors
 Progress goes to stderr; at the end prints JSON with the readings sent, accepted, duplicates and conflicts.
 
 ${IMPORT_OPTIONS}`,
+  shipment: `corelag shipment review --manifest M.json [--model auto|lumped|conduction] [import options] --format json
+Reviews every logger × product of a shipment and gives the shipment an outcome. The manifest (paths relative to it):
+  {"reference", "lane"?, "limits": "L.json", "loggers": [{"trace": "FILE", "position"?, "serial"?,
+   "products": [{"product": "P.json", "pack": "K.json"?, "governing"?: true}]}]}
+A product is governed by the logger marked governing, else by the worst of the loggers covering it; the shipment is
+rejected if any governing review rejects, held if any holds, accepted only if all accept. Every trace is imported
+first: a refused file stops the command, naming the file, row and column.
+
+${IMPORT_OPTIONS}`,
+  profile: `corelag profile from-traces FILE... --percentile P --step-min M [--align departure|time-of-day] [--smooth-steps N]
+                         [--name NAME] [import options] --format json
+Builds a design profile from several air traces: aligned by time since departure (the first sample) or by time of
+day (midnight in --tz, default UTC), resampled on a grid of M minutes by linear interpolation over the span all traces
+cover, and at each step the P-th percentile across the traces (numpy's default linear definition), optionally
+smoothed by a centred moving average over N steps (odd). Prints the stored profile format with percentile, step_min
+and sources added, ready for size --profile. A per-step percentile is not the history of any real shipment and is more
+severe than most of them.
+
+${IMPORT_OPTIONS}`,
   verify: `corelag verify [--review ID] [--anchor FILE_OR_JSON] [--json]
 Checks the database file (integrity check, foreign keys), the audit chain and its Ed25519 signatures, every trace,
 definition and review against the content hash its latest audit entry recorded (and every entry against its row),
@@ -85,6 +104,8 @@ const SUMMARY: Record<string, string> = {
   calibrate: "fit the time constant to a probe test",
   size: "size insulation or coolant against a profile and a limit set",
   simulate: "replay a trace file as live readings to a monitor",
+  shipment: "review a shipment: every logger × product, and the shipment's outcome",
+  profile: "build a design profile from several air traces at a percentile per time step",
   verify: "check the database, the signed audit chain, every record against it; re-run reviews",
   anchor: "print the chain head as one JSON line to keep elsewhere",
   key: "rotate the audit signing key (key rotate)",

@@ -39,6 +39,8 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
   calibrate: async () => (await import("./commands/calibrate")).calibrateCommand,
   size: async () => (await import("./commands/size")).sizeCommand,
   simulate: async () => (await import("./commands/simulate")).simulateCommand,
+  shipment: async () => (await import("./commands/shipment")).shipmentCommand,
+  profile: async () => (await import("./commands/profile")).profileCommand,
 };
 
 /** Runs one command; returns the exit code (0 done, 1 verify found a problem, 2 bad input, 3 unexpected failure). */

@@ -9,6 +9,8 @@ const celsius = (what: string) => quantity(what, "°C", -60, 80);
 
 /** Caps: segments in one list, nesting of repeats, segments after expanding every repeat, samples. */
 export const MAX_SEGMENTS = 200;
+/** The top-level list may be longer: a profile learned from history has one ramp per grid step (5,000 = 3.5 days at 1 min). */
+export const MAX_TOP_SEGMENTS = 5000;
 export const MAX_DEPTH = 5;
 export const MAX_EXPANDED_SEGMENTS = 100_000;
 const MAX_SAMPLES = 2_000_000;
@@ -30,6 +32,17 @@ export const segmentSchema: z.ZodType<Segment> = z.lazy(() =>
   ], { error: "segment kind must be hold, ramp or repeat" }),
 );
 
+/** One trace a history profile was built from. */
+function historySourceSchema() {
+  return strictObject({
+    file: z.string().trim().min(1).max(300),
+    sha256: z.string().regex(/^[0-9a-f]{64}$/, { message: "sha256 must be 64 lowercase hex digits" }),
+    shipment: z.string().trim().min(1).max(120).optional(),
+    trace_id: z.string().trim().min(1).max(60).optional(),
+    position: z.string().trim().max(120).optional(),
+  });
+}
+
 /**
  * A design ambient profile built from segments: hold at a temperature, ramp to one, or repeat a
  * block. Sampled every interval_s from start. A hold jumps to its temperature at its start.
@@ -39,7 +52,13 @@ export const profileSchema = strictObject({
   start: z.iso.datetime({ offset: true, message: "start must be an ISO 8601 date-time with Z or an offset" }).default("2026-07-01T00:00:00Z"),
   interval_s: quantity("interval_s", "s", 10, 3600).int({ message: "interval_s must be a whole number of seconds" }).default(60),
   initial_C: celsius("initial_C"),
-  segments: capped(segmentSchema, "segments", MAX_SEGMENTS, 1),
+  segments: capped(segmentSchema, "segments", MAX_TOP_SEGMENTS, 1),
+  /** provenance of a profile learned from history (lib/shipment/historyProfile.ts): the percentile taken per step */
+  percentile: quantity("percentile", "", 0, 100).optional(),
+  /** the grid step of that profile, min */
+  step_min: quantity("step_min", "min", 0.1, 1440).optional(),
+  /** the traces it was built from: file name and SHA-256 of the original bytes, and where stored, the shipment and trace */
+  sources: capped(historySourceSchema(), "sources", 1000, 1).optional(),
 }).superRefine((p, ctx) => {
   const size = profileSize(p.segments);
   if (size.depth > MAX_DEPTH) ctx.addIssue({ code: "custom", path: ["segments"], message: `repeats may be nested at most ${MAX_DEPTH} deep` });

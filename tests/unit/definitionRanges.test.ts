@@ -3,7 +3,7 @@ import { readFileSync, readdirSync } from "node:fs";
 import path from "node:path";
 import { productSchema, packSchema, MAX_COOLANTS, MAX_LAYERS, type Product } from "@/lib/thermal/definitions";
 import { limitSetSchema, MAX_RULES } from "@/lib/exposure/limits";
-import { profileSchema, MAX_SEGMENTS, MAX_EXPANDED_SEGMENTS } from "@/lib/design/profile";
+import { profileSchema, MAX_SEGMENTS, MAX_TOP_SEGMENTS, MAX_EXPANDED_SEGMENTS } from "@/lib/design/profile";
 import { uncertaintySpecSchema } from "@/lib/uncertainty";
 import { tryRunReview } from "@/lib/review";
 
@@ -87,7 +87,9 @@ describe("definition schemas: counts are capped", () => {
   });
   it("profileSchema refuses too many segments in a list and repeats that expand beyond the cap", () => {
     const hold = { kind: "hold", C: 4, duration_min: 1 };
-    expect(issues(profileSchema.safeParse({ name: "p", initial_C: 4, segments: Array(MAX_SEGMENTS + 1).fill(hold) }))).toContainEqual(["segments", "at most 200 segments are allowed"]);
+    expect(issues(profileSchema.safeParse({ name: "p", initial_C: 4, segments: Array(MAX_TOP_SEGMENTS + 1).fill(hold) }))).toContainEqual(["segments", "at most 5000 segments are allowed"]);
+    // a repeat's own list keeps the smaller cap
+    expect(issues(profileSchema.safeParse({ name: "p", initial_C: 4, segments: [{ kind: "repeat", count: 1, segments: Array(MAX_SEGMENTS + 1).fill(hold) }] }))).toContainEqual(["segments.0.segments", "at most 200 segments are allowed"]);
     // 1000 × 1000 holds of 0.1 min: 10⁶ segments (> 10⁵) although only 69 days long
     const nested = { kind: "repeat", count: 1000, segments: [{ kind: "repeat", count: 1000, segments: [{ ...hold, duration_min: 0.1 }] }] };
     expect(issues(profileSchema.safeParse({ name: "p", initial_C: 4, segments: [nested] }))).toContainEqual(["segments", `the repeats expand to 1,000,000 segments; at most ${MAX_EXPANDED_SEGMENTS.toLocaleString("en")} are allowed`]);

@@ -1,0 +1,5 @@
+export * from "./manifest";
+export * from "./outcome";
+export * from "./register";
+export * from "./matching";
+export * from "./historyProfile";
