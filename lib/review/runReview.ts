@@ -44,6 +44,12 @@ export interface ReviewOptions {
   uncertainty?: UncertaintySpec;
   /** channels to apply the product's growth and shelf-life models to, besides the core (and those the rules name) */
   consequence_channels?: Channel[];
+  /**
+   * The logger this trace came from, as the logger register states it (issue 15): its accuracy, K, is the
+   * rules' sensor accuracy when the limit set states none; a calibration due before the shipment date
+   * makes the outcome at best hold.
+   */
+  logger?: { serial: string; accuracy_K?: number; calibration_due?: string; shipment_date?: string };
 }
 
 export interface ReviewInput {
@@ -198,6 +204,18 @@ export interface RuleJudgement {
   b: number;
 }
 
+/** The limit set with the logger's stated accuracy where the set states none. */
+function limitsWithLogger(limits: LimitSet, logger: ReviewOptions["logger"]): LimitSet {
+  return limits.sensor_accuracy_K === undefined && logger?.accuracy_K !== undefined ? { ...limits, sensor_accuracy_K: logger.accuracy_K } : limits;
+}
+
+/** A caution and the outcome cap when the logger's calibration was due before the shipment date. */
+function calibrationCheck(logger: ReviewOptions["logger"]): string | null {
+  if (!logger?.calibration_due || !logger.shipment_date) return null;
+  if (!(Date.parse(logger.calibration_due) < Date.parse(logger.shipment_date))) return null;
+  return `Logger ${logger.serial} was due for calibration on ${logger.calibration_due.slice(0, 10)}, before the shipment date ${logger.shipment_date.slice(0, 10)}: its readings are not covered by a current calibration, so the outcome is at best hold.`;
+}
+
 /**
  * The threshold rules over a trace and its predicted channels, as a review judges them: air bridged across
  * gaps (uncertain there), modelled channels uncertain for GAP_MEMORY_TAUS·tau after a gap, the probe on its
@@ -242,8 +260,10 @@ export function judgeRules(series: TraceSeries, air: Float64Array, pred: { core:
 }
 
 export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewComputation {
-  const { series, product, pack, limits } = input;
+  const { series, product, pack } = input;
   const options = input.options ?? { model: "auto" };
+  const limits = limitsWithLogger(input.limits, options.logger);
+  const overdue = calibrationCheck(options.logger);
   const air = bridgeGaps(series);
   const pred = predict(product, pack, series.t_s, air, { model: options.model });
   const tau = pred.screening.tau_s;
@@ -307,9 +327,15 @@ export function runReview(input: ReviewInput, hooks: ReviewHooks = {}): ReviewCo
       : {}),
     ...(cons ? { consequences: cons.results } : {}),
     ...(cons && cons.rules.length > 0 ? { consequence_rules: cons.rules } : {}),
-    outcome: overallOutcome([...findings, ...(cons?.rules ?? [])]),
+    outcome: overdue && overallOutcome([...findings, ...(cons?.rules ?? [])]) === "accept" ? "hold" : overallOutcome([...findings, ...(cons?.rules ?? [])]),
     // what the model assumed that the reader must know (estimated freezing point, coolant treatment, 1-D shortcut)
-    cautions: [...CAUTIONS, ...pred.screening.notes, ...(cons ? CONSEQUENCE_CAUTIONS : [])],
+    cautions: [
+      ...CAUTIONS,
+      ...pred.screening.notes,
+      ...(cons ? CONSEQUENCE_CAUTIONS : []),
+      ...(limits !== input.limits ? [`The sensor accuracy, ±${limits.sensor_accuracy_K} K, is the stated accuracy of logger ${options.logger!.serial} in the logger register (the limit set states none).`] : []),
+      ...(overdue ? [overdue] : []),
+    ],
   };
   return { result, core_C: pred.core, surface_C: pred.surface, mean_C: pred.mean, coolant_C: pred.coolant, airBridged_C: air };
 }

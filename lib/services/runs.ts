@@ -10,8 +10,12 @@ import { prepareReview, storeReview, type RunReviewRequest } from "./reviews";
 
 export interface RunState {
   id: string;
-  kind: "review";
+  kind: "review" | "shipment";
   title: string;
+  /** a shipment run: the shipment, and how many of its logger × product reviews are done of how many */
+  shipmentId?: string;
+  done?: number;
+  total?: number;
   status: "running" | "done" | "failed" | "cancelled";
   /** fraction of the Monte Carlo samples done (0 to 1); 0 for a run without Monte Carlo until it ends */
   progress: number;
@@ -87,6 +91,37 @@ export async function startReviewRun(request: RunReviewRequest, actor: string): 
     }
   })();
   return { ok: true, run: publicState(run) };
+}
+
+/** What a shipment run's job gets: the abort signal and a way to report progress. */
+export interface RunContext {
+  signal: AbortSignal;
+  setProgress: (done: number, total: number) => void;
+}
+
+/**
+ * Starts a shipment review in the background: `job` runs each logger × product review in the pool (so a
+ * cancel ends its worker) and stores the results at the end; the run is followed like a review run.
+ */
+export function startShipmentRun(shipmentId: string, title: string, total: number, actor: string, job: (ctx: RunContext) => Promise<{ ok: true } | { ok: false; message: string }>): RunState {
+  forgetOldRuns();
+  const controller = new AbortController();
+  const run: Run = { id: randomUUID(), kind: "shipment", title, shipmentId, done: 0, total, status: "running", progress: 0, started_at: new Date().toISOString(), controller, finished: Promise.resolve() };
+  runs.set(run.id, run);
+  const end = (status: RunState["status"], extra: Partial<RunState> = {}) => Object.assign(run, { status, finished_at: new Date().toISOString() }, extra);
+  run.finished = (async () => {
+    try {
+      const r = await job({ signal: controller.signal, setProgress: (done, n) => Object.assign(run, { done, total: n, progress: n > 0 ? done / n : 0 }) });
+      if (controller.signal.aborted) throw controller.signal.reason;
+      if (!r.ok) return void end("failed", { message: r.message });
+      end("done", { progress: 1 });
+    } catch (e) {
+      if (!controller.signal.aborted) return void end("failed", { message: e instanceof Error ? e.message : String(e) });
+      await logRunCancelled(run.id, actor, { kind: run.kind, title: run.title, progress: Number(run.progress.toFixed(3)), requested_at: run.started_at });
+      end("cancelled");
+    }
+  })();
+  return publicState(run);
 }
 
 /** Finished runs are kept for an hour, for the page that follows them. */

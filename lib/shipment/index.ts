@@ -3,3 +3,4 @@ export * from "./outcome";
 export * from "./register";
 export * from "./matching";
 export * from "./historyProfile";
+export * from "./content";

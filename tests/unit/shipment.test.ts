@@ -5,7 +5,8 @@ import { mkdtempSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { combineShipment, worstExcursions, manifestSchema, calibrationOverdue, capForCalibration, limitsForLogger, type ReviewSummary } from "@/lib/shipment";
+import { combineShipment, worstExcursions, manifestSchema, calibrationOverdue, loggerReviewOption, type ReviewSummary } from "@/lib/shipment";
+import { runReview } from "@/lib/review";
 import { shipmentCommand } from "@/lib/cli/commands/shipment";
 import { reviewCommand } from "@/lib/cli/commands/review";
 import { CliError } from "@/lib/cli/common";
@@ -65,19 +66,40 @@ describe("manifest", () => {
 });
 
 describe("logger register in a review", () => {
-  const limits = { name: "l", rules: [{ id: "r", channel: "air" as const, above_C: 8 }] };
-  it("the logger's accuracy stands in only where the limit set has none", () => {
-    expect(limitsForLogger(limits, { serial: "S", accuracy_K: 0.3 })).toEqual({ limits: { ...limits, sensor_accuracy_K: 0.3 }, accuracy_from: "logger" });
-    expect(limitsForLogger({ ...limits, sensor_accuracy_K: 0.5 }, { serial: "S", accuracy_K: 0.3 }).limits.sensor_accuracy_K).toBe(0.5);
-    expect(limitsForLogger(limits, null).accuracy_from).toBe("none");
+  // A 2-min air trace at 3 °C with 100 min at 8.3 °C, judged by air rules with no allowance (any time beyond
+  // the threshold fails): the guard band decides, by construction, whether 8.3 °C counts as beyond.
+  const t_s = Float64Array.from({ length: 181 }, (_, i) => 1_780_000_000 + 120 * i);
+  const air_C = Float64Array.from({ length: 181 }, (_, i) => (i >= 60 && i < 110 ? 8.3 : 3));
+  const tray = { name: "t", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 };
+  const guardRule = { name: "l", rules: [{ id: "air-8.5", channel: "air" as const, above_C: 8.5 }] };
+  const run = (limits: typeof guardRule & { sensor_accuracy_K?: number }, logger?: Parameters<typeof loggerReviewOption>[0], shipment_s = t_s[0]!) =>
+    runReview({ series: { t_s, air_C }, product: tray, limits, options: { model: "auto", ...(logger ? { logger: loggerReviewOption(logger, shipment_s) } : {}) } }).result;
+
+  it("the logger's stated accuracy becomes the guard band when the limit set states none", () => {
+    // 8.3 °C never exceeds 8.5 °C: a pass without a guard band; with ±0.3 K the strict threshold 8.2 °C is
+    // exceeded and the lenient 8.8 °C is not: inconclusive, so hold.
+    expect(run(guardRule).rules[0]).toMatchObject({ status: "pass", guard_K: 0 });
+    const withLogger = run(guardRule, { serial: "SN-1", accuracy_K: 0.3 });
+    expect(withLogger.rules[0]).toMatchObject({ status: "inconclusive", guard_K: 0.3 });
+    expect(withLogger.outcome).toBe("hold");
+    expect(withLogger.cautions.some((c) => c.includes("±0.3 K") && c.includes("SN-1"))).toBe(true);
+    // the limit set's own accuracy wins
+    expect(run({ ...guardRule, sensor_accuracy_K: 0.1 }, { serial: "SN-1", accuracy_K: 0.3 }).rules[0]).toMatchObject({ status: "pass", guard_K: 0.1 });
   });
-  it("an overdue calibration caps accept at hold", () => {
-    const due = Date.parse("2026-06-01T00:00:00Z") / 1000;
-    expect(calibrationOverdue({ serial: "S", accuracy_K: 0.3, nextCalibration_s: due }, due + 86400)).toBe(true);
-    expect(calibrationOverdue({ serial: "S", accuracy_K: 0.3, nextCalibration_s: due }, due - 86400)).toBe(false);
-    expect(capForCalibration("accept", true)).toBe("hold");
-    expect(capForCalibration("reject", true)).toBe("reject");
-    expect(capForCalibration("accept", false)).toBe("accept");
+
+  it("a calibration overdue on the shipment date makes the outcome at best hold", () => {
+    const due = t_s[0]! - 86400;
+    const passing = { name: "l", rules: [{ id: "air-10", channel: "air" as const, above_C: 10 }] };
+    expect(run(passing, { serial: "SN-2", accuracy_K: 0.1, nextCalibration_s: due + 2 * 86400 }).outcome).toBe("accept");
+    const overdue = run(passing, { serial: "SN-2", accuracy_K: 0.1, nextCalibration_s: due });
+    expect(overdue.rules[0]!.status).toBe("pass");
+    expect(overdue.outcome).toBe("hold");
+    expect(overdue.cautions.some((c) => c.includes("SN-2 was due for calibration"))).toBe(true);
+    // a reject stays a reject
+    const failing = { name: "l", rules: [{ id: "air-5", channel: "air" as const, above_C: 5 }] };
+    expect(run(failing, { serial: "SN-2", accuracy_K: 0.1, nextCalibration_s: due }).outcome).toBe("reject");
+    expect(calibrationOverdue({ serial: "S", accuracy_K: 0.3, nextCalibration_s: due }, due + 1)).toBe(true);
+    expect(calibrationOverdue({ serial: "S", accuracy_K: 0.3, nextCalibration_s: null }, due + 1)).toBe(false);
   });
 });
 

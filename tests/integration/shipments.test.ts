@@ -1,0 +1,205 @@
+// Shipments through the real services on a real SQLite file (issue 15): batch import of a folder and of a
+// zip with good and refused files, matching by serial and by file name, the logger register's accuracy
+// in the guard band, an overdue calibration capping the outcome, the shipment review in the engine pool,
+// and the one sign-off. Data: the invented 8-logger load of tests/fixtures/shipment.ts.
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, mkdirSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { zipSync } from "fflate";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { loggerCsv, LIMITS, TRAY, CUP } from "../fixtures/shipment";
+
+const dir = mkdtempSync(path.join(tmpdir(), "corelag-ship-int-"));
+const url = `file:${path.join(dir, "ship.db")}`;
+process.env.DATABASE_URL = url;
+
+const ids = { limits: "", tray: "", cup: "" };
+
+beforeAll(async () => {
+  const { migrateDatabase } = await import("@/lib/db/migrate");
+  migrateDatabase(url);
+  const { createDefinition } = await import("@/lib/db/definitions");
+  ids.limits = (await createDefinition("limits", LIMITS)).id;
+  ids.tray = (await createDefinition("product", TRAY)).id;
+  ids.cup = (await createDefinition("product", CUP)).id;
+});
+
+afterAll(async () => {
+  const { closeEnginePool } = await import("@/lib/services/enginePool");
+  await closeEnginePool();
+  const { db } = await import("@/lib/db/client");
+  await db.$disconnect();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+/** A folder of logger files: two with registered-style serials, one matched by its name, one refused. */
+function writeFolder(folder: string): void {
+  mkdirSync(folder, { recursive: true });
+  writeFileSync(path.join(folder, "a.csv"), loggerCsv(1)); // serial SN-1001
+  writeFileSync(path.join(folder, "b.csv"), loggerCsv(2)); // serial SN-1002
+  writeFileSync(path.join(folder, "truck-middle-top.csv"), loggerCsv(3, { serial: "SN-9999" })); // a serial no entry names
+  // row 6 holds a reading that is not a number: refused, naming row and column
+  const bad = loggerCsv(5).split("\n");
+  bad[5] = bad[5]!.replace(/,3\.0$/, ",warm");
+  writeFileSync(path.join(folder, "rear-top.csv"), bad.join("\n"));
+}
+
+async function newShipment(reference: string): Promise<string> {
+  const { createShipmentFromForm } = await import("@/lib/services/shipments");
+  const r = await createShipmentFromForm(
+    { reference, newLaneName: "North depot → City store", newLaneOrigin: "North depot", newLaneDestination: "City store", limitsId: ids.limits, actualDepartureAt: "2026-06-16T04:00:00Z" },
+    [
+      { position: "front top", serial: "SN-1001", products: [{ productId: ids.tray }, { productId: ids.cup }] },
+      { position: "front bottom", serial: "SN-1002", products: [{ productId: ids.tray }, { productId: ids.cup, governing: true }] },
+      { position: "middle top", fileNamePattern: "*middle-top*.csv", products: [{ productId: ids.tray }] },
+      { position: "rear top", fileNamePattern: "rear-*.csv", products: [{ productId: ids.tray }] },
+    ],
+    "test",
+  );
+  if (!r.ok) throw new Error(r.message);
+  return r.shipmentId;
+}
+
+const filesOf = (folder: string) => readdirSync(folder).sort().map((name) => ({ name, bytes: new Uint8Array(readFileSync(path.join(folder, name))) }));
+
+describe("batch import onto a shipment", () => {
+  it("a folder: preview with matching by serial and by file name; good files stored, the refused one named and stored nothing", async () => {
+    const { previewBatch, storeBatch } = await import("@/lib/services/batch");
+    const { getShipment } = await import("@/lib/db/shipments");
+    const { db } = await import("@/lib/db/client");
+    const shipmentId = await newShipment("FOLDER-1");
+    const shipment = (await getShipment(shipmentId))!;
+    const entry = (pos: string) => shipment.loggers.find((l) => l.position === pos)!.id;
+    const folder = path.join(dir, "folder");
+    writeFolder(folder);
+    const files = filesOf(folder);
+
+    const preview = await previewBatch(shipmentId, files);
+    if ("error" in preview) throw new Error(preview.error);
+    const row = (f: string) => preview.rows.find((r) => r.file === f)!;
+    expect(row("a.csv")).toMatchObject({ ok: true, serial: "SN-1001", samples: 361, start: "2026-06-16T04:00:00.000Z", end: "2026-06-16T16:00:00.000Z", match: { target: entry("front top"), by: "serial" }, unregistered: true });
+    expect(row("b.csv").match).toEqual({ file: "b.csv", target: entry("front bottom"), by: "serial" });
+    expect(row("truck-middle-top.csv").match).toEqual({ file: "truck-middle-top.csv", target: entry("middle top"), by: "file-name" });
+    expect(row("rear-top.csv")).toMatchObject({ ok: false, match: { target: entry("rear top"), by: "file-name" } });
+    // the fifth data row: metadata lines 1–3 and the header on line 4, so the file's line 6
+    expect(row("rear-top.csv").refusal).toMatchObject({ row: 6, column: "Air (°C)" });
+    expect(row("a.csv").channels!.map((c) => c.role)).toEqual(["air"]);
+
+    const tracesBefore = await db.trace.count();
+    const auditBefore = await db.auditEntry.count();
+    const stored = await storeBatch(shipmentId, files, {
+      matches: preview.rows.map((r) => ({ file: r.file, shipmentLoggerId: r.match.target })),
+      register: [{ serial: "SN-1001", accuracyK: 0.2 }, { serial: "SN-1002", accuracyK: 0.2 }, { serial: "SN-9999", accuracyK: 0.5 }],
+    }, "test");
+    if (!stored.ok) throw new Error(stored.message);
+    expect(stored.result.stored.map((s) => s.file).sort()).toEqual(["a.csv", "b.csv", "truck-middle-top.csv"]);
+    expect(stored.result.refused).toEqual([expect.objectContaining({ file: "rear-top.csv", row: 6, column: "Air (°C)" })]);
+    expect(stored.result.registered.sort()).toEqual(["SN-1001", "SN-1002", "SN-9999"]);
+    expect(await db.trace.count()).toBe(tracesBefore + 3);
+    expect(await db.trace.count({ where: { fileName: "rear-top.csv" } })).toBe(0);
+    // nothing in the audit log names the refused file
+    const entries = await db.auditEntry.findMany({ where: { seq: { gt: auditBefore } } });
+    expect(entries.some((e) => JSON.stringify(e.details).includes("rear-top.csv"))).toBe(false);
+    const after = (await getShipment(shipmentId))!;
+    expect(after.loggers.map((l) => l.traceId !== null)).toEqual([true, true, true, false]);
+  });
+
+  it("a zip: the same, unzipped with size limits; a file matched by name is stored", async () => {
+    const { previewBatch, storeBatch, expandUploads, BatchError } = await import("@/lib/services/batch");
+    const { db } = await import("@/lib/db/client");
+    const shipmentId = await newShipment("ZIP-1");
+    const folder = path.join(dir, "folder");
+    const good = loggerCsv(5, { serial: "SN-1005" });
+    const zip = zipSync({
+      "load/a.csv": new TextEncoder().encode(loggerCsv(1)),
+      "load/b.csv": new TextEncoder().encode(loggerCsv(2)),
+      "load/bad/truck-middle-top.csv": new Uint8Array(readFileSync(path.join(folder, "rear-top.csv"))), // refused, matched by name
+      "load/rear-2.csv": new TextEncoder().encode(good),
+      "__MACOSX/load/._a.csv": new Uint8Array([0, 1, 2]),
+    });
+    const files = [{ name: "load.zip", bytes: zip }];
+    expect(expandUploads(files).map((f) => f.name).sort()).toEqual(["a.csv", "b.csv", "rear-2.csv", "truck-middle-top.csv"]);
+    expect(() => expandUploads([{ name: "x.zip", bytes: new Uint8Array([1, 2, 3]) }])).toThrow(BatchError);
+    const preview = await previewBatch(shipmentId, files);
+    if ("error" in preview) throw new Error(preview.error);
+    // SN-1001 and SN-1002 are registered by now (first test); SN-1005 is not
+    expect(preview.rows.find((r) => r.file === "a.csv")!.unregistered).toBe(false);
+    expect(preview.rows.find((r) => r.file === "rear-2.csv")).toMatchObject({ ok: true, serial: "SN-1005", unregistered: true, match: { by: "file-name" } });
+    const before = await db.trace.count();
+    // without the accuracy of the new serial, its file is refused (asked once), the others are stored
+    const first = await storeBatch(shipmentId, files, { matches: preview.rows.map((r) => ({ file: r.file, shipmentLoggerId: r.match.target })) }, "test");
+    if (!first.ok) throw new Error(first.message);
+    expect(first.result.refused.map((r) => r.file).sort()).toEqual(["rear-2.csv", "truck-middle-top.csv"]);
+    expect(first.result.refused.find((r) => r.file === "rear-2.csv")!.message).toMatch(/SN-1005 is not in the logger register/);
+    expect(await db.trace.count()).toBe(before + 2);
+  });
+
+  it("refuses a zip that would unpack beyond the limit before inflating it", async () => {
+    const { expandUploads, MAX_ZIP_ENTRY_BYTES } = await import("@/lib/services/batch");
+    // 51 MB of zeros compresses to about 50 kB
+    const zip = zipSync({ "big.csv": new Uint8Array(MAX_ZIP_ENTRY_BYTES + 1024 * 1024) });
+    expect(() => expandUploads([{ name: "bomb.zip", bytes: zip }])).toThrow(/unpacks to 51 MB; at most 50 MB per file/);
+  });
+});
+
+async function waitRun(id: string) {
+  const { waitForRun } = await import("@/lib/services/runs");
+  const r = await waitForRun(id, 120_000);
+  if (r?.status !== "done") throw new Error(`run ${r?.status}: ${r?.message}`);
+  return r;
+}
+
+describe("logger register in a shipment review", () => {
+  it("the register's accuracy is the guard band; an overdue calibration makes the outcome at best hold; one sign-off signs all", async () => {
+    const { createShipmentFromForm, registerLogger, startShipmentReview, signOffShipment } = await import("@/lib/services/shipments");
+    const { storeBatch } = await import("@/lib/services/batch");
+    const { getShipment } = await import("@/lib/db/shipments");
+    const { getReview } = await import("@/lib/db/reviews");
+    // logger 6: 30 min at 6 °C, far inside every limit: accept, unless the calibration is overdue
+    expect((await registerLogger({ serial: "SN-1006", description: "rear bottom", accuracyK: 0.4, lastCalibrationAt: "2025-05-01T00:00Z", nextCalibrationAt: "2026-06-01T00:00Z" }, "test")).ok).toBe(true);
+    expect((await registerLogger({ serial: "SN-1007", description: "tote 7", accuracyK: 0.3, nextCalibrationAt: "2027-01-01T00:00Z" }, "test")).ok).toBe(true);
+    const made = await createShipmentFromForm({ reference: "REG-1", limitsId: ids.limits, actualDepartureAt: "2026-06-16T04:00Z" }, [
+      { position: "rear bottom", serial: "SN-1006", products: [{ productId: ids.tray }] },
+      { position: "tote 7", serial: "SN-1007", products: [{ productId: ids.tray }] },
+    ], "test");
+    if (!made.ok) throw new Error(made.message);
+    const s = (await getShipment(made.shipmentId))!;
+    const stored = await storeBatch(made.shipmentId, [{ name: "l6.csv", bytes: new TextEncoder().encode(loggerCsv(6)) }, { name: "l7.csv", bytes: new TextEncoder().encode(loggerCsv(7)) }], {
+      matches: [{ file: "l6.csv", shipmentLoggerId: s.loggers[0]!.id }, { file: "l7.csv", shipmentLoggerId: s.loggers[1]!.id }],
+    }, "test");
+    expect(stored.ok && stored.result.stored.length).toBe(2);
+
+    const started = await startShipmentReview(made.shipmentId, "test");
+    if (!started.ok) throw new Error(started.message);
+    const run = await waitRun(started.run.id);
+    expect(run).toMatchObject({ done: 2, total: 2, progress: 1, kind: "shipment" });
+    const after = (await getShipment(made.shipmentId))!;
+    expect(after.reviews).toHaveLength(2);
+    const r6 = (await getReview(after.reviews[0]!.reviewId))!;
+    const r7 = (await getReview(after.reviews[1]!.reviewId))!;
+    // the limit set states no accuracy: every rule's guard band is the register's accuracy
+    expect(r6.result.rules.map((r) => r.guard_K)).toEqual([0.4, 0.4, 0.4]);
+    expect(r7.result.rules.map((r) => r.guard_K)).toEqual([0.3, 0.3, 0.3]);
+    // every rule passes on both, but SN-1006 was due on 2026-06-01, before the departure on 2026-06-16
+    expect(r6.result.rules.every((r) => r.status === "pass")).toBe(true);
+    expect(r6.outcome).toBe("hold");
+    expect(r6.result.cautions.some((c) => c.includes("SN-1006 was due for calibration on 2026-06-01"))).toBe(true);
+    expect(r7.outcome).toBe("accept");
+    expect(after.outcome).toBe("hold");
+
+    // a decision other than the suggestion needs a comment; then one sign-off signs the shipment and both reviews
+    expect(await signOffShipment(made.shipmentId, { reviewer: "Test Reviewer", decision: "accept" })).toMatchObject({ ok: false, reason: "comment-required" });
+    expect(await signOffShipment(made.shipmentId, { reviewer: "Test Reviewer", decision: "hold", comment: "recalibrate SN-1006" })).toEqual({ ok: true });
+    const signed = (await getShipment(made.shipmentId))!;
+    expect(signed).toMatchObject({ status: "signed", decision: "hold", signedBy: "Test Reviewer" });
+    for (const l of signed.reviews) expect(l.review).toMatchObject({ status: "signed", decision: "hold" });
+    // the database keeps it final
+    const { db } = await import("@/lib/db/client");
+    await expect(db.shipment.update({ where: { id: made.shipmentId }, data: { notes: "changed" } })).rejects.toThrow();
+    await expect(db.shipmentReview.deleteMany({ where: { shipmentId: made.shipmentId } })).rejects.toThrow();
+    expect((await getShipment(made.shipmentId))!.notes).toBeNull();
+    // the stored reviews reproduce (the logger option is part of their stored options)
+    const { verifyStoredReview } = await import("@/lib/services/reviews");
+    expect((await verifyStoredReview(r6.id)).reproduced).toBe(true);
+  });
+});
