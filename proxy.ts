@@ -17,7 +17,8 @@ export function proxy(req: NextRequest): NextResponse {
   const length = Number(req.headers.get("content-length"));
   if (!Number.isFinite(length)) return NextResponse.next();
   const isAction = req.headers.has("next-action");
-  const limit = isAction ? ACTION_BODY_LIMIT_BYTES : req.nextUrl.pathname === "/api/traces" ? UPLOAD_BODY_LIMIT_BYTES : undefined;
+  const isUpload = req.nextUrl.pathname === "/api/traces" || /^\/api\/shipments\/[^/]+\/batch$/.test(req.nextUrl.pathname);
+  const limit = isAction ? ACTION_BODY_LIMIT_BYTES : isUpload ? UPLOAD_BODY_LIMIT_BYTES : undefined;
   if (limit === undefined || length <= limit) return NextResponse.next();
   const what = isAction ? "form" : "upload";
   return NextResponse.json(

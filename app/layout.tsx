@@ -18,12 +18,14 @@ export default async function RootLayout({ children }: { children: React.ReactNo
           <Link href="/" className="brand">Corelag</Link>
           <nav aria-label="Main">
             <Link href="/">Reviews</Link>
+            <Link href="/shipments">Shipments</Link>
             <Link href="/traces">Traces</Link>
             <Link href="/products">Products</Link>
             <Link href="/packs">Packs</Link>
             <Link href="/limits">Limit sets</Link>
             <Link href="/design">Design</Link>
             <Link href="/monitors" data-testid="nav-monitors">Monitors <AlertBadge /></Link>
+            <Link href="/loggers">Loggers</Link>
             <Link href="/audit">Audit log</Link>
           </nav>
           <ZonePicker chosen={await chosenZone()} />

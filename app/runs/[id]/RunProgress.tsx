@@ -14,6 +14,7 @@ export function RunProgress({ initial }: { initial: RunState }) {
   useEffect(() => {
     if (run.status !== "running") {
       if (run.status === "done" && run.reviewId) router.replace(`/reviews/${run.reviewId}`);
+      if (run.status === "done" && run.kind === "shipment" && run.shipmentId) router.replace(`/shipments/${run.shipmentId}`);
       return;
     }
     const timer = setTimeout(async () => {
@@ -42,15 +43,21 @@ export function RunProgress({ initial }: { initial: RunState }) {
     <section data-testid="run-state" data-status={run.status}>
       {run.status === "running" && (
         <>
-          <p>
-            <progress max={100} value={percent} aria-label="Monte Carlo samples done" /> {percent} % of the Monte Carlo samples
-          </p>
+          {run.kind === "shipment" ? (
+            <p data-testid="shipment-progress">
+              <progress max={run.total ?? 1} value={run.done ?? 0} aria-label="Reviews done" /> {run.done ?? 0} of {run.total} logger × product reviews done
+            </p>
+          ) : (
+            <p>
+              <progress max={100} value={percent} aria-label="Monte Carlo samples done" /> {percent} % of the Monte Carlo samples
+            </p>
+          )}
           <button type="button" onClick={cancel} disabled={cancelling}>
             {cancelling ? "Cancelling…" : "Cancel this run"}
           </button>
         </>
       )}
-      {run.status === "done" && <p>Done: opening the review…</p>}
+      {run.status === "done" && <p>Done: opening the {run.kind === "shipment" ? "shipment" : "review"}…</p>}
       {run.status === "cancelled" && <p>Cancelled. Nothing was stored; the audit log records the cancellation.</p>}
       {run.status === "failed" && <p className="error">The run failed and stored nothing: {run.message}</p>}
       {error && <p className="error">{error}</p>}
