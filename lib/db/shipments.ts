@@ -6,7 +6,7 @@ import { appendAudit, type Tx } from "./audit";
 import { shipmentRowContentHash } from "../shipment/content";
 import { reviewContentHash } from "../review/content";
 import type { Outcome } from "../exposure/rules";
-import { DEFAULT_SIGN_MEANING } from "./reviews";
+import { COMMENT_REQUIRED_MESSAGE, DEFAULT_SIGN_MEANING, MIN_DIFFERING_COMMENT_CHARS } from "./reviews";
 
 export interface ShipmentProductEntry {
   productId: string;
@@ -143,10 +143,7 @@ export async function attachTraces(shipmentId: string, links: ReadonlyArray<{ sh
 /** The outcome of a shipment review run and the reviews it stands on, in one transaction. */
 export async function recordShipmentRun(shipmentId: string, runId: string, links: ReadonlyArray<{ shipmentLoggerId: string; productId: string; reviewId: string }>, outcome: Outcome, result: unknown, actor: string) {
   return db.$transaction(async (tx) => {
-    for (const l of links) {
-      const link = await tx.shipmentReview.create({ data: { shipmentId, runId, ...l } });
-      void link;
-    }
+    for (const l of links) await tx.shipmentReview.create({ data: { shipmentId, runId, ...l } });
     // exact JSON text (Prisma's Json write rounds some doubles; see insertDefinition)
     await tx.$executeRaw`UPDATE "Shipment" SET "outcome" = ${outcome}, "result" = ${JSON.stringify(result)} WHERE "id" = ${shipmentId}`;
     const row = await tx.shipment.findUniqueOrThrow({ where: { id: shipmentId } });
@@ -161,13 +158,13 @@ export type ShipmentSignOutcome = { ok: true } | { ok: false; reason: "not-found
  * transaction, each with its own audit entry. Each review records the shipment's decision, with a comment
  * naming the shipment (and the review's own suggestion when it differs), so every review says why.
  */
-export async function signShipment(id: string, s: { reviewer: string; decision: Outcome; comment?: string; meaning?: string; minComment: number; commentRequiredMessage: string }): Promise<ShipmentSignOutcome> {
+export async function signShipment(id: string, s: { reviewer: string; decision: Outcome; comment?: string; meaning?: string }): Promise<ShipmentSignOutcome> {
   return db.$transaction(async (tx) => {
     const row = await tx.shipment.findUnique({ where: { id } });
     if (!row) return { ok: false, reason: "not-found", message: "that shipment does not exist" };
     if (row.status === "signed") return { ok: false, reason: "signed", message: "this shipment is already signed off" };
     if (!row.outcome) return { ok: false, reason: "not-run", message: "run the shipment review before signing it off" };
-    if (s.decision !== row.outcome && (s.comment ?? "").trim().length < s.minComment) return { ok: false, reason: "comment-required", message: s.commentRequiredMessage };
+    if (s.decision !== row.outcome && (s.comment ?? "").trim().length < MIN_DIFFERING_COMMENT_CHARS) return { ok: false, reason: "comment-required", message: COMMENT_REQUIRED_MESSAGE };
     const links = await latestRunLinks(tx, id);
     const signedAt = new Date();
     const meaning = s.meaning ?? `${DEFAULT_SIGN_MEANING}, for shipment ${row.reference} as a whole`;

@@ -8,7 +8,6 @@ import { combineShipment, worstExcursions, loggerReviewOption, calibrationOverdu
 import { serialFromMetadata } from "../shipment/matching";
 import { getDefinition } from "../db/definitions";
 import { getTrace } from "../db/traces";
-import { COMMENT_REQUIRED_MESSAGE, MIN_DIFFERING_COMMENT_CHARS } from "../db/reviews";
 import {
   addShipmentLoggers, createLane, createLogger, createShipment, getShipment, laneByName, loggersBySerial, newRunId, recordShipmentRun, signShipment, updateLogger,
   type ShipmentLoggerInput,
@@ -273,5 +272,5 @@ export async function startShipmentReview(shipmentId: string, actor: string): Pr
 /** One sign-off for the shipment and every review of its latest run (the sign-off rules of a review apply to the shipment's outcome). */
 export async function signOffShipment(shipmentId: string, input: z.input<typeof signOffSchema>) {
   const s = signOffSchema.parse(input);
-  return signShipment(shipmentId, { reviewer: s.reviewer, decision: s.decision, comment: s.comment || undefined, minComment: MIN_DIFFERING_COMMENT_CHARS, commentRequiredMessage: COMMENT_REQUIRED_MESSAGE });
+  return signShipment(shipmentId, { reviewer: s.reviewer, decision: s.decision, comment: s.comment || undefined });
 }
