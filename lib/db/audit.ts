@@ -11,7 +11,7 @@ export type Tx = Prisma.TransactionClient;
 export interface AuditEvent {
   action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel" | "readings" | "raise" | "clear" | "deliver" | "close";
   /** "run": a background run that stored nothing (cancelled); its entityId is the run's id */
-  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger";
+  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview";
   entityId: string;
   /** who did it: the reviewer's name at sign-off, "web" or "cli" otherwise (there are no accounts yet) */
   actor: string;

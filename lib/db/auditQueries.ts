@@ -3,7 +3,7 @@ import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import { actorsContaining, idsContaining, plainPrefix, SEARCH_MATCH_CAP } from "./textSearch";
 import type { AuditEntryRecord } from "../review/audit";
 
-export const AUDIT_ENTITIES = ["trace", "definition", "review", "key", "monitor", "alert", "shipment", "lane", "logger"] as const;
+export const AUDIT_ENTITIES = ["trace", "definition", "review", "key", "monitor", "alert", "shipment", "shipmentLogger", "shipmentReview", "lane", "logger"] as const;
 export const AUDIT_ACTIONS = ["import", "create", "edit", "run", "sign", "rename", "export", "verify", "key", "seal", "readings", "raise", "clear", "deliver", "close"] as const;
 
 export interface AuditFilter {
@@ -78,7 +78,7 @@ async function auditWhere(f: AuditFilter) {
 /** Names and links for the objects of a batch of entries, in three queries whatever the batch size. */
 async function subjects(entries: ReadonlyArray<{ entity: string; entityId: string }>): Promise<Map<string, AuditSubject>> {
   const ids = (entity: string) => [...new Set(entries.filter((e) => e.entity === entity).map((e) => e.entityId))];
-  const [traces, defs, reviews, monitors, alerts, shipments, lanes, loggers] = await Promise.all([
+  const [traces, defs, reviews, monitors, alerts, shipments, lanes, loggers, shipmentLoggers, shipmentReviews] = await Promise.all([
     db.trace.findMany({ where: { id: { in: ids("trace") } }, select: { id: true, name: true } }),
     db.definition.findMany({ where: { id: { in: ids("definition") } }, select: { id: true, name: true, kind: true, version: true } }),
     db.review.findMany({ where: { id: { in: ids("review") } }, select: { id: true, title: true } }),
@@ -87,6 +87,8 @@ async function subjects(entries: ReadonlyArray<{ entity: string; entityId: strin
     db.shipment.findMany({ where: { id: { in: ids("shipment") } }, select: { id: true, reference: true } }),
     db.lane.findMany({ where: { id: { in: ids("lane") } }, select: { id: true, name: true } }),
     db.logger.findMany({ where: { id: { in: ids("logger") } }, select: { id: true, serial: true } }),
+    db.shipmentLogger.findMany({ where: { id: { in: ids("shipmentLogger") } }, select: { id: true, shipmentId: true, ordinal: true, position: true } }),
+    db.shipmentReview.findMany({ where: { id: { in: ids("shipmentReview") } }, select: { id: true, shipmentId: true, reviewId: true } }),
   ]);
   const out = new Map<string, AuditSubject>();
   for (const t of traces) out.set(`trace:${t.id}`, { name: t.name, href: `/traces/${t.id}` });
@@ -97,6 +99,8 @@ async function subjects(entries: ReadonlyArray<{ entity: string; entityId: strin
   for (const s of shipments) out.set(`shipment:${s.id}`, { name: `shipment ${s.reference}`, href: `/shipments/${s.id}` });
   for (const l of lanes) out.set(`lane:${l.id}`, { name: `lane ${l.name}`, href: `/lanes/${l.id}` });
   for (const l of loggers) out.set(`logger:${l.id}`, { name: `logger ${l.serial}`, href: "/loggers" });
+  for (const l of shipmentLoggers) out.set(`shipmentLogger:${l.id}`, { name: `shipment logger ${l.ordinal} (${l.position})`, href: `/shipments/${l.shipmentId}` });
+  for (const l of shipmentReviews) out.set(`shipmentReview:${l.id}`, { name: `shipment review of ${l.reviewId.slice(0, 8)}…`, href: `/shipments/${l.shipmentId}` });
   // a signing key is named by its fingerprint (the entry's id); it has no page
   for (const fp of ids("key")) out.set(`key:${fp}`, { name: `signing key ${fp.slice(0, 16)}…`, href: null });
   return out;

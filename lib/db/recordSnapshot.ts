@@ -5,7 +5,7 @@
 import Database from "better-sqlite3";
 import { existsSync } from "node:fs";
 import type { AuditEntryRecord } from "../review/audit";
-import type { DefinitionRowContent, ReviewRowContent, TraceRowContent } from "../review/content";
+import { SHIPMENT_TABLES, type DefinitionRowContent, type ReviewRowContent, type ShipmentTable, type TraceRowContent } from "../review/content";
 import type { Finding, RecordSnapshot, SignatureRecord } from "../review/records";
 import { databaseFile, databaseKind, databaseUrl } from "./env";
 import { readPgSnapshot } from "./recordSnapshotPg";
@@ -51,6 +51,18 @@ export function toReview(r: Raw): ReviewRowContent {
     signedAt: r.signedAt === null || r.signedAt === undefined ? null : when(r.signedAt), decision: strOrNull(r.decision), signComment: strOrNull(r.signComment),
     signMeaning: strOrNull(r.signMeaning), correctsId: strOrNull(r.correctsId), createdAt: when(r.createdAt),
   };
+}
+
+/** A shipment-table row as Prisma returns it: dates as instants, JSON parsed, REAL as numbers. */
+function toShipmentRow(table: ShipmentTable, r: Raw): { table: ShipmentTable; row: Record<string, unknown> & { id: string } } {
+  const spec = SHIPMENT_TABLES[table];
+  const row: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(r)) {
+    if ((spec.dates as readonly string[]).includes(k)) row[k] = v === null || v === undefined ? null : when(v);
+    else if ((spec.json as readonly string[]).includes(k)) row[k] = v === null || v === undefined ? null : json(v);
+    else row[k] = v;
+  }
+  return { table, row: { ...row, id: str(r.id) } };
 }
 
 export interface SnapshotRead {
@@ -154,6 +166,18 @@ function readSqliteSnapshot(opts: SnapshotOptions): SnapshotRead {
     read("Trace", `SELECT * FROM "Trace"${where}`, toTrace, snapshot.traces, ids ?? []);
     read("Definition", `SELECT * FROM "Definition"${where}`, toDefinition, snapshot.definitions, ids ?? []);
     read("Review", `SELECT * FROM "Review"${where}`, toReview, snapshot.reviews, ids ?? []);
+    // the shipment tables (absent from a database older than migration 20261202100000_shipments)
+    let tables = new Set<string>();
+    try {
+      tables = new Set(conn.prepare(`SELECT name FROM sqlite_master WHERE type = 'table'`).pluck().all() as string[]);
+    } catch (e) {
+      storage.push({ kind: "table-unreadable", table: "sqlite_master", message: `the list of tables cannot be read (${(e as Error).message}); the shipment tables were not checked` });
+    }
+    snapshot.shipmentRows = [];
+    for (const table of Object.keys(SHIPMENT_TABLES) as ShipmentTable[]) {
+      if (!tables.has(table)) continue;
+      read(table, `SELECT * FROM "${table}"${where}`, (r) => toShipmentRow(table, r), snapshot.shipmentRows, ids ?? []);
+    }
   } finally {
     conn.close();
   }

@@ -114,7 +114,7 @@ export async function createShipment(s: ShipmentInput, loggers: ShipmentLoggerIn
 
 async function insertLogger(tx: Tx, shipmentId: string, ordinal: number, l: ShipmentLoggerInput, actor: string) {
   const row = await tx.shipmentLogger.create({ data: { shipmentId, ordinal, position: l.position, serial: l.serial ?? null, fileNamePattern: l.fileNamePattern ?? null, products: l.products as unknown as object } });
-  await appendAudit(tx, { action: "create", entity: "shipment", entityId: shipmentId, actor, details: { logger: row.id, ordinal, position: row.position, serial: row.serial, products: l.products as unknown as object }, contentSha256: shipmentRowContentHash("ShipmentLogger", row) });
+  await appendAudit(tx, { action: "create", entity: "shipmentLogger", entityId: row.id, actor, details: { shipmentId, ordinal, position: row.position, serial: row.serial, products: l.products as unknown as object }, contentSha256: shipmentRowContentHash("ShipmentLogger", row) });
   return row;
 }
 
@@ -135,7 +135,7 @@ export async function attachTraces(shipmentId: string, links: ReadonlyArray<{ sh
       const entry = await tx.shipmentLogger.findUnique({ where: { id: l.shipmentLoggerId } });
       if (!entry || entry.shipmentId !== shipmentId) throw new Error(`logger entry ${l.shipmentLoggerId} is not part of this shipment`);
       const row = await tx.shipmentLogger.update({ where: { id: l.shipmentLoggerId }, data: { traceId: l.traceId } });
-      await appendAudit(tx, { action: "edit", entity: "shipment", entityId: shipmentId, actor, details: { logger: row.id, position: row.position, traceId: l.traceId, previousTraceId: entry.traceId }, contentSha256: shipmentRowContentHash("ShipmentLogger", row) });
+      await appendAudit(tx, { action: "edit", entity: "shipmentLogger", entityId: row.id, actor, details: { shipmentId, position: row.position, traceId: l.traceId, previousTraceId: entry.traceId }, contentSha256: shipmentRowContentHash("ShipmentLogger", row) });
     }
   });
 }
@@ -143,7 +143,10 @@ export async function attachTraces(shipmentId: string, links: ReadonlyArray<{ sh
 /** The outcome of a shipment review run and the reviews it stands on, in one transaction. */
 export async function recordShipmentRun(shipmentId: string, runId: string, links: ReadonlyArray<{ shipmentLoggerId: string; productId: string; reviewId: string }>, outcome: Outcome, result: unknown, actor: string) {
   return db.$transaction(async (tx) => {
-    for (const l of links) await tx.shipmentReview.create({ data: { shipmentId, runId, ...l } });
+    for (const l of links) {
+      const link = await tx.shipmentReview.create({ data: { shipmentId, runId, ...l } });
+      await appendAudit(tx, { action: "create", entity: "shipmentReview", entityId: link.id, actor, details: { shipmentId, runId, ...l }, contentSha256: shipmentRowContentHash("ShipmentReview", link) });
+    }
     // exact JSON text (Prisma's Json write rounds some doubles; see insertDefinition)
     await tx.$executeRaw`UPDATE "Shipment" SET "outcome" = ${outcome}, "result" = ${JSON.stringify(result)} WHERE "id" = ${shipmentId}`;
     const row = await tx.shipment.findUniqueOrThrow({ where: { id: shipmentId } });

@@ -140,3 +140,33 @@ export const traceContentHash = (r: TraceRowContent) => sha256Hex(canonicalJson(
 export const definitionContentHash = (r: DefinitionRowContent) => sha256Hex(canonicalJson(definitionContent(r)));
 export const reviewContentHash = (r: ReviewRowContent) => sha256Hex(canonicalJson(reviewContent(r)));
 export const signOffContentHash = (r: ReviewRowContent) => sha256Hex(canonicalJson(signOffContent(r)));
+
+/**
+ * The shipment tables (issue 15): lanes, the logger register, shipments, their loggers and the links to
+ * their reviews. Each row's content is its columns, dates as ISO instants, JSON columns as values, so a
+ * row read through Prisma and the same row read raw from the file hash alike.
+ */
+export const SHIPMENT_TABLES = {
+  Lane: { entity: "lane", dates: ["createdAt"], json: [] },
+  Logger: { entity: "logger", dates: ["lastCalibrationAt", "nextCalibrationAt", "createdAt", "updatedAt"], json: [] },
+  Shipment: { entity: "shipment", dates: ["plannedDepartureAt", "plannedArrivalAt", "actualDepartureAt", "actualArrivalAt", "signedAt", "createdAt"], json: ["result"] },
+  ShipmentLogger: { entity: "shipmentLogger", dates: ["createdAt"], json: ["products"] },
+  ShipmentReview: { entity: "shipmentReview", dates: ["createdAt"], json: [] },
+} as const satisfies Record<string, { entity: string; dates: readonly string[]; json: readonly string[] }>;
+export type ShipmentTable = keyof typeof SHIPMENT_TABLES;
+
+export function shipmentRowContent(table: ShipmentTable, row: Record<string, unknown>) {
+  const spec = SHIPMENT_TABLES[table];
+  const out: Record<string, unknown> = { entity: spec.entity };
+  for (const [k, v] of Object.entries(row)) {
+    if ((spec.dates as readonly string[]).includes(k)) out[k] = v === null || v === undefined ? null : isoInstant(v as When);
+    else if (v instanceof Uint8Array) out[k] = sha256Hex(v);
+    else out[k] = v === undefined ? null : v;
+  }
+  return out;
+}
+
+/** SHA-256 of a shipment-table row's canonical content. */
+export function shipmentRowContentHash(table: ShipmentTable, row: Record<string, unknown>): string {
+  return sha256Hex(canonicalJson(shipmentRowContent(table, row)));
+}

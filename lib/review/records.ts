@@ -8,8 +8,11 @@ import { sha256Hex } from "../trace/hash";
 import {
   definitionContentHash,
   reviewContentHash,
+  shipmentRowContentHash,
+  SHIPMENT_TABLES,
   traceContentHash,
   type DefinitionRowContent,
+  type ShipmentTable,
   type ReviewRowContent,
   type TraceRowContent,
 } from "./content";
@@ -65,6 +68,8 @@ export interface RecordSnapshot {
   traces: TraceRowContent[];
   definitions: DefinitionRowContent[];
   reviews: ReviewRowContent[];
+  /** rows of the shipment tables (issue 15), each with its table; JSON columns parsed */
+  shipmentRows?: Array<{ table: ShipmentTable; row: Record<string, unknown> & { id: string } }>;
   /** tables the reader could not read to the end (damage): rows missing from them are not reported one by one */
   incompleteTables: string[];
   /** when set, only these rows were read (a scoped check, e.g. one review and its inputs) */
@@ -96,7 +101,10 @@ export interface RecordCheck {
 /** Actions that create or change a row, and so carry its content hash (exports and re-checks change nothing). */
 export const CONTENT_ACTIONS: ReadonlySet<string> = new Set(["create", "edit", "import", "run", "sign", "rename", "seal"]);
 
-const ENTITY_TABLE: Record<string, string> = { trace: "Trace", definition: "Definition", review: "Review" };
+const ENTITY_TABLE: Record<string, string> = {
+  trace: "Trace", definition: "Definition", review: "Review",
+  ...Object.fromEntries(Object.entries(SHIPMENT_TABLES).map(([table, spec]) => [spec.entity, table])),
+};
 
 /** Sequence, content and linkage of the entries (what `verifyAuditChain` checks), as findings. */
 export function chainFindings(entries: readonly AuditEntryRecord[]): Finding[] {
@@ -186,6 +194,7 @@ export function rowFindings(s: RecordSnapshot): Finding[] {
     ...s.traces.map((r) => ({ entity: "trace", id: r.id, hash: traceContentHash(r), table: "Trace" })),
     ...s.definitions.map((r) => ({ entity: "definition", id: r.id, hash: definitionContentHash(r), table: "Definition" })),
     ...s.reviews.map((r) => ({ entity: "review", id: r.id, hash: reviewContentHash(r), table: "Review" })),
+    ...(s.shipmentRows ?? []).map((r) => ({ entity: SHIPMENT_TABLES[r.table].entity, id: r.row.id, hash: shipmentRowContentHash(r.table, r.row), table: r.table })),
   ];
   const key = (entity: string, id: string) => `${entity}:${id}`;
   const present = new Set(rows.map((r) => key(r.entity, r.id)));
