@@ -2,7 +2,7 @@
 // each position exceeded each rule threshold, and design profiles learned from the lane's stored traces.
 import { z } from "zod";
 import { timeBeyond } from "../exposure/timeAbove";
-import type { LimitSet } from "../exposure/limits";
+import { isThresholdRule, type LimitSet } from "../exposure/limits";
 import { profileSchema, type Profile } from "../design/profile";
 import { envelopeProfile, historyEnvelope, HISTORY_PROFILE_CAUTION, type HistoryEnvelope } from "../shipment/historyProfile";
 import { getLane, listShipments, getShipment } from "../db/shipments";
@@ -34,7 +34,7 @@ export async function laneOverview(laneId: string) {
   for (const s of shipments) {
     const full = await getShipment(s.id);
     if (!full) continue;
-    for (const r of (full.limits.body as unknown as LimitSet).rules) {
+    for (const r of (full.limits.body as unknown as LimitSet).rules.filter(isThresholdRule)) {
       const t = r.above_C ?? r.below_C!;
       const direction = r.above_C !== undefined ? "above" : "below";
       thresholds.set(`${direction}:${t}`, { threshold_C: t, direction });

@@ -4,7 +4,7 @@ import { getTrace } from "@/lib/db/traces";
 import type { StoredShipment } from "@/lib/db/shipments";
 import type { ShipmentResult } from "@/lib/services/shipments";
 import type { ReviewResult } from "@/lib/review";
-import type { LimitSet } from "@/lib/exposure/limits";
+import { isThresholdRule, type LimitSet } from "@/lib/exposure/limits";
 import { bytesToFloat64 } from "@/lib/db/bytes";
 import { displaySeries } from "@/lib/display/series";
 import { formatC, fixed } from "@/lib/display/numbers";
@@ -91,7 +91,7 @@ export function RuleMatrix({ s, names }: { s: StoredShipment; names: Map<string,
                 <td>{names.get(link.productId) ?? link.productId}{gov ? " (governing)" : ""}</td>
                 <td>{logger.get(link.shipmentLoggerId) ? loggerLabel(logger.get(link.shipmentLoggerId)!) : "?"}</td>
                 {rules.map((id) => {
-                  const rule = result.rules.find((x) => x.id === id);
+                  const rule = result.rules.find((x) => x.id === id) ?? result.consequence_rules?.find((x) => x.id === id);
                   return <td key={id} title={rule?.reason}>{rule ? <StatusBadge status={rule.status} /> : "–"}</td>;
                 })}
                 <td><StatusBadge status={link.review.outcome} /> <Link href={`/reviews/${link.review.id}`}>open</Link></td>
@@ -144,7 +144,7 @@ export function ShipmentCautions({ s }: { s: StoredShipment }) {
 
 /** The chart data: each logger's air (display-decimated, every excursion's peak kept) and its reviews' predicted cores. */
 export async function LoadChartCard({ s, names, zone }: { s: StoredShipment; names: Map<string, string>; zone: string }) {
-  const limits = (s.limits.body as unknown as LimitSet).rules;
+  const limits = (s.limits.body as unknown as LimitSet).rules.filter(isThresholdRule);
   const thresholds = [...new Set(limits.map((r) => r.above_C ?? r.below_C!))].map((v) => ({ value_C: v, label: `${v} °C` }));
   const series: LoadSeries[] = [];
   for (const [i, l] of s.loggers.entries()) {
