@@ -54,7 +54,7 @@ export function toReview(r: Raw): ReviewRowContent {
 }
 
 /** A shipment-table row as Prisma returns it: dates as instants, JSON parsed, REAL as numbers. */
-function toShipmentRow(table: ShipmentTable, r: Raw): { table: ShipmentTable; row: Record<string, unknown> & { id: string } } {
+export function toShipmentRow(table: ShipmentTable, r: Raw): { table: ShipmentTable; row: Record<string, unknown> & { id: string } } {
   const spec = SHIPMENT_TABLES[table];
   const row: Record<string, unknown> = {};
   for (const [k, v] of Object.entries(r)) {

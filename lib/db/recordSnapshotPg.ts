@@ -5,7 +5,8 @@
 import pg from "pg";
 import type { Finding, SignatureRecord } from "../review/records";
 import { pgConnection } from "./pgAdapter";
-import { emptySnapshot, toDefinition, toEntry, toReview, toTrace, type Raw, type SnapshotOptions, type SnapshotRead } from "./recordSnapshot";
+import { emptySnapshot, toDefinition, toEntry, toReview, toShipmentRow, toTrace, type Raw, type SnapshotOptions, type SnapshotRead } from "./recordSnapshot";
+import { SHIPMENT_TABLES, type ShipmentTable } from "../review/content";
 
 const TIMESTAMP = 1114; // timestamp without time zone: Prisma stores UTC
 const parsers = {
@@ -52,6 +53,12 @@ export async function readPgSnapshot(url: string, opts: SnapshotOptions): Promis
     await read("Trace", `SELECT *, "importSettings"::text AS "importSettings", "warnings"::text AS "warnings" FROM "Trace"${where}`, toTrace, snapshot.traces, params);
     await read("Definition", `SELECT *, "body"::text AS "body" FROM "Definition"${where}`, toDefinition, snapshot.definitions, params);
     await read("Review", `SELECT *, "options"::text AS "options", "result"::text AS "result" FROM "Review"${where}`, toReview, snapshot.reviews, params);
+    // the shipment tables (issue 15), JSON columns as text like the SQLite reader
+    snapshot.shipmentRows = [];
+    for (const table of Object.keys(SHIPMENT_TABLES) as ShipmentTable[]) {
+      const casts = (SHIPMENT_TABLES[table].json as readonly string[]).map((c) => `, "${c}"::text AS "${c}"`).join("");
+      await read(table, `SELECT *${casts} FROM "${table}"${where}`, (r) => toShipmentRow(table, r), snapshot.shipmentRows, params);
+    }
     await client.query("COMMIT");
   } finally {
     await client.end().catch(() => undefined);

@@ -1,5 +1,5 @@
 // Storage of shipments, lanes and the logger register (issue 15). Every write appends its audit entry in
-// the same transaction; a signed shipment is final (triggers in migration 20261202100000_shipments).
+// the same transaction; a signed shipment is final (triggers in migration 20261202130000_shipments).
 import { randomUUID } from "node:crypto";
 import { db } from "./client";
 import { appendAudit, type Tx } from "./audit";

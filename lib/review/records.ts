@@ -200,8 +200,11 @@ export function rowFindings(s: RecordSnapshot): Finding[] {
   const present = new Set(rows.map((r) => key(r.entity, r.id)));
   const firstEntry = new Map<string, number>();
   const latestContent = new Map<string, { seq: number; contentSha256: string | null }>();
+  const shipmentEntities = new Set(Object.values(SHIPMENT_TABLES).map((t) => t.entity as string));
   for (const e of s.entries) {
     if (!ENTITY_TABLE[e.entity]) continue;
+    // a reader that did not read the shipment tables cannot say their rows are missing
+    if (s.shipmentRows === undefined && shipmentEntities.has(e.entity)) continue;
     const k = key(e.entity, e.entityId);
     if (!firstEntry.has(k)) firstEntry.set(k, e.seq);
     if (!CONTENT_ACTIONS.has(e.action)) continue; // an export or a re-check changes nothing

@@ -207,7 +207,7 @@ describe("logger register in a shipment review", () => {
 describe("verify covers the shipment tables", () => {
   it("every shipment, logger entry, link, lane and register row matches its audit entry; a row changed behind the app's back is found", async () => {
     const { checkStoredRecords } = await import("@/lib/services/verify");
-    const clean = checkStoredRecords({ storageChecks: false });
+    const clean = await checkStoredRecords({ storageChecks: false });
     expect(clean.findings).toEqual([]);
     expect(clean.snapshot.shipmentRows!.map((r) => r.table)).toEqual(expect.arrayContaining(["Lane", "Logger", "Shipment", "ShipmentLogger", "ShipmentReview"]));
     // an open shipment's logger entry moved to another position with plain SQL (no audit entry)
@@ -217,7 +217,7 @@ describe("verify covers the shipment tables", () => {
     conn.prepare(`UPDATE "ShipmentLogger" SET "position" = 'front top' WHERE "id" = ?`).run(id);
     conn.prepare(`UPDATE "Logger" SET "accuracyK" = 5 WHERE "serial" = 'SN-1006'`).run();
     conn.close();
-    const after = checkStoredRecords({ storageChecks: false });
+    const after = await checkStoredRecords({ storageChecks: false });
     expect(after.findings.map((f) => [f.kind, f.table, f.row ?? null])).toEqual(expect.arrayContaining([
       ["row-altered", "ShipmentLogger", id],
       ["row-altered", "Logger", expect.any(String)],
