@@ -33,5 +33,5 @@ export function alertChanges(conditions: readonly AlertCondition[], openKeys: re
 
 /** A duration in words: seconds under 90 s (a replay at 600× arrives every second or so), else minutes. */
 function span(s: number): string {
-  return s < 90 ? `${Math.round(s)} s` : `${Math.round(s / 60)} min`;
+  return s < 1 ? "under a second" : s < 90 ? `${Math.round(s)} s` : `${Math.round(s / 60)} min`;
 }

@@ -11,7 +11,7 @@ import { fixed } from "@/lib/display/numbers";
 import type { LivePayload } from "@/lib/services/monitorPage";
 import type { FormState } from "@/lib/validation";
 
-const minutes = (m: number) => (m < 1.5 ? `${Math.round(m * 60)} s` : m < 120 ? `${Math.round(m)} min` : `${(m / 60).toFixed(1)} h`);
+const minutes = (m: number) => (m < 1 / 60 ? "under a second" : m < 1.5 ? `${Math.round(m * 60)} s` : m < 120 ? `${Math.round(m)} min` : `${(m / 60).toFixed(1)} h`);
 
 /** The live page: the payload from the server, replaced by every "state" event of the monitor's stream. */
 export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; zone: string; demoToken: string | null }) {
