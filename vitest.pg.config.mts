@@ -16,6 +16,7 @@ export const POSTGRES_TESTS = [
   "tests/integration/concurrency.test.ts",
   "tests/integration/crash.test.ts",
   "tests/integration/backup.test.ts",
+  "tests/integration/jobQueue.test.ts",
   "tests/integration/monitors.test.ts",
 ];
 

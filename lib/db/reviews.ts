@@ -23,6 +23,8 @@ export interface NewReview {
   resultSha256: string;
   correctsId?: string;
   actor?: string;
+  /** the review's id when the caller must know it in advance (a queued run stores under its job's id, so a retry cannot store twice) */
+  id?: string;
 }
 
 /** Stores a review and its audit entry in one transaction. */
@@ -31,7 +33,7 @@ export async function createReview(r: NewReview): Promise<string> {
   return db.$transaction(async (tx) => {
     // Inserted as exact JSON text: Prisma 6.19's Json write rounds some doubles (see insertDefinition), and
     // the stored result must hash, with the core series, to resultSha256. (A second database casts the JSON.)
-    const id = randomUUID().replace(/-/g, "");
+    const id = r.id ?? randomUUID().replace(/-/g, "");
     const bytes = (a: Float64Array | undefined | null) => (a ? float64ToBytes(a) : null);
     await tx.$executeRaw`INSERT INTO "Review" ("id", "title", "traceId", "productId", "packId", "limitsId", "options", "engineVersion", "result", "coreC", "surfaceC", "meanC", "coolantC", "resultSha256", "outcome", "status", "correctsId", "createdAt")
       VALUES (${id}, ${r.title}, ${r.traceId}, ${r.productId}, ${r.packId ?? null}, ${r.limitsId}, ${JSON.stringify(r.options)}, ${r.engineVersion}, ${JSON.stringify(c.result)},
@@ -191,6 +193,11 @@ export async function reviewAttention(take = 5) {
     db.review.groupBy({ by: ["outcome", "decision"], where: { status: "signed" }, _count: { _all: true } }),
   ]).then(([a, b, c, groups]) => [a, b, c, groups.filter((g) => g.decision !== g.outcome).reduce((n, g) => n + g._count._all, 0)] as const);
   return { openAttention, openAttentionCount, openAcceptCount, overriddenCount };
+}
+
+/** Whether a review with this id is stored (a retried queued run checks before computing again). */
+export async function reviewExists(id: string): Promise<boolean> {
+  return (await db.review.count({ where: { id } })) > 0;
 }
 
 /** Ids of every stored review, oldest first (for verification). */

@@ -121,8 +121,9 @@ export async function prepareReview(request: RunReviewRequest): Promise<PrepareO
 }
 
 /** Stores a computed review with its run audit entry (one transaction). */
-export async function storeReview(p: PreparedReview, comp: ReviewComputation, actor: string): Promise<string> {
+export async function storeReview(p: PreparedReview, comp: ReviewComputation, actor: string, id?: string): Promise<string> {
   return createReview({
+    id,
     title: p.title,
     traceId: p.traceId,
     productId: p.productId,

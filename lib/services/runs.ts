@@ -1,12 +1,32 @@
 // Background runs of the engine for the web server: a review request is checked and loaded here, its
 // computation goes to the worker pool, and its state (progress, outcome) is kept in this process so the
 // page that started it can follow it and cancel it. A cancelled run stores nothing but an audit entry.
-// Runs live in this server process: a restart forgets running ones (they had stored nothing).
+// On SQLite, runs live in this server process: a restart forgets running ones (they had stored nothing).
+// On PostgreSQL a run is a job in the database's queue (lib/db/jobQueue.ts, pg-boss): any instance's workers
+// pick it up (computed in that instance's pool), every instance reports its state, and a run whose instance
+// died is taken up again once it expires. A queued run stores its review under its job's id, so a retry
+// after the store committed finds it instead of storing twice.
 import { randomUUID } from "node:crypto";
 import type { ReviewInput } from "../review";
 import { logRunCancelled } from "../db/runs";
-import { runReviewInPool } from "./enginePool";
+import { dbKind } from "../db/client";
+import { reviewExists } from "../db/reviews";
+import { engineThreads, runReviewInPool } from "./enginePool";
 import { prepareReview, storeReview, type RunReviewRequest } from "./reviews";
+
+const REVIEW_QUEUE = "review-run";
+interface ReviewJobData {
+  request: RunReviewRequest;
+  actor: string;
+  title: string;
+  requested_at: string;
+}
+type ReviewJobOutput = { reviewId: string } | { failed: string } | { cancelled: true };
+
+const queued = () => dbKind() === "postgres";
+const queue = () => import("../db/jobQueue");
+/** The review id a queued run stores under: its job id without dashes (the form of every review id). */
+const reviewIdOfJob = (jobId: string) => jobId.replace(/-/g, "");
 
 export interface RunState {
   id: string;
@@ -74,6 +94,12 @@ export async function startReviewRun(request: RunReviewRequest, actor: string): 
     };
   }
   forgetOldRuns();
+  if (queued()) {
+    const requested_at = new Date().toISOString();
+    const data: ReviewJobData = { request, actor, title: p.title, requested_at };
+    const id = await (await queue()).enqueueJob(REVIEW_QUEUE, data);
+    return { ok: true, run: { id, kind: "review", title: p.title, status: "running", progress: 0, started_at: requested_at } };
+  }
   const controller = new AbortController();
   const run: Run = { id: randomUUID(), kind: "review", title: p.title, status: "running", progress: 0, started_at: new Date().toISOString(), controller, finished: Promise.resolve() };
   runs.set(run.id, run);
@@ -129,13 +155,40 @@ function forgetOldRuns(now = Date.now()): void {
   for (const [id, r] of runs) if (r.finished_at && now - Date.parse(r.finished_at) > 3_600_000) runs.delete(id);
 }
 
-export function getRun(id: string): RunState | undefined {
+export async function getRun(id: string): Promise<RunState | undefined> {
   const r = runs.get(id);
-  return r && publicState(r);
+  if (!queued()) return r && publicState(r);
+  const job = await (await queue()).getJob<ReviewJobData>(REVIEW_QUEUE, id);
+  if (!job) return undefined;
+  const base: RunState = { id, kind: "review", title: job.data.title, status: "running", progress: r?.progress ?? 0, started_at: job.data.requested_at };
+  const finished_at = (job.completedOn ?? new Date()).toISOString();
+  const out = (job.output ?? {}) as Partial<{ reviewId: string; failed: string; cancelled: true; message: string }>;
+  switch (job.state) {
+    case "created":
+    case "retry":
+    case "active":
+      return base;
+    case "cancelled":
+      return { ...base, status: "cancelled", finished_at };
+    case "failed":
+      return { ...base, status: "failed", finished_at, message: out.message ?? "the run failed on every attempt" };
+    case "completed":
+      if (out.reviewId) return { ...base, status: "done", progress: 1, reviewId: out.reviewId, finished_at };
+      if (out.failed) return { ...base, status: "failed", message: out.failed, finished_at };
+      return { ...base, status: "cancelled", finished_at };
+  }
 }
 
 /** Waits until the run ends or `ms` pass, whichever is first. */
 export async function waitForRun(id: string, ms: number): Promise<RunState | undefined> {
+  if (queued()) {
+    const until = Date.now() + ms;
+    for (;;) {
+      const s = await getRun(id);
+      if (!s || s.status !== "running" || Date.now() >= until) return s;
+      await new Promise((res) => setTimeout(res, 200));
+    }
+  }
   const r = runs.get(id);
   if (!r) return undefined;
   let timer: NodeJS.Timeout | undefined;
@@ -148,10 +201,86 @@ export type CancelOutcome = { ok: true; run: RunState } | { ok: false; reason: "
 
 /** Cancels a running run: its worker ends, nothing is stored, and an audit entry says so. */
 export async function cancelRun(id: string): Promise<CancelOutcome> {
+  if (queued()) {
+    const before = await getRun(id);
+    if (!before) return { ok: false, reason: "not-found" };
+    if (before.status !== "running") return { ok: false, reason: "not-running", run: before };
+    const q = await queue();
+    const job = await q.getJob<ReviewJobData>(REVIEW_QUEUE, id);
+    await q.cancelJob(REVIEW_QUEUE, id);
+    // a job no worker has started yet: nobody else will record the cancellation
+    if (job && (job.state === "created" || job.state === "retry")) {
+      await logRunCancelled(id, job.data.actor, { kind: "review", title: job.data.title, progress: 0, requested_at: job.data.requested_at });
+    } else {
+      // the worker running it notices within a second, ends its computation and records the cancellation
+      for (let i = 0; i < 100 && runs.get(id)?.status === "running"; i++) await new Promise((res) => setTimeout(res, 100));
+    }
+    return { ok: true, run: (await getRun(id)) ?? { ...before, status: "cancelled" } };
+  }
   const r = runs.get(id);
   if (!r) return { ok: false, reason: "not-found" };
   if (r.status !== "running") return { ok: false, reason: "not-running", run: publicState(r) };
   r.controller.abort(new Error("cancelled by the user"));
   await r.finished;
   return { ok: true, run: publicState(r) };
+}
+
+/**
+ * One queued review run, in whichever instance picked it up: computed in this instance's pool (progress kept
+ * here), stored under the job's id. An engine refusal completes the job as failed (no retry: it would refuse
+ * again); a crash or an unexpected error lets pg-boss retry it.
+ */
+async function workReviewJob(job: { id: string; data: ReviewJobData }): Promise<ReviewJobOutput> {
+  const reviewId = reviewIdOfJob(job.id);
+  if (await reviewExists(reviewId)) return { reviewId }; // stored by an attempt that died before completing the job
+  const ready = await prepareReview(job.data.request);
+  if (!ready.ok) return { failed: ready.message };
+  const p = ready.prepared;
+  const controller = new AbortController();
+  const run: Run = { id: job.id, kind: "review", title: p.title, status: "running", progress: 0, started_at: job.data.requested_at, controller, finished: Promise.resolve() };
+  runs.set(job.id, run);
+  const q = await queue();
+  const watch = setInterval(() => {
+    q.getJob(REVIEW_QUEUE, job.id).then(
+      (j) => {
+        if (j?.state === "cancelled") controller.abort(new Error("cancelled by the user"));
+      },
+      () => undefined,
+    );
+  }, 1000);
+  const end = (status: RunState["status"], extra: Partial<RunState> = {}) => Object.assign(run, { status, finished_at: new Date().toISOString() }, extra);
+  try {
+    const attempt = await runReviewInPool(p.input, { signal: controller.signal, onProgress: (f) => (run.progress = f) });
+    if (controller.signal.aborted) throw controller.signal.reason;
+    if (!attempt.ok) {
+      end("failed", { message: attempt.message });
+      return { failed: attempt.message };
+    }
+    try {
+      await storeReview(p, attempt.computation, job.data.actor, reviewId);
+    } catch (e) {
+      if (!(await reviewExists(reviewId))) throw e;
+    }
+    end("done", { progress: 1, reviewId });
+    return { reviewId };
+  } catch (e) {
+    if (!controller.signal.aborted) {
+      end("failed", { message: e instanceof Error ? e.message : String(e) });
+      throw e;
+    }
+    await logRunCancelled(job.id, job.data.actor, { kind: "review", title: p.title, progress: Number(run.progress.toFixed(3)), requested_at: job.data.requested_at });
+    end("cancelled");
+    return { cancelled: true };
+  } finally {
+    clearInterval(watch);
+  }
+}
+
+const globalForWorkers = globalThis as unknown as { corelagRunWorkers?: Promise<void> };
+
+/** At server start (instrumentation.ts): on PostgreSQL, this instance takes queued runs, one per engine thread. */
+export function startRunWorkers(): Promise<void> {
+  if (!queued()) return Promise.resolve();
+  globalForWorkers.corelagRunWorkers ??= queue().then((q) => q.workJobs<ReviewJobData>(REVIEW_QUEUE, engineThreads(), workReviewJob));
+  return globalForWorkers.corelagRunWorkers;
 }

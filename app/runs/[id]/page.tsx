@@ -6,7 +6,7 @@ export const dynamic = "force-dynamic";
 
 export default async function RunPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
-  const run = getRun(id);
+  const run = await getRun(id);
   if (!run) {
     return (
       <main>
