@@ -17,12 +17,14 @@ export interface ConsequenceCurve {
  * The cumulative growth (log10 increase) or shelf life consumed (%) along the trip, on the same time axis as the
  * temperature chart above it (same width, margins and time domain), with each rule's limit as a dashed line.
  */
-export function ConsequenceChart({ domain_ms, curves, limits = [], unit, title, zone = UTC, height = 200, testId = "consequence-chart" }: { domain_ms: [number, number]; curves: ConsequenceCurve[]; limits?: Array<{ value: number; label: string }>; unit: string; title: string; zone?: string; height?: number; testId?: string }) {
+export function ConsequenceChart({ domain_ms, curves, limits = [], unit, title, zone = UTC, height = 200, testId = "consequence-chart", secondary }: { domain_ms: [number, number]; curves: ConsequenceCurve[]; limits?: Array<{ value: number; label: string }>; unit: string; title: string; zone?: string; height?: number; testId?: string; secondary?: ConsequenceCurve & { unit: string } }) {
   const x = d3.scaleUtc().domain(domain_ms).range([M.left, WIDTH - M.right]);
   const all = curves.flatMap((c) => c.values).concat(limits.map((l) => l.value), [0]);
   const y = d3.scaleLinear().domain([0, Math.max(1e-9, ...all) * 1.08]).nice().range([height - M.bottom, M.top]);
   const plotBottom = height - M.bottom;
-  const line = (c: ConsequenceCurve) => d3.line<number>().digits(1).x((_, i) => x(c.times_ms[i]!)).y((v) => y(v))(c.values) ?? "";
+  const line = (c: ConsequenceCurve, scale = y) => d3.line<number>().digits(1).x((_, i) => x(c.times_ms[i]!)).y((v) => scale(v))(c.values) ?? "";
+  // the proxy beside it (minutes above a threshold) on its own scale, ticks inside the plot's right edge
+  const y2 = secondary ? d3.scaleLinear().domain([0, Math.max(1, ...secondary.values) * 1.08]).nice().range([height - M.bottom, M.top]) : null;
   return (
     <figure className="chart" data-testid={testId} style={{ margin: 0 }}>
       <svg viewBox={`0 0 ${WIDTH} ${height}`} role="img" aria-label={title}>
@@ -44,6 +46,14 @@ export function ConsequenceChart({ domain_ms, curves, limits = [], unit, title, 
             <text x={WIDTH - M.right + 4} y={y(l.value)} dy="0.32em" fontSize={10.5} fill="var(--limit)">{l.label}</text>
           </g>
         ))}
+        {secondary && y2 && (
+          <g data-testid="consequence-secondary">
+            {y2.ticks(4).map((t) => (
+              <text key={`y2${t}`} x={WIDTH - M.right - 4} y={y2(t)} dy="-0.2em" textAnchor="end" fontSize={10} fill="#8a93a0">{t}</text>
+            ))}
+            <path d={line(secondary, y2)} fill="none" stroke={secondary.color} strokeWidth={1.5} strokeDasharray="2 3" />
+          </g>
+        )}
         {curves.map((c) => (
           <path key={c.label} d={line(c)} fill="none" stroke={c.color} strokeWidth={2} strokeDasharray={c.dashed ? "4 3" : undefined} data-testid={`consequence-curve-${c.label.toLowerCase().replace(/\W+/g, "-")}`} />
         ))}
@@ -52,6 +62,7 @@ export function ConsequenceChart({ domain_ms, curves, limits = [], unit, title, 
         {curves.map((c) => (
           <span key={c.label}><span className="swatch" style={{ background: c.color }} />{c.label}</span>
         ))}
+        {secondary && <span><span className="swatch" style={{ background: secondary.color }} />{secondary.label} ({secondary.unit}, grey scale inside the right edge)</span>}
       </figcaption>
     </figure>
   );

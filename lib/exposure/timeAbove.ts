@@ -75,3 +75,21 @@ export function timeBeyond(
   const longest_s = excursions.reduce((m, e) => Math.max(m, e.duration_s), 0);
   return { cumulative_s, longest_s, excursions };
 }
+
+/**
+ * Time strictly above `threshold_C` from the first sample up to each sample, s: the running form of
+ * timeBeyond's cumulative time, with the same linear interpolation of crossings (its last value equals
+ * timeBeyond(...).cumulative_s). Used to draw "minutes above" beside a growth curve.
+ */
+export function cumulativeTimeAbove(t_s: Float64Array, value_C: Float64Array, threshold_C: number): Float64Array {
+  const out = new Float64Array(t_s.length);
+  let sum = 0;
+  for (let i = 1; i < t_s.length; i++) {
+    const d0 = value_C[i - 1]! - threshold_C, d1 = value_C[i]! - threshold_C, dt = t_s[i]! - t_s[i - 1]!;
+    if (d0 > 0 && d1 > 0) sum += dt;
+    else if (d0 > 0) sum += (d0 / (d0 - d1)) * dt;
+    else if (d1 > 0) sum += dt - (d0 / (d0 - d1)) * dt;
+    out[i] = sum;
+  }
+  return out;
+}

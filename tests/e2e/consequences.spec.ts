@@ -82,6 +82,9 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await expect(page.getByTestId("consequence-caution")).toContainText("do not replace challenge tests");
   await expect(page.getByTestId("growth-chart")).toBeVisible();
   await expect(page.getByTestId("consequence-curve-lm-on-the-core")).toHaveAttribute("d", /^M/);
+  // the comparison line: the same history's running minutes above 5 °C, on its own scale
+  await expect(page.getByTestId("growth-chart").getByTestId("consequence-secondary").locator("path")).toHaveAttribute("d", /^M/);
+  await expect(page.getByTestId("growth-chart")).toContainText("core: minutes above 5 °C");
   await expect(page.getByTestId("shelf-chart")).toBeVisible();
   await expect(page.getByTestId("consequence-limit")).toHaveCount(1);
   await expect(page.getByTestId("log10-lm@core")).toContainText("log10 increase");
@@ -94,6 +97,7 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await expect(row).toContainText(/pass|fail|inconclusive/);
   await expect(row).toContainText("log10");
   await page.screenshot({ path: "test-results/consequences.png", fullPage: true });
+  await card.screenshot({ path: "test-results/consequences-card.png" });
 
   // the JSON export carries the consequences
   const json = await (await page.request.get(page.url() + "/export/review.json")).json();

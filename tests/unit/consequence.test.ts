@@ -319,3 +319,20 @@ describe("DEPENDENCE_TEMPLATES", () => {
     for (const x of DEPENDENCE_TEMPLATES) expect(x.source.length).toBeGreaterThan(40);
   });
 });
+
+describe("cumulativeTimeAbove", () => {
+  it("runs up to timeBeyond's cumulative time, interpolating crossings", async () => {
+    const { cumulativeTimeAbove, timeBeyond } = await import("@/lib/exposure/timeAbove");
+    // triangle 0 → 10 → 0 °C over 1200 s: above 5 °C from 300 s to 900 s (worked by hand)
+    const t = Float64Array.from([0, 600, 1200]), v = Float64Array.from([0, 10, 0]);
+    expect(Array.from(cumulativeTimeAbove(t, v, 5))).toEqual([0, 300, 600]);
+    fc.assert(
+      fc.property(fc.array(fc.double({ min: -5, max: 15, noNaN: true }), { minLength: 2, maxLength: 30 }), (vals) => {
+        const tt = Float64Array.from(vals, (_, i) => i * 60);
+        const c = cumulativeTimeAbove(tt, Float64Array.from(vals), 5);
+        return Math.abs(c[c.length - 1]! - timeBeyond(tt, Float64Array.from(vals), 5).cumulative_s) < 1e-9;
+      }),
+      { numRuns: 200, seed: 5 },
+    );
+  });
+});

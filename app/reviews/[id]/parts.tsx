@@ -4,7 +4,9 @@ import type { TraceSeries } from "@/lib/trace/series";
 import { bridgeGaps, findGaps } from "@/lib/trace/series";
 import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
-import { ConsequenceChart } from "@/app/components/ConsequenceChart";
+import { ConsequenceChart, type ConsequenceCurve } from "@/app/components/ConsequenceChart";
+import { clip } from "@/lib/exposure/window";
+import { cumulativeTimeAbove } from "@/lib/exposure/timeAbove";
 import { StatusBadge } from "@/app/components/StatusBadge";
 import { Caution } from "@/app/components/Caution";
 import { ResistanceTable } from "@/app/products/ProductEditor";
@@ -262,8 +264,21 @@ export function ConsequenceCard({ review, series, zone }: { review: StoredReview
       values: c.curve.value,
       dashed: c.channel !== "core",
     }));
-  const limits = (kind: "growth" | "shelf_life") => rules.filter((x) => x.kind === kind).map((x) => ({ value: x.limit, label: `${x.id} ≤ ${sigTrim(x.limit, 3)}${kind === "growth" ? " log10" : " %"}` }));
+  const limits = (kind: "growth" | "shelf_life") => rules.filter((x) => x.kind === kind).map((x) => ({ value: x.limit, label: `${x.id} ≤ ${sigTrim(x.limit, 3)}` }));
   const growth = curves("growth"), shelf = curves("shelf_life");
+  // Beside the first growth curve on the core or air: the same history's running minutes above its comparison
+  // threshold, from the stored series cut to the judged window exactly as runReview cut it.
+  const first = r.consequences.find((c) => c.kind === "growth" && (c.channel === "core" || c.channel === "air"));
+  let secondary: (ConsequenceCurve & { unit: string }) | undefined;
+  if (first) {
+    const values = first.channel === "core" ? review.core_C : bridgeGaps(series);
+    const cut = clip(series.t_s, values, Date.parse(r.window.start) / 1000, Date.parse(r.window.end) / 1000);
+    const running = cumulativeTimeAbove(cut.t_s, cut.v, first.comparison.threshold_C);
+    const at = new Map<number, number>();
+    cut.t_s.forEach((t, i) => at.set(t, running[i]! / 60));
+    const pts = first.curve.t_s.filter((t) => at.has(t));
+    secondary = { label: `${first.channel}: minutes above ${first.comparison.threshold_C} °C`, unit: "min", color: "#8a93a0", times_ms: pts.map((t) => t * 1000), values: pts.map((t) => at.get(t)!) };
+  }
   const range = (lo: number, hi: number, unit: string) => `${sigTrim(lo, 3)} to ${sigTrim(hi, 3)}${unit}`;
   const days = (d: number | null | undefined) => (d === null || d === undefined ? "no spoilage predicted at this temperature" : `${sigTrim(d, 3)} days`);
   return (
@@ -275,7 +290,7 @@ export function ConsequenceCard({ review, series, zone }: { review: StoredReview
       {growth.length > 0 && (
         <>
           <h3>Cumulative growth, log10 increase (same time axis as the chart above)</h3>
-          <ConsequenceChart domain_ms={domain} curves={growth} limits={limits("growth")} unit="log10 increase" title="Cumulative log10 increase along the trip" zone={zone} testId="growth-chart" />
+          <ConsequenceChart domain_ms={domain} curves={growth} limits={limits("growth")} unit="log10 increase" title="Cumulative log10 increase along the trip" zone={zone} testId="growth-chart" secondary={secondary} />
         </>
       )}
       {shelf.length > 0 && (
