@@ -18,6 +18,7 @@ export const POSTGRES_TESTS = [
   "tests/integration/backup.test.ts",
   "tests/integration/jobQueue.test.ts",
   "tests/integration/monitors.test.ts",
+  "tests/integration/shipments.test.ts",
 ];
 
 export default defineConfig({

@@ -8,9 +8,10 @@ import path from "node:path";
 import { zipSync } from "fflate";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { loggerCsv, LIMITS, TRAY, CUP } from "../fixtures/shipment";
+import { testDatabaseUrl } from "../helpers/database";
 
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-ship-int-"));
-const url = `file:${path.join(dir, "ship.db")}`;
+const url = testDatabaseUrl(dir, "ship.db");
 process.env.DATABASE_URL = url;
 
 const ids = { limits: "", tray: "", cup: "" };
@@ -211,12 +212,10 @@ describe("verify covers the shipment tables", () => {
     expect(clean.findings).toEqual([]);
     expect(clean.snapshot.shipmentRows!.map((r) => r.table)).toEqual(expect.arrayContaining(["Lane", "Logger", "Shipment", "ShipmentLogger", "ShipmentReview"]));
     // an open shipment's logger entry moved to another position with plain SQL (no audit entry)
-    const Database = (await import("better-sqlite3")).default;
-    const conn = new Database(url.replace(/^file:/, ""));
-    const id = conn.prepare(`SELECT "id" FROM "ShipmentLogger" WHERE "position" = 'rear top' LIMIT 1`).pluck().get() as string;
-    conn.prepare(`UPDATE "ShipmentLogger" SET "position" = 'front top' WHERE "id" = ?`).run(id);
-    conn.prepare(`UPDATE "Logger" SET "accuracyK" = 5 WHERE "serial" = 'SN-1006'`).run();
-    conn.close();
+    const { db } = await import("@/lib/db/client");
+    const id = (await db.$queryRawUnsafe<Array<{ id: string }>>(`SELECT "id" FROM "ShipmentLogger" WHERE "position" = 'rear top' LIMIT 1`))[0]!.id;
+    await db.$executeRawUnsafe(`UPDATE "ShipmentLogger" SET "position" = 'front top' WHERE "id" = '${id}'`);
+    await db.$executeRawUnsafe(`UPDATE "Logger" SET "accuracyK" = 5 WHERE "serial" = 'SN-1006'`);
     const after = await checkStoredRecords({ storageChecks: false });
     expect(after.findings.map((f) => [f.kind, f.table, f.row ?? null])).toEqual(expect.arrayContaining([
       ["row-altered", "ShipmentLogger", id],
