@@ -6,8 +6,8 @@ import { LoggerForm } from "./LoggerForm";
 
 export const dynamic = "force-dynamic";
 
-export default async function LoggersPage({ searchParams }: { searchParams: Promise<{ edit?: string }> }) {
-  const { edit } = await searchParams;
+export default async function LoggersPage({ searchParams }: { searchParams: Promise<{ edit?: string; serial?: string }> }) {
+  const { edit, serial } = await searchParams;
   const [loggers, zone] = await Promise.all([listLoggers(), displayZone()]);
   const editing = edit ? await getLogger(edit) : null;
   const now = Date.now();
@@ -32,7 +32,7 @@ export default async function LoggersPage({ searchParams }: { searchParams: Prom
       )}
       <section className="card">
         <h2 style={{ marginTop: 0 }}>{editing ? `Edit ${editing.serial}` : "Register a logger"}</h2>
-        <LoggerForm key={editing?.id ?? "new"} editing={editing ? { id: editing.id, serial: editing.serial, description: editing.description, accuracyK: String(editing.accuracyK), lastCalibrationAt: editing.lastCalibrationAt?.toISOString().slice(0, 16) ?? "", nextCalibrationAt: editing.nextCalibrationAt?.toISOString().slice(0, 16) ?? "" } : undefined} />
+        <LoggerForm key={editing?.id ?? "new"} serial={serial?.slice(0, 120)} editing={editing ? { id: editing.id, serial: editing.serial, description: editing.description, accuracyK: String(editing.accuracyK), lastCalibrationAt: editing.lastCalibrationAt?.toISOString().slice(0, 16) ?? "", nextCalibrationAt: editing.nextCalibrationAt?.toISOString().slice(0, 16) ?? "" } : undefined} />
       </section>
     </>
   );

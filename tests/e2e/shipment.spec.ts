@@ -137,3 +137,23 @@ test("a shipment: create, drop 4 files, confirm matching, run, matrix, sign off,
   await expect(page.getByTestId("logger-register")).toContainText("SN-1005");
   await page.screenshot({ path: "test-results/logger-register.png", fullPage: true });
 });
+
+test("a single upload whose metadata names an unregistered logger offers to register it, with the accuracy asked once", async ({ page }) => {
+  await page.goto("/traces");
+  await page.getByLabel("Logger file (CSV)").setInputFiles(path.join(__dirname, "../../public/demo/route7-tote3.csv"));
+  await expect(page.getByTestId("preview")).toBeVisible();
+  await page.locator("#f-name").fill("Register check");
+  await page.getByRole("button", { name: "Upload and import" }).click();
+  await expect(page.getByTestId("trace-logger")).toContainText("HX-20417 · not in the logger register yet");
+  await page.getByTestId("register-serial").click();
+  await expect(page.locator("#f-serial")).toHaveValue("HX-20417");
+  await page.locator("#f-accuracyK").fill("0.3");
+  await page.locator("#f-nextCalibrationAt").fill("2026-06-01T00:00");
+  await page.getByRole("button", { name: "Register" }).click();
+  await expect(page.getByTestId("logger-register")).toContainText("HX-20417");
+  await expect(page.getByTestId("logger-register")).toContainText("overdue");
+  await page.goBack();
+  await page.goBack();
+  await page.reload();
+  await expect(page.getByTestId("trace-logger")).toContainText("HX-20417 (in the logger register)");
+});

@@ -8,6 +8,8 @@ import { MetadataList } from "@/app/components/MetadataList";
 import { displayZone } from "@/app/displayZone";
 import { formatSpan, formatTime } from "@/lib/display/time";
 import { displaySeries } from "@/lib/display/series";
+import { serialFromMetadata } from "@/lib/shipment/matching";
+import { loggersBySerial } from "@/lib/db/shipments";
 
 export const dynamic = "force-dynamic";
 
@@ -21,6 +23,9 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
   const s = meta.importSettings;
   const zone = await displayZone(s.timeZone);
   const display = displaySeries({ t_s: series.t_s, channels: { air: series.air_C, probe: series.probe_C } });
+  // a logger serial in the file's metadata that the register does not know: ask its accuracy once
+  const serial = serialFromMetadata(s.metadata ?? []);
+  const registered = serial ? (await loggersBySerial([serial])).length > 0 : true;
   return (
     <>
       <h1>Trace: {meta.name}</h1>
@@ -53,6 +58,15 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
             <>
               <dt>Metadata lines in the file</dt>
               <dd><MetadataList lines={s.metadata} testId="trace-metadata" /></dd>
+            </>
+          )}
+          {serial && (
+            <>
+              <dt>Logger</dt>
+              <dd data-testid="trace-logger">
+                {serial}
+                {registered ? <> (<Link href="/loggers">in the logger register</Link>)</> : <> · not in the logger register yet: <Link href={`/loggers?serial=${encodeURIComponent(serial)}`} data-testid="register-serial">register it with its stated accuracy</Link> (used as the sensor accuracy when a limit set states none)</>}
+              </dd>
             </>
           )}
           <dt>Gaps</dt>
