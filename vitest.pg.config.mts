@@ -17,6 +17,7 @@ export const POSTGRES_TESTS = [
   "tests/integration/crash.test.ts",
   "tests/integration/backup.test.ts",
   "tests/integration/jobQueue.test.ts",
+  "tests/integration/diskFullPg.test.ts",
   "tests/integration/monitors.test.ts",
   "tests/integration/shipments.test.ts",
 ];
