@@ -7,7 +7,11 @@ import { guardTransactions } from "@/lib/db/guardTransactions";
 // tests/integration/diskFull.test.ts).
 function fakeFactory(fail: "COMMIT" | "ROLLBACK", inTransactionAfterFailure: boolean) {
   const calls: string[] = [];
-  const connection = { inTransaction: true, exec: (sql: string) => { calls.push(`exec ${sql}`); connection.inTransaction = false; } };
+  const connection = {
+    inTransaction: true,
+    exec: (sql: string) => { calls.push(`exec ${sql}`); connection.inTransaction = false; },
+    prepare: (sql: string) => ({ run: () => void calls.push(`prepare ${sql}`) }),
+  };
   const tx = {
     client: connection,
     executeRaw: async (q: { sql: string }) => {
@@ -21,7 +25,7 @@ function fakeFactory(fail: "COMMIT" | "ROLLBACK", inTransactionAfterFailure: boo
     commit: async () => void calls.push("commit()"),
     rollback: async () => void calls.push("rollback()"),
   };
-  const adapter = { startTransaction: async () => tx };
+  const adapter = { client: connection, startTransaction: async () => tx };
   const factory = { connect: async () => adapter } as unknown as PrismaBetterSQLite3;
   return { factory, calls };
 }
@@ -38,6 +42,13 @@ describe("guardTransactions", () => {
     const tx = await (await guardTransactions(factory).connect()).startTransaction();
     await expect(tx.executeRaw({ sql: "COMMIT", args: [], argTypes: [] })).rejects.toThrow("database or disk is full");
     expect(calls).toEqual(["COMMIT", "exec ROLLBACK", "rollback()"]);
+  });
+  it("guardTransactions begins write transactions with BEGIN IMMEDIATE and leaves other statements alone", async () => {
+    const { factory, calls } = fakeFactory("COMMIT", false);
+    const adapter = (await guardTransactions(factory).connect()) as unknown as { client: { prepare(sql: string): { run(): unknown } } };
+    adapter.client.prepare("BEGIN").run();
+    adapter.client.prepare("SELECT 1").run();
+    expect(calls).toEqual(["prepare BEGIN IMMEDIATE", "prepare SELECT 1"]);
   });
 });
 
