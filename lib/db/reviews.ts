@@ -2,7 +2,7 @@ import { randomUUID } from "node:crypto";
 import { db } from "./client";
 import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import { idsContaining } from "./textSearch";
-import { appendAudit } from "./audit";
+import { appendAudit, type Tx } from "./audit";
 import { bytesToFloat64, float64ToBytes } from "./bytes";
 import type { ReviewComputation, ReviewResult } from "../review";
 import type { Outcome } from "../exposure/rules";
@@ -29,38 +29,41 @@ export interface NewReview {
 
 /** Stores a review and its audit entry in one transaction. */
 export async function createReview(r: NewReview): Promise<string> {
+  return db.$transaction((tx) => insertReview(tx, r));
+}
+
+/** A review and its audit entry inside the caller's transaction (a shipment stores all its reviews at once). */
+export async function insertReview(tx: Tx, r: NewReview): Promise<string> {
   const c = r.computation;
-  return db.$transaction(async (tx) => {
-    // Inserted as exact JSON text: Prisma 6.19's Json write rounds some doubles (see insertDefinition), and
-    // the stored result must hash, with the core series, to resultSha256. (A second database casts the JSON.)
-    const id = r.id ?? randomUUID().replace(/-/g, "");
-    const bytes = (a: Float64Array | undefined | null) => (a ? float64ToBytes(a) : null);
-    await tx.$executeRaw`INSERT INTO "Review" ("id", "title", "traceId", "productId", "packId", "limitsId", "options", "engineVersion", "result", "coreC", "surfaceC", "meanC", "coolantC", "resultSha256", "outcome", "status", "correctsId", "createdAt")
-      VALUES (${id}, ${r.title}, ${r.traceId}, ${r.productId}, ${r.packId ?? null}, ${r.limitsId}, ${JSON.stringify(r.options)}, ${r.engineVersion}, ${JSON.stringify(c.result)},
-              ${bytes(c.core_C)}, ${bytes(c.surface_C)}, ${bytes(c.mean_C)}, ${bytes(c.coolant_C)}, ${r.resultSha256}, ${c.result.outcome}, ${"open"}, ${r.correctsId ?? null}, ${new Date()})`;
-    const row = await tx.review.findUniqueOrThrow({ where: { id }, include: { trace: { select: { sha256: true } } } });
-    const { trace: _trace, ...stored } = row;
-    await appendAudit(tx, {
-      action: "run",
-      entity: "review",
-      entityId: row.id,
-      actor: r.actor ?? "web",
-      details: {
-        traceId: r.traceId,
-        traceSha256: row.trace.sha256,
-        productId: r.productId,
-        packId: r.packId ?? null,
-        limitsId: r.limitsId,
-        options: r.options,
-        engineVersion: r.engineVersion,
-        resultSha256: r.resultSha256,
-        outcome: c.result.outcome,
-        corrects: r.correctsId ?? null,
-      },
-      contentSha256: reviewContentHash(stored),
-    });
-    return row.id;
+  // Inserted as exact JSON text: Prisma 6.19's Json write rounds some doubles (see insertDefinition), and
+  // the stored result must hash, with the core series, to resultSha256. (A second database casts the JSON.)
+  const id = r.id ?? randomUUID().replace(/-/g, "");
+  const bytes = (a: Float64Array | undefined | null) => (a ? float64ToBytes(a) : null);
+  await tx.$executeRaw`INSERT INTO "Review" ("id", "title", "traceId", "productId", "packId", "limitsId", "options", "engineVersion", "result", "coreC", "surfaceC", "meanC", "coolantC", "resultSha256", "outcome", "status", "correctsId", "createdAt")
+    VALUES (${id}, ${r.title}, ${r.traceId}, ${r.productId}, ${r.packId ?? null}, ${r.limitsId}, ${JSON.stringify(r.options)}, ${r.engineVersion}, ${JSON.stringify(c.result)},
+            ${bytes(c.core_C)}, ${bytes(c.surface_C)}, ${bytes(c.mean_C)}, ${bytes(c.coolant_C)}, ${r.resultSha256}, ${c.result.outcome}, ${"open"}, ${r.correctsId ?? null}, ${new Date()})`;
+  const row = await tx.review.findUniqueOrThrow({ where: { id }, include: { trace: { select: { sha256: true } } } });
+  const { trace: _trace, ...stored } = row;
+  await appendAudit(tx, {
+    action: "run",
+    entity: "review",
+    entityId: row.id,
+    actor: r.actor ?? "web",
+    details: {
+      traceId: r.traceId,
+      traceSha256: row.trace.sha256,
+      productId: r.productId,
+      packId: r.packId ?? null,
+      limitsId: r.limitsId,
+      options: r.options,
+      engineVersion: r.engineVersion,
+      resultSha256: r.resultSha256,
+      outcome: c.result.outcome,
+      corrects: r.correctsId ?? null,
+    },
+    contentSha256: reviewContentHash(stored),
   });
+  return row.id;
 }
 
 export type ReviewChange = { ok: true } | { ok: false; reason: "not-found" | "signed" | "comment-required"; message: string };

@@ -6,7 +6,7 @@ import { appendAudit, type Tx } from "./audit";
 import { shipmentRowContentHash } from "../shipment/content";
 import { reviewContentHash } from "../review/content";
 import type { Outcome } from "../exposure/rules";
-import { COMMENT_REQUIRED_MESSAGE, DEFAULT_SIGN_MEANING, MIN_DIFFERING_COMMENT_CHARS } from "./reviews";
+import { COMMENT_REQUIRED_MESSAGE, DEFAULT_SIGN_MEANING, MIN_DIFFERING_COMMENT_CHARS, insertReview, type NewReview } from "./reviews";
 
 export interface ShipmentProductEntry {
   productId: string;
@@ -140,17 +140,24 @@ export async function attachTraces(shipmentId: string, links: ReadonlyArray<{ sh
   });
 }
 
-/** The outcome of a shipment review run and the reviews it stands on, in one transaction. */
-export async function recordShipmentRun(shipmentId: string, runId: string, links: ReadonlyArray<{ shipmentLoggerId: string; productId: string; reviewId: string }>, outcome: Outcome, result: unknown, actor: string) {
+/**
+ * A shipment review run in one transaction: every review with its audit entry, the links saying which
+ * logger and product each stands for, and the shipment's outcome. A failure stores none of it.
+ */
+export async function recordShipmentRun(shipmentId: string, runId: string, items: ReadonlyArray<{ shipmentLoggerId: string; productId: string; review: NewReview }>, outcome: Outcome, result: unknown, actor: string): Promise<string[]> {
   return db.$transaction(async (tx) => {
-    for (const l of links) {
-      const link = await tx.shipmentReview.create({ data: { shipmentId, runId, ...l } });
-      await appendAudit(tx, { action: "create", entity: "shipmentReview", entityId: link.id, actor, details: { shipmentId, runId, ...l }, contentSha256: shipmentRowContentHash("ShipmentReview", link) });
+    const reviewIds: string[] = [];
+    for (const item of items) {
+      const reviewId = await insertReview(tx, item.review);
+      reviewIds.push(reviewId);
+      const link = await tx.shipmentReview.create({ data: { shipmentId, runId, shipmentLoggerId: item.shipmentLoggerId, productId: item.productId, reviewId } });
+      await appendAudit(tx, { action: "create", entity: "shipmentReview", entityId: link.id, actor, details: { shipmentId, runId, shipmentLoggerId: item.shipmentLoggerId, productId: item.productId, reviewId }, contentSha256: shipmentRowContentHash("ShipmentReview", link) });
     }
     // exact JSON text (Prisma's Json write rounds some doubles; see insertDefinition)
     await tx.$executeRaw`UPDATE "Shipment" SET "outcome" = ${outcome}, "result" = ${JSON.stringify(result)} WHERE "id" = ${shipmentId}`;
     const row = await tx.shipment.findUniqueOrThrow({ where: { id: shipmentId } });
-    await appendAudit(tx, { action: "run", entity: "shipment", entityId: shipmentId, actor, details: { runId, outcome, reviews: links.map((l) => l.reviewId) }, contentSha256: shipmentRowContentHash("Shipment", row) });
+    await appendAudit(tx, { action: "run", entity: "shipment", entityId: shipmentId, actor, details: { runId, outcome, reviews: reviewIds }, contentSha256: shipmentRowContentHash("Shipment", row) });
+    return reviewIds;
   });
 }
 

@@ -7,7 +7,7 @@ import { runReview, tryRunReview, ENGINE_VERSION, REPRODUCIBLE_ENGINE_VERSIONS, 
 import { importTraceFile, optionsFromSettings, sha256Hex } from "../trace";
 import { getTrace, getTraceOriginal } from "../db/traces";
 import { getDefinition } from "../db/definitions";
-import { createReview, getReview, signReview } from "../db/reviews";
+import { createReview, getReview, signReview, type NewReview } from "../db/reviews";
 import { uncertaintySpecSchema } from "../uncertainty/monteCarlo";
 
 const isoTime = z.iso.datetime({ offset: true, message: "must be an ISO 8601 date-time with Z or an offset" });
@@ -122,7 +122,12 @@ export async function prepareReview(request: RunReviewRequest): Promise<PrepareO
 
 /** Stores a computed review with its run audit entry (one transaction). */
 export async function storeReview(p: PreparedReview, comp: ReviewComputation, actor: string, id?: string): Promise<string> {
-  return createReview({
+  return createReview(newReviewOf(p, comp, actor, id));
+}
+
+/** The stored form of a computed review (for storing several in one transaction, as a shipment does). */
+export function newReviewOf(p: PreparedReview, comp: ReviewComputation, actor: string, id?: string): NewReview {
+  return {
     id,
     title: p.title,
     traceId: p.traceId,
@@ -135,7 +140,7 @@ export async function storeReview(p: PreparedReview, comp: ReviewComputation, ac
     resultSha256: resultHash(comp.result, comp.core_C),
     correctsId: p.correctsId,
     actor,
-  });
+  };
 }
 
 /** Loads the exact stored inputs, runs the engine in this thread and stores the review (CLI, demo, tests). */

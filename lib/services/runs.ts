@@ -24,6 +24,8 @@ interface ReviewJobData {
 type ReviewJobOutput = { reviewId: string } | { failed: string } | { cancelled: true };
 
 const queued = () => dbKind() === "postgres";
+/** A shipment run is kept in this process on either database (it stores all its reviews in one transaction at the end). */
+const localShipmentRun = (id: string) => runs.get(id)?.kind === "shipment";
 const queue = () => import("../db/jobQueue");
 /** The review id a queued run stores under: its job id without dashes (the form of every review id). */
 const reviewIdOfJob = (jobId: string) => jobId.replace(/-/g, "");
@@ -157,7 +159,7 @@ function forgetOldRuns(now = Date.now()): void {
 
 export async function getRun(id: string): Promise<RunState | undefined> {
   const r = runs.get(id);
-  if (!queued()) return r && publicState(r);
+  if (!queued() || localShipmentRun(id)) return r && publicState(r);
   const job = await (await queue()).getJob<ReviewJobData>(REVIEW_QUEUE, id);
   if (!job) return undefined;
   const base: RunState = { id, kind: "review", title: job.data.title, status: "running", progress: r?.progress ?? 0, started_at: job.data.requested_at };
@@ -181,7 +183,7 @@ export async function getRun(id: string): Promise<RunState | undefined> {
 
 /** Waits until the run ends or `ms` pass, whichever is first. */
 export async function waitForRun(id: string, ms: number): Promise<RunState | undefined> {
-  if (queued()) {
+  if (queued() && !localShipmentRun(id)) {
     const until = Date.now() + ms;
     for (;;) {
       const s = await getRun(id);
@@ -201,7 +203,7 @@ export type CancelOutcome = { ok: true; run: RunState } | { ok: false; reason: "
 
 /** Cancels a running run: its worker ends, nothing is stored, and an audit entry says so. */
 export async function cancelRun(id: string): Promise<CancelOutcome> {
-  if (queued()) {
+  if (queued() && !localShipmentRun(id)) {
     const before = await getRun(id);
     if (!before) return { ok: false, reason: "not-found" };
     if (before.status !== "running") return { ok: false, reason: "not-running", run: before };

@@ -12,7 +12,7 @@ import {
   addShipmentLoggers, createLane, createLogger, createShipment, getShipment, laneByName, loggersBySerial, newRunId, recordShipmentRun, signShipment, updateLogger,
   type ShipmentLoggerInput,
 } from "../db/shipments";
-import { prepareReview, signOffSchema, storeReview, type PreparedReview } from "./reviews";
+import { newReviewOf, prepareReview, signOffSchema, type PreparedReview } from "./reviews";
 import { runReviewInPool } from "./enginePool";
 import { startShipmentRun, type RunState } from "./runs";
 
@@ -236,8 +236,8 @@ export function combineStored(planned: ReadonlyArray<{ shipmentLoggerId: string;
 
 /**
  * Starts the shipment review in the background: every logger × product review in the engine pool (as many
- * at once as the pool has threads), then, when all have finished, each stored as a review and the shipment's
- * outcome recorded. A failure or cancel before the end stores nothing.
+ * at once as the pool has threads), then, when all have finished, every review, its link and the shipment's
+ * outcome in one transaction. A failure or cancel stores nothing (a cancel is audited as such).
  */
 export async function startShipmentReview(shipmentId: string, actor: string): Promise<{ ok: true; run: RunState } | { ok: false; message: string }> {
   const plan = await planShipmentReview(shipmentId);
@@ -255,15 +255,15 @@ export async function startShipmentReview(shipmentId: string, actor: string): Pr
     const failed = computed.find((c) => !c.attempt.ok);
     if (failed && !failed.attempt.ok) return { ok: false, message: `${failed.r.prepared.title}: ${failed.attempt.message}` };
     if (signal.aborted) throw signal.reason;
-    const stored: Array<{ shipmentLoggerId: string; productId: string; reviewId: string }> = [];
+    const items = [];
     const results = [];
     for (const c of computed) {
       const comp = (c.attempt as { ok: true; computation: ReviewComputation }).computation;
-      stored.push({ shipmentLoggerId: c.r.shipmentLoggerId, productId: c.r.productId, reviewId: await storeReview(c.r.prepared, comp, actor) });
+      items.push({ shipmentLoggerId: c.r.shipmentLoggerId, productId: c.r.productId, review: newReviewOf(c.r.prepared, comp, actor) });
       results.push({ shipmentLoggerId: c.r.shipmentLoggerId, position: c.r.position, productId: c.r.productId, governing: c.r.governing, result: comp.result });
     }
     const combined = combineStored(results);
-    await recordShipmentRun(shipmentId, newRunId(), stored, combined.outcome, combined, actor);
+    await recordShipmentRun(shipmentId, newRunId(), items, combined.outcome, combined, actor);
     return { ok: true };
   });
   return { ok: true, run };
