@@ -135,6 +135,20 @@ describe("batch import onto a shipment", () => {
     expect(await db.trace.count()).toBe(before + 2);
   });
 
+  it("a setting fixed for one file applies to that file only; one fixed for all applies to every file", async () => {
+    const { previewBatch } = await import("@/lib/services/batch");
+    const shipmentId = await newShipment("SETTINGS-1");
+    // no unit in the header: °C unless told; the second file is in °F
+    const csv = (v: string) => `Time,Air\n2026-06-16T04:00:00Z,${v}\n2026-06-16T04:02:00Z,${v}\n2026-06-16T04:04:00Z,${v}\n`;
+    const files = [{ name: "c.csv", bytes: new TextEncoder().encode(csv("3.0")) }, { name: "f.csv", bytes: new TextEncoder().encode(csv("37.4")) }];
+    const one = await previewBatch(shipmentId, files, { perFile: { "f.csv": { unit: "F" } } });
+    if ("error" in one) throw new Error(one.error);
+    expect(one.rows.map((r) => r.settings!.airUnit)).toEqual(["C", "F"]);
+    const all = await previewBatch(shipmentId, files, { all: { timeZone: "Europe/Lisbon" }, perFile: { "f.csv": { unit: "F" } } });
+    if ("error" in all) throw new Error(all.error);
+    expect(all.rows.map((r) => [r.settings!.timeZone, r.settings!.airUnit])).toEqual([["Europe/Lisbon", "C"], ["Europe/Lisbon", "F"]]);
+  });
+
   it("refuses a zip that would unpack beyond the limit before inflating it", async () => {
     const { expandUploads, MAX_ZIP_ENTRY_BYTES } = await import("@/lib/services/batch");
     // 51 MB of zeros compresses to about 50 kB
