@@ -1,10 +1,11 @@
 import Papa from "papaparse";
 import { decodeText } from "./decode";
+import { forEachRow } from "./rows";
 import { TraceImportError } from "./errors";
 import { DELIMITERS, type ImportOptions, type ResolvedImportSettings } from "./settings";
 import { DEFAULT_GAP_MULTIPLE, findGaps, type Gap, type TraceSeries } from "./series";
-import { parseTimeOfDay_s, parseWallClock, slashDateParts, wallAsUtcMs, YEAR_RANGE, ZoneResolver, type DateOrder } from "./timestamps";
-import { detectDecimal, isMissingToken, parseReading, toCelsius, unitFromHeader, type TemperatureUnit } from "./values";
+import { isoWallMs, parseTimeOfDay_s, parseWallClock, slashDateParts, wallAsUtcMs, YEAR_RANGE, ZoneResolver, type DateOrder } from "./timestamps";
+import { detectDecimal, isMissingToken, parseReading, plainReading, toCelsius, unitFromHeader, type TemperatureUnit } from "./values";
 
 /** Readings outside this range are flagged and excluded, never clipped (common-practice default, °C). */
 export const PLAUSIBLE_RANGE_C = { min: -60, max: 80 } as const;
@@ -27,7 +28,13 @@ export interface TraceImport {
 
 type Delimiter = (typeof DELIMITERS)[number];
 const MAX_LISTED = 5;
-const PLAIN_READING = /^-?\d{1,4}\.\d{1,6}$/;
+/**
+ * Repeated timestamps a file may hold beyond its distinct ones. An export appended to itself once
+ * doubles every row and is still read (with a warning); millions of copies of a few samples (a stuck
+ * clock, or a crafted file: 5 million rows for a 2-sample trace) are refused, so the work and memory
+ * of an import stay in proportion to the trace it yields.
+ */
+export const DUPLICATE_ROWS_ALLOWED = 1000;
 const HEAD_BYTES = 1 << 20;
 const TIME_HEADER = /time|date|stamp|zeit|heure|hora|datum|elapsed|epoch|unix/i;
 const PRODUCT_HEADER = /product|produkt|produit|producto|probe|core|simulant|food|sample|item/i;
@@ -143,9 +150,23 @@ function columnIndex(header: string[], name: string, what: string): number {
   return i;
 }
 
-function listRows(rows: number[]): string {
+function listRows(rows: number[], count = rows.length): string {
   const shown = rows.slice(0, MAX_LISTED).join(", ");
-  return rows.length > MAX_LISTED ? `${shown}, and ${rows.length - MAX_LISTED} more` : shown;
+  return count > MAX_LISTED ? `${shown}, and ${count - MAX_LISTED} more` : shown;
+}
+
+/** The MAX_LISTED smallest row numbers of both lists, in order (one pass: the lists can hold millions). */
+function firstRows(a: readonly number[], b: readonly number[]): number[] {
+  const out: number[] = [];
+  for (const list of [a, b]) {
+    for (const r of list) {
+      if (out.length === MAX_LISTED && r >= out[MAX_LISTED - 1]!) continue;
+      out.push(r);
+      out.sort((x, y) => x - y);
+      if (out.length > MAX_LISTED) out.pop();
+    }
+  }
+  return out;
 }
 
 /** Start time written in the metadata lines above the header ("Start time: 2026-03-01 08:00"), if any. */
@@ -343,6 +364,8 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
     if (m) metadata.push(m);
   }
   const extraMissing = new Set(s.missing);
+  /** cells in the PLAIN layout can be read without missing-code, suffix or separator handling */
+  const plainCells = s.decimal === "." && extraMissing.size === 0;
   const zone = new ZoneResolver(s.timeZone);
   const startMs = s.startTime ? Date.parse(s.startTime) : Number.NaN;
   const elapsedScale = s.timeFormat === "elapsed-min" ? 60_000 : s.timeFormat === "elapsed-h" ? 3_600_000 : 1000;
@@ -404,6 +427,7 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
     // time
     const tText = row[p.timeIdx]!;
     let ms: number;
+    let wallMs: number;
     if (s.timeFormat === "datetime") {
       if (p.dateIdx >= 0) {
         const dText = row[p.dateIdx]!;
@@ -412,10 +436,15 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
         if (d!.y < YEAR_RANGE.min || d!.y > YEAR_RANGE.max) fail(`row ${rowNo}, column '${s.dateColumn}': '${show(dText)}' is outside the years ${YEAR_RANGE.min}–${YEAR_RANGE.max}; was the logger's clock set?`, rowNo, s.dateColumn);
         const sod = parseTimeOfDay_s(tText);
         if (Number.isNaN(sod)) fail(`row ${rowNo}, column '${s.timeColumn}': '${show(tText)}' is not a time of day`, rowNo, s.timeColumn);
-        const wallMs = wallAsUtcMs(d!) + sod * 1000;
+        wallMs = wallAsUtcMs(d!) + sod * 1000;
         const w = new Date(wallMs);
         withoutOffset++;
         ms = zone.toEpochMs({ y: w.getUTCFullYear(), mo: w.getUTCMonth() + 1, d: w.getUTCDate(), h: w.getUTCHours(), mi: w.getUTCMinutes(), s: w.getUTCSeconds(), ms: w.getUTCMilliseconds() }, prevMs);
+      } else if ((wallMs = isoWallMs(tText)) === wallMs) {
+        // the common layout, read without building a WallClock (same instant as the general path below)
+        const utc = tText.charCodeAt(tText.length - 1) === 90;
+        if (!utc) withoutOffset++;
+        ms = zone.wallToEpochMs(wallMs, utc ? 0 : undefined, prevMs);
       } else {
         const w = parseWallClock(tText, s.dateOrder);
         if (!w) fail(`row ${rowNo}, column '${s.timeColumn}': '${show(tText)}' is not a date and time`, rowNo, s.timeColumn);
@@ -448,7 +477,7 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
       const ch = cols[c]!;
       const cell = row[ch.idx]!;
       let v = Number.NaN;
-      const quick = s.decimal === "." && !extraMissing.size && PLAIN_READING.test(cell) ? +cell : Number.NaN;
+      const quick = plainCells ? plainReading(cell) : Number.NaN;
       if (quick === quick) {
         // the common plain cell ("4.25"): no missing-code, suffix or separator handling needed
         v = toCelsius(quick, ch.unit);
@@ -483,21 +512,10 @@ export function importCsv(bytes: Uint8Array, options: ImportOptions = {}, onProg
     if (onProgress && (n & 0xffff) === 0) onProgress(cursor / total);
   };
 
-  let err: unknown = null;
-  Papa.parse<string[]>(text, {
-    delimiter,
-    skipEmptyLines: false,
-    step: (res, parser) => {
-      try {
-        if (res.errors.length > 0) fail(`row ${rowNo + 1}: ${res.errors[0]!.message.toLowerCase()} (a quote opened but not closed?)`, rowNo + 1);
-        handle(res.data, res.meta.cursor);
-      } catch (e) {
-        err = e;
-        parser.abort();
-      }
-    },
+  forEachRow(text, delimiter, (row, cursor, problem) => {
+    if (problem !== undefined) fail(`row ${rowNo + 1}: ${problem.toLowerCase()} (a quote opened but not closed?)`, rowNo + 1);
+    handle(row, cursor);
   });
-  if (err) throw err;
   onProgress?.(1);
   if (n < 2) fail("the file has fewer than two data rows");
 
@@ -547,6 +565,13 @@ function orderAndDeduplicate(times: Float64Array, vals: Float64Array, k: number,
     t[m] = times[i]!;
     for (let c = 0; c < k; c++) v[m * k + c] = vals[i * k + c]!;
     m++;
+  }
+  const repeated = exact.length + conflicting.length;
+  if (repeated > Math.max(DUPLICATE_ROWS_ALLOWED, m)) {
+    fail(
+      `${repeated} rows repeat a timestamp already read (rows ${listRows(firstRows(exact, conflicting), repeated)}), more than the ${m} distinct sample(s) the file holds: ` +
+        `a file may repeat at most as many rows as it has distinct timestamps, or ${DUPLICATE_ROWS_ALLOWED}; check the export (was it appended to itself, or is the logger's clock stuck?)`,
+    );
   }
   if (exact.length) warnings.push(`${exact.length} exact duplicate row(s) dropped (rows ${listRows(exact)})`);
   if (conflicting.length) {

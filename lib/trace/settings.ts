@@ -31,7 +31,7 @@ export const importOptionsSchema = z.object({
   /** a product-probe (or product-simulant) channel */
   productColumn: z.string().min(1).optional(),
   /** columns to leave out (neither air nor product) */
-  ignoreColumns: z.array(z.string()).optional(),
+  ignoreColumns: z.array(z.string()).max(200, { message: "at most 200 columns may be left out" }).optional(),
   /** unit of the temperature columns; detected from the headers when absent, else °C */
   unit: z.enum(["C", "F", "K"], { error: "unit must be C, F or K" }).optional(),
   decimal: z.enum([".", ","], { error: "decimal separator must be . or ," }).optional(),

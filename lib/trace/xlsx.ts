@@ -33,11 +33,6 @@ export function checkWorkbookSize(bytes: Uint8Array, limit = MAX_WORKBOOK_INFLAT
   return total;
 }
 
-/** A .xlsx workbook is a zip archive: it starts with the local-file signature PK\x03\x04. */
-export function looksLikeXlsx(bytes: Uint8Array): boolean {
-  return bytes[0] === 0x50 && bytes[1] === 0x4b && bytes[2] === 0x03 && bytes[3] === 0x04;
-}
-
 const pad = (n: number, w = 2) => String(n).padStart(w, "0");
 
 /**

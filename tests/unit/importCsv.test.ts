@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { readFileSync } from "node:fs";
 import path from "node:path";
-import { importCsv, TraceImportError } from "@/lib/trace";
+import { DUPLICATE_ROWS_ALLOWED, importCsv, TraceImportError } from "@/lib/trace";
 import { expectClose } from "../helpers/numeric";
 
 const enc = (s: string) => new TextEncoder().encode(s);
@@ -65,6 +65,26 @@ describe("importCsv", () => {
     const r = importCsv(enc("Time,Temp\n2026-01-01T00:02:00Z,6\n2026-01-01T00:00:00Z,4\n2026-01-01T00:00:00Z,4\n2026-01-01T00:01:00Z,5\n"));
     expect(Array.from(r.series.air_C)).toEqual([4, 5, 6]);
     expect(r.warnings.join(" ")).toMatch(/sorted.*1 exact duplicate row\(s\) dropped \(rows 4\)/);
+  });
+
+  it("importCsv refuses more repeated rows than distinct samples (and over 1,000), naming the limit and the first rows", () => {
+    const head = "Time,Temp\n2026-01-01T00:00:00Z,4\n2026-01-01T00:01:00Z,5\n"; // rows 2 and 3
+    const copies = (k: number) => head + "2026-01-01T00:01:00Z,5\n".repeat(k);
+    // 1,000 copies of a 2-sample trace: at the allowance, read with a warning
+    const ok = importCsv(enc(copies(DUPLICATE_ROWS_ALLOWED)));
+    expect(ok.series.t_s.length).toBe(2);
+    expect(ok.warnings.join(" ")).toContain("1000 exact duplicate row(s) dropped (rows 4, 5, 6, 7, 8, and 995 more)");
+    // one more: refused; rows 4… are the copies (row 1 is the header)
+    expect(refused(copies(DUPLICATE_ROWS_ALLOWED + 1))).toBe(
+      "1001 rows repeat a timestamp already read (rows 4, 5, 6, 7, 8, and 996 more), more than the 2 distinct sample(s) the file holds: " +
+        "a file may repeat at most as many rows as it has distinct timestamps, or 1000; check the export (was it appended to itself, or is the logger's clock stuck?)",
+    );
+    // an export appended to itself once (every row twice, 2,000 distinct) is still read
+    let body = "";
+    for (let i = 0; i < 2000; i++) body += `${new Date(Date.UTC(2026, 0, 1) + i * 60_000).toISOString()},4\n`;
+    const doubled = importCsv(enc(`Time,Temp\n${body}${body}`));
+    expect(doubled.series.t_s.length).toBe(2000);
+    expect(doubled.warnings.join(" ")).toMatch(/sorted.*2000 exact duplicate row\(s\) dropped/);
   });
 
   it("importCsv refuses empty and header-only files", () => {
