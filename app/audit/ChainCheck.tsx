@@ -1,15 +1,20 @@
-import Link from "next/link";
-import { checkStoredRecords } from "@/lib/services/verify";
+import { checkRecordsLight, checkStoredRecords, lastChainCheck } from "@/lib/services/verify";
 import { AnchorStatus } from "./AnchorStatus";
+import { ChainCheckButton } from "./ChainCheckButton";
 import { formatTime } from "@/lib/display/time";
 
 /**
- * The chain's head (cheap: a count and the newest hash) and, only when asked, the full check that
- * `corelag verify` makes without re-running reviews: every entry's hash, link and signature, and every
- * record against its latest entry. Doing that on every view would grow with the log.
+ * The chain's head, the last full check recorded in the log (the head it verified), and the entries
+ * after that head checked on this view (hash, link, signature): the work of a view grows with what was
+ * added since the last full check, not with the log. The full check (every entry, signature, record and
+ * original file) is the button, which records its result, and `corelag verify`. `?verify=1` runs the
+ * full check without recording it.
  */
 export async function ChainCheck({ head, verify, zone }: { head: { entries: number; seq: number | null; hash: string | null; at: Date | null }; verify: boolean; zone: string }) {
   const check = verify ? await checkStoredRecords() : null;
+  const light = check ? null : await checkRecordsLight();
+  const last = await lastChainCheck();
+  const t = (iso: string | Date) => formatTime(iso, zone, { seconds: true });
   return (
     <div data-testid="chain-check">
       <p data-testid="chain-head">
@@ -30,7 +35,23 @@ export async function ChainCheck({ head, verify, zone }: { head: { entries: numb
           </div>
         )
       ) : (
-        <p className="no-print"><Link href="/audit?verify=1" data-testid="verify-chain">Re-check the whole chain now</Link> <span className="muted">(re-hashes every entry and checks every signature and record)</span></p>
+        <>
+          <p data-testid="chain-last-full">
+            {last
+              ? last.ok
+                ? <>Last full check: {t(last.at)} by {last.actor} (entry #{last.seq}): the chain was intact and signed up to entry #{last.head_seq}, and every record matched.</>
+                : <span className="status-fail">Last full check: {t(last.at)} by {last.actor} (entry #{last.seq}) found {last.findings} problem(s); run the full check again, or <code>corelag verify</code>, for the list.</span>
+              : <>No full check recorded yet.</>}
+          </p>
+          {light && (
+            <p data-testid="chain-since" className={light.findings.length === 0 ? "status-pass" : "status-fail"}>
+              {light.findings.length === 0
+                ? <>Checked on this view ({t(light.checked_at)}): {light.from ? <>entry #{light.from.head.seq} still has the hash verified {light.from.source === "log" ? "by that check" : <>by this server at {t(light.from.checked_at)}</>}, {light.entriesChecked === 0 ? "and no entry was added after it." : <>and the {light.entriesChecked} entr{light.entriesChecked === 1 ? "y" : "ies"} after it {light.entriesChecked === 1 ? "is" : "are"} linked and signed.</>}</> : <>all {light.entriesChecked} entries are linked and signed (no earlier verified head to start from).</>}</>
+                : <>Checked on this view: {light.findings.length} problem(s): {light.findings.slice(0, 5).map((f) => f.message).join("; ")}{light.findings.length > 5 ? "; …" : ""}. Run the full check.</>}
+            </p>
+          )}
+          <ChainCheckButton zone={zone} />
+        </>
       )}
       <AnchorStatus />
       <p className="muted">Each entry carries the SHA-256 of the one before it and of the record it wrote, and is signed with a key kept outside the database; the database refuses edits and deletions. <code>npm run -s corelag -- verify</code> also re-runs every stored review to confirm that it reproduces bit for bit.</p>

@@ -9,7 +9,7 @@ import { auditSummary } from "@/lib/review/auditSummary";
 
 export const dynamic = "force-dynamic";
 
-const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review", key: "signing key" };
+const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review", key: "signing key", chain: "audit chain" };
 
 export default async function AuditPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const raw = await searchParams;
@@ -58,7 +58,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                 <tr key={e.seq} data-testid={`audit-row-${e.seq}`}>
                   <td className="num">{e.seq}</td>
                   <td style={{ whiteSpace: "nowrap" }}>{formatTime(e.at, zone, { seconds: true })}</td>
-                  <td>{e.action}{e.format && <> <span data-testid="audit-format">({e.format})</span></>}{e.action === "verify" && <> <strong className={(e.details as { reproduced?: boolean }).reproduced ? "status-pass" : "status-fail"}>{(e.details as { reproduced?: boolean }).reproduced ? "reproduced" : "did not reproduce"}</strong></>}</td>
+                  <td>{e.action}{e.format && <> <span data-testid="audit-format">({e.format})</span></>}{e.action === "verify" && e.entity === "chain" && <> <strong className={(e.details as { ok?: boolean }).ok ? "status-pass" : "status-fail"}>{(e.details as { ok?: boolean }).ok ? "chain intact" : "problems found"}</strong></>}{e.action === "verify" && e.entity !== "chain" && <> <strong className={(e.details as { reproduced?: boolean }).reproduced ? "status-pass" : "status-fail"}>{(e.details as { reproduced?: boolean }).reproduced ? "reproduced" : "did not reproduce"}</strong></>}</td>
                   <td>
                     {e.entity === "key" ? "" : <>{ENTITY_WORDS[e.entity] ?? e.entity}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}</>}
                     {e.subject.href && e.subject.name ? <Link href={e.subject.href} data-testid="audit-subject">{e.subject.name}</Link> : e.subject.name ?? <span className="muted">not found</span>}

@@ -10,8 +10,8 @@ export type Tx = Prisma.TransactionClient;
 
 export interface AuditEvent {
   action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel" | "readings" | "raise" | "clear" | "deliver" | "close";
-  /** "run": a background run that stored nothing (cancelled); its entityId is the run's id */
-  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview";
+  /** "run": a background run that stored nothing (cancelled); its entityId is the run's id. "chain": a full check of the chain (entityId: the head checked) */
+  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview" | "chain";
   entityId: string;
   /** who did it: the reviewer's name at sign-off, "web" or "cli" otherwise (there are no accounts yet) */
   actor: string;
@@ -128,6 +128,17 @@ export async function logOriginalDownload(traceId: string, sha256: string): Prom
 /** Records the result of re-checking a stored review (re-import and re-run, as `corelag verify --review` does). */
 export async function logRecheck(reviewId: string, actor: string, details: { reproduced: boolean; problems: string[]; engineVersion: string; resultSha256: string }): Promise<AuditEntryRecord> {
   return db.$transaction((tx) => appendAudit(tx, { action: "verify", entity: "review", entityId: reviewId, actor, details }));
+}
+
+/** A full check of the chain (the audit page's button), recorded with its result: later views verify from its head. */
+export async function logChainCheck(actor: string, details: { ok: boolean; head_seq: number | null; head_hash: string | null; key_fingerprint: string | null; findings: number; problems: string[] }): Promise<AuditEntryRecord> {
+  return db.$transaction((tx) => appendAudit(tx, { action: "verify", entity: "chain", entityId: details.head_seq === null ? "empty" : String(details.head_seq), actor, details }));
+}
+
+/** The newest full chain check recorded in the log, as stored; null when there is none. Its integrity is checked by the light check that starts from it (it lies after the head it verified). */
+export async function lastChainCheckEntry(): Promise<AuditEntryRecord | null> {
+  const e = await db.auditEntry.findFirst({ where: { action: "verify", entity: "chain" }, orderBy: { seq: "desc" } });
+  return e ? { seq: e.seq, at: e.at, action: e.action, entity: e.entity, entityId: e.entityId, actor: e.actor, details: e.details, prevHash: e.prevHash, hash: e.hash } : null;
 }
 
 /**

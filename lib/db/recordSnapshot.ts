@@ -33,9 +33,13 @@ export function toEntry(r: Raw): AuditEntryRecord {
   const at = new Date(when(r.at));
   return { seq: Number(r.seq), at, action: str(r.action), entity: str(r.entity), entityId: str(r.entityId), actor: str(r.actor), details: json(r.details), prevHash: str(r.prevHash), hash: str(r.hash) };
 }
-export function toTrace(r: Raw): TraceRowContent {
+/** Every column toTrace reads but the original bytes: a light check names them so the bytes are never fetched. */
+export const TRACE_COLUMNS_BUT_ORIGINAL = `"id", "name", "fileName", "sha256", "importSettings", "timesS", "airC", "probeC", "sampleCount", "startAt", "endAt", "warnings", "createdAt"`;
+
+/** A trace row as content; without `withOriginal` (a light check) the original bytes are not read and stay null. */
+export function toTrace(r: Raw, withOriginal = true): TraceRowContent {
   return {
-    id: str(r.id), name: str(r.name), fileName: str(r.fileName), sha256: str(r.sha256), original: bytes(r.original), importSettings: json(r.importSettings),
+    id: str(r.id), name: str(r.name), fileName: str(r.fileName), sha256: str(r.sha256), original: withOriginal ? bytes(r.original) : null, importSettings: json(r.importSettings),
     timesS: bytes(r.timesS), airC: bytes(r.airC), probeC: blob(r.probeC), sampleCount: Number(r.sampleCount), startAt: when(r.startAt), endAt: when(r.endAt),
     warnings: json(r.warnings), createdAt: when(r.createdAt),
   };
@@ -80,6 +84,30 @@ export interface SnapshotOptions {
   url?: string;
   scope?: ReadonlySet<string>;
   storageChecks?: boolean;
+  /** a light check: only this part of the chain (see ChainPart) */
+  chain?: ChainPart;
+  /** false: leave the traces' original bytes in the database (the stored SHA-256 stands for them) */
+  originals?: boolean;
+}
+
+/**
+ * Which part of the chain a light check reads: the entries from `fromSeq` on (the verified head and the
+ * tail after it), plus entry 1 (names the chain), every key entry (the key in force), the scoped rows' own
+ * entries and any other asked for in `seqs` (an anchor's).
+ */
+export interface ChainPart {
+  fromSeq: number;
+  seqs?: number[];
+}
+
+/** The WHERE condition of a light check's entries, with its parameters in order ("?" placeholders). */
+export function chainPartCondition(part: ChainPart, ids: string[] | null): { sql: string; params: unknown[] } {
+  const extra = part.seqs ?? [];
+  const sql =
+    `"seq" >= ? OR "seq" = 1 OR "action" = 'key'` +
+    (ids ? ` OR "entityId" IN (${ids.map(() => "?").join(",") || "NULL"})` : "") +
+    (extra.length ? ` OR "seq" IN (${extra.map(() => "?").join(",")})` : "");
+  return { sql, params: [part.fromSeq, ...(ids ?? []), ...extra] };
 }
 
 /**
@@ -159,11 +187,21 @@ function readSqliteSnapshot(opts: SnapshotOptions): SnapshotRead {
         storage.push({ kind: "table-unreadable", table, message: `${table}: reading stopped after ${into.length} rows (${(e as Error).message})` });
       }
     };
-    read("AuditEntry", `SELECT * FROM "AuditEntry" ORDER BY "seq"`, toEntry, snapshot.entries);
-    read("AuditSignature", `SELECT * FROM "AuditSignature" ORDER BY "seq"`, (r) => ({ seq: Number(r.seq), keyFingerprint: str(r.keyFingerprint), signature: str(r.signature) }) as SignatureRecord, snapshot.signatures);
+    const toSignature = (r: Raw) => ({ seq: Number(r.seq), keyFingerprint: str(r.keyFingerprint), signature: str(r.signature) }) as SignatureRecord;
     const ids = opts.scope ? [...opts.scope] : null;
+    if (opts.chain) {
+      const c = chainPartCondition(opts.chain, ids);
+      read("AuditEntry", `SELECT * FROM "AuditEntry" WHERE ${c.sql} ORDER BY "seq"`, toEntry, snapshot.entries, c.params);
+      read("AuditSignature", `SELECT * FROM "AuditSignature" WHERE "seq" >= ? OR "seq" IN (SELECT "seq" FROM "AuditEntry" WHERE ${c.sql}) ORDER BY "seq"`, toSignature, snapshot.signatures, [opts.chain.fromSeq, ...c.params]);
+      snapshot.partial = { fromSeq: opts.chain.fromSeq };
+    } else {
+      read("AuditEntry", `SELECT * FROM "AuditEntry" ORDER BY "seq"`, toEntry, snapshot.entries);
+      read("AuditSignature", `SELECT * FROM "AuditSignature" ORDER BY "seq"`, toSignature, snapshot.signatures);
+    }
     const where = ids ? ` WHERE "id" IN (${ids.map(() => "?").join(",") || "NULL"})` : "";
-    read("Trace", `SELECT * FROM "Trace"${where}`, toTrace, snapshot.traces, ids ?? []);
+    // a light check leaves the original bytes (up to 200 MB) in the database: the stored SHA-256 stands for them
+    const withOriginal = opts.originals !== false;
+    read("Trace", `SELECT ${withOriginal ? "*" : TRACE_COLUMNS_BUT_ORIGINAL} FROM "Trace"${where}`, (r) => toTrace(r, withOriginal), snapshot.traces, ids ?? []);
     read("Definition", `SELECT * FROM "Definition"${where}`, toDefinition, snapshot.definitions, ids ?? []);
     read("Review", `SELECT * FROM "Review"${where}`, toReview, snapshot.reviews, ids ?? []);
     // the shipment tables (absent from a database older than migration 20261202100000_shipments)

@@ -5,7 +5,7 @@
 import pg from "pg";
 import type { Finding, SignatureRecord } from "../review/records";
 import { pgConnection } from "./pgAdapter";
-import { emptySnapshot, toDefinition, toEntry, toReview, toShipmentRow, toTrace, type Raw, type SnapshotOptions, type SnapshotRead } from "./recordSnapshot";
+import { chainPartCondition, TRACE_COLUMNS_BUT_ORIGINAL, emptySnapshot, toDefinition, toEntry, toReview, toShipmentRow, toTrace, type Raw, type SnapshotOptions, type SnapshotRead } from "./recordSnapshot";
 import { SHIPMENT_TABLES, type ShipmentTable } from "../review/content";
 
 const TIMESTAMP = 1114; // timestamp without time zone: Prisma stores UTC
@@ -45,12 +45,26 @@ export async function readPgSnapshot(url: string, opts: SnapshotOptions): Promis
       }
     };
     // JSON columns are read as text and parsed like the SQLite reader does, so both compare the same values.
-    await read("AuditEntry", `SELECT "seq", "at", "action", "entity", "entityId", "actor", "details"::text AS "details", "prevHash", "hash" FROM "AuditEntry" ORDER BY "seq"`, toEntry, snapshot.entries);
-    await read("AuditSignature", `SELECT * FROM "AuditSignature" ORDER BY "seq"`, (r) => ({ seq: Number(r.seq), keyFingerprint: String(r.keyFingerprint), signature: String(r.signature) }) as SignatureRecord, snapshot.signatures);
+    const entryCols = `"seq", "at", "action", "entity", "entityId", "actor", "details"::text AS "details", "prevHash", "hash"`;
+    const toSignature = (r: Raw) => ({ seq: Number(r.seq), keyFingerprint: String(r.keyFingerprint), signature: String(r.signature) }) as SignatureRecord;
     const ids = opts.scope ? [...opts.scope] : null;
+    if (opts.chain) {
+      // the same part of the chain as the SQLite reader (chainPartCondition), with PostgreSQL's placeholders
+      const c = chainPartCondition(opts.chain, ids);
+      let n = 0;
+      const sql = c.sql.replace(/\?/g, () => `$${++n}`);
+      await read("AuditEntry", `SELECT ${entryCols} FROM "AuditEntry" WHERE ${sql} ORDER BY "seq"`, toEntry, snapshot.entries, c.params);
+      await read("AuditSignature", `SELECT * FROM "AuditSignature" WHERE "seq" IN (SELECT "seq" FROM "AuditEntry" WHERE ${sql}) OR "seq" >= $1 ORDER BY "seq"`, toSignature, snapshot.signatures, c.params);
+      snapshot.partial = { fromSeq: opts.chain.fromSeq };
+    } else {
+      await read("AuditEntry", `SELECT ${entryCols} FROM "AuditEntry" ORDER BY "seq"`, toEntry, snapshot.entries);
+      await read("AuditSignature", `SELECT * FROM "AuditSignature" ORDER BY "seq"`, toSignature, snapshot.signatures);
+    }
     const where = ids ? ` WHERE "id" = ANY($1::text[])` : "";
     const params = ids ? [ids] : [];
-    await read("Trace", `SELECT *, "importSettings"::text AS "importSettings", "warnings"::text AS "warnings" FROM "Trace"${where}`, toTrace, snapshot.traces, params);
+    // a light check leaves the original bytes in the database: the stored SHA-256 stands for them
+    const withOriginal = opts.originals !== false;
+    await read("Trace", `SELECT ${withOriginal ? "*" : TRACE_COLUMNS_BUT_ORIGINAL}, "importSettings"::text AS "importSettings", "warnings"::text AS "warnings" FROM "Trace"${where}`, (r) => toTrace(r, withOriginal), snapshot.traces, params);
     await read("Definition", `SELECT *, "body"::text AS "body" FROM "Definition"${where}`, toDefinition, snapshot.definitions, params);
     await read("Review", `SELECT *, "options"::text AS "options", "result"::text AS "result" FROM "Review"${where}`, toReview, snapshot.reviews, params);
     // the shipment tables (issue 15), JSON columns as text like the SQLite reader

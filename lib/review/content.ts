@@ -13,7 +13,11 @@ export interface TraceRowContent {
   fileName: string;
   /** the stored SHA-256 column (checked separately against the bytes) */
   sha256: string;
-  original: Uint8Array;
+  /**
+   * the original file's bytes; null in a light check (a page view), where the stored `sha256` column
+   * stands in for their hash and the bytes are compared with it only by a re-check or `corelag verify`
+   */
+  original: Uint8Array | null;
   importSettings: unknown;
   timesS: Uint8Array;
   airC: Uint8Array;
@@ -77,7 +81,7 @@ export function traceContent(r: TraceRowContent) {
     name: r.name,
     fileName: r.fileName,
     sha256: r.sha256,
-    originalSha256: sha256Hex(r.original),
+    originalSha256: r.original ? sha256Hex(r.original) : r.sha256,
     series: { timesS: sha256Hex(r.timesS), airC: sha256Hex(r.airC), probeC: blobHash(r.probeC) },
     importSettings: r.importSettings,
     sampleCount: r.sampleCount,

@@ -74,6 +74,11 @@ export interface RecordSnapshot {
   incompleteTables: string[];
   /** when set, only these rows were read (a scoped check, e.g. one review and its inputs) */
   scope?: ReadonlySet<string>;
+  /**
+   * when set, `entries` holds the chain from `fromSeq` on, plus entry 1, every key entry and the scoped
+   * rows' entries (a light check from a verified entry); otherwise the whole chain
+   */
+  partial?: { fromSeq: number };
 }
 
 export interface KeyPeriod {
@@ -107,12 +112,13 @@ const ENTITY_TABLE: Record<string, string> = {
 };
 
 /** Sequence, content and linkage of the entries (what `verifyAuditChain` checks), as findings. */
-export function chainFindings(entries: readonly AuditEntryRecord[]): Finding[] {
+export function chainFindings(entries: readonly AuditEntryRecord[], from?: { seq: number; hash: string }): Finding[] {
   const out: Finding[] = [];
-  let prev = GENESIS_HASH;
+  let prev = from?.hash ?? GENESIS_HASH;
+  const before = from?.seq ?? 0;
   entries.forEach((e, i) => {
     const what = `entry ${e.seq} (${e.action} ${e.entity} ${e.entityId})`;
-    if (e.seq !== i + 1) out.push({ kind: "chain-broken", table: "AuditEntry", entry: e.seq, message: `entry at position ${i + 1} has number ${e.seq}: entries are missing or out of order` });
+    if (e.seq !== before + i + 1) out.push({ kind: "chain-broken", table: "AuditEntry", entry: e.seq, message: `entry at position ${before + i + 1} has number ${e.seq}: entries are missing or out of order` });
     if (auditHash(e) !== e.hash) out.push({ kind: "entry-altered", table: "AuditEntry", entry: e.seq, message: `${what}: its content no longer matches its hash` });
     if (e.prevHash !== prev) out.push({ kind: "chain-broken", table: "AuditEntry", entry: e.seq, message: `${what}: does not follow the entry before it (chain broken)` });
     prev = e.hash;
@@ -131,13 +137,15 @@ export function signatureFindings(
   signatures: readonly SignatureRecord[],
   /** signatures already found valid, as `seq|hash|fingerprint|signature` (a memo of a pure check: any change misses it) */
   validMemo?: Set<string>,
+  /** for a check of the chain's tail: the key in force before its first entry */
+  inForce?: { fingerprint: string; fromSeq: number; key: KeyObject },
 ): { findings: Finding[]; keys: KeyPeriod[]; signerOf: Map<number, string> } {
   const out: Finding[] = [];
-  const keys: KeyPeriod[] = [];
+  const keys: KeyPeriod[] = inForce ? [{ fingerprint: inForce.fingerprint, fromSeq: inForce.fromSeq }] : [];
   const signerOf = new Map<number, string>();
   const sigs = new Map(signatures.map((s) => [s.seq, s]));
   type InForce = { fp: string; key: KeyObject };
-  let current: InForce | null = null;
+  let current: InForce | null = inForce ? { fp: inForce.fingerprint, key: inForce.key } : null;
   for (const e of entries) {
     const sig = sigs.get(e.seq);
     let signer: InForce | null = current;
@@ -228,7 +236,7 @@ export function rowFindings(s: RecordSnapshot): Finding[] {
     }
   }
   for (const t of s.traces) {
-    if (sha256Hex(t.original) !== t.sha256) out.push({ kind: "stored-hash-mismatch", table: "Trace", row: t.id, message: `trace ${t.id}: the original bytes no longer match the stored SHA-256` });
+    if (t.original && sha256Hex(t.original) !== t.sha256) out.push({ kind: "stored-hash-mismatch", table: "Trace", row: t.id, message: `trace ${t.id}: the original bytes no longer match the stored SHA-256` });
   }
   for (const d of s.definitions) {
     if (sha256Hex(canonicalJson(d.body)) !== d.sha256) out.push({ kind: "stored-hash-mismatch", table: "Definition", row: d.id, message: `definition ${d.id} (${d.name} v${d.version}): its body no longer matches its stored SHA-256` });
@@ -248,18 +256,66 @@ export function chainHead(entries: readonly AuditEntryRecord[], signerOf: Readon
   return { seq: last.seq, hash: last.hash, at: last.at.toISOString(), key_fingerprint: signerOf.get(last.seq) ?? null, chain: entries[0]!.hash };
 }
 
+/** The chain's key in force is not this installation's key. */
+function foreignKey(keys: readonly KeyPeriod[], local: string | null | undefined): Finding[] {
+  const current = keys.at(-1);
+  if (!local || !current || current.fingerprint === local) return [];
+  return [
+    {
+      kind: "key-foreign",
+      table: "AuditEntry",
+      entry: current.fromSeq,
+      message: `the chain is signed by key ${current.fingerprint.slice(0, 16)}…, but this installation's key is ${local.slice(0, 16)}…: the chain was re-signed elsewhere, or the key file was replaced`,
+    },
+  ];
+}
+
 /** Every check that needs no engine run and no storage access. */
 export function checkRecords(s: RecordSnapshot, opts: { localKeyFingerprint?: string | null; validSignatures?: Set<string> } = {}): RecordCheck {
   const sig = signatureFindings(s.entries, s.signatures, opts.validSignatures);
   const findings = [...chainFindings(s.entries), ...sig.findings, ...rowFindings(s)];
-  const current = sig.keys.at(-1);
-  if (opts.localKeyFingerprint && current && current.fingerprint !== opts.localKeyFingerprint) {
+  findings.push(...foreignKey(sig.keys, opts.localKeyFingerprint));
+  return { findings, head: chainHead(s.entries, sig.signerOf), keys: sig.keys };
+}
+
+/** An entry already verified with the whole chain before it: where a light check starts. */
+export interface VerifiedHead {
+  seq: number;
+  hash: string;
+}
+
+/**
+ * The light check of a page view: the chain after a verified head (each entry's hash, link and signature),
+ * the entries that give the tail its meaning (entry 1, every key entry, the rows' own entries: hash and
+ * signature), the verified head still in place with its hash, and the rows in scope against their latest
+ * entries. A change to an older entry made without re-hashing it, or to a trace's original bytes behind an
+ * unchanged SHA-256 column, is left to the full check (`checkRecords`: the re-check and `corelag verify`).
+ * A rewrite of the chain up to the head cannot pass: the head's hash would differ.
+ */
+export function checkRecordsFrom(s: RecordSnapshot, from: VerifiedHead | null, opts: { localKeyFingerprint?: string | null; validSignatures?: Set<string> } = {}): RecordCheck {
+  if (!from) return checkRecords(s, opts);
+  const findings: Finding[] = [];
+  const at = s.entries.find((e) => e.seq === from.seq);
+  if (!at || at.hash !== from.hash) {
     findings.push({
-      kind: "key-foreign",
+      kind: "chain-broken",
       table: "AuditEntry",
-      entry: current.fromSeq,
-      message: `the chain is signed by key ${current.fingerprint.slice(0, 16)}…, but this installation's key is ${opts.localKeyFingerprint.slice(0, 16)}…: the chain was re-signed elsewhere, or the key file was replaced`,
+      entry: from.seq,
+      message: at
+        ? `entry ${from.seq} no longer has the hash it had when the chain was last verified (${from.hash.slice(0, 16)}…, now ${at.hash.slice(0, 16)}…): the chain was rewritten`
+        : `entry ${from.seq}, verified earlier, is gone: entries were removed`,
     });
   }
+  const tail = s.entries.filter((e) => e.seq > from.seq);
+  findings.push(...chainFindings(tail, from));
+  for (const e of s.entries) {
+    if (e.seq <= from.seq && auditHash(e) !== e.hash) {
+      findings.push({ kind: "entry-altered", table: "AuditEntry", entry: e.seq, message: `entry ${e.seq} (${e.action} ${e.entity} ${e.entityId}): its content no longer matches its hash` });
+    }
+  }
+  // every key entry is read, so the key in force is known at each entry checked
+  const sig = signatureFindings(s.entries, s.signatures, opts.validSignatures);
+  findings.push(...sig.findings, ...rowFindings(s));
+  findings.push(...foreignKey(sig.keys, opts.localKeyFingerprint));
   return { findings, head: chainHead(s.entries, sig.signerOf), keys: sig.keys };
 }

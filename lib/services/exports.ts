@@ -37,7 +37,7 @@ export async function exportReview(id: string, format: string): Promise<ReviewEx
     );
   } else {
     // this review and its inputs checked against the signed chain as exported (before this export's own entry)
-    const check = await verifyReviewRecord({ reviewId: review.id, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId });
+    const check = await verifyReviewRecord({ reviewId: review.id, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId }, { full: true });
     const record = {
       id: review.id,
       title: review.title,

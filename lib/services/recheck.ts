@@ -15,7 +15,7 @@ export type RecheckOutcome = { ok: true; check: ReproductionCheck; seq: number; 
 export async function recheckReview(reviewId: string, actor = "web"): Promise<RecheckOutcome> {
   const review = await getReview(reviewId);
   if (!review) return { ok: false, message: "that review does not exist" };
-  const records = await verifyReviewRecord({ reviewId, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId });
+  const records = await verifyReviewRecord({ reviewId, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId }, { full: true });
   const run = await verifyStoredReview(reviewId);
   const problems = [...records.findings.map((f) => f.message), ...run.problems];
   const check: ReproductionCheck = { ...run, reproduced: problems.length === 0, problems };

@@ -5,8 +5,9 @@ export { postgresDatabaseProblem } from "../db/presence";
 export { backupDatabase, restoreDatabase, BackupError } from "../db/backup";
 import { loadSigningKey, SigningKeyError } from "../db/signingKey";
 import { lastRecordedAnchor, recordAnchor } from "../db/anchorLog";
-import { rotateSigningKey, sealUnsealedRows } from "../db/audit";
-import { checkRecords, type ChainHead, type Finding } from "../review/records";
+import { lastChainCheckEntry, logChainCheck, rotateSigningKey, sealUnsealedRows } from "../db/audit";
+import { databaseUrl } from "../db/env";
+import { checkRecords, checkRecordsFrom, type ChainHead, type Finding, type VerifiedHead } from "../review/records";
 import { checkAnchor, anchorOf, type Anchor } from "../review/anchor";
 import { verifyAuditChain, type ChainCheck } from "../review/audit";
 import { verifyStoredReview, type ReproductionCheck } from "./reviews";
@@ -62,6 +63,88 @@ export async function checkStoredRecords(opts: { scope?: ReadonlySet<string>; an
   return { snapshot, findings, head: check.head, key, anchor, checked_at: (opts.now ?? new Date()).toISOString() };
 }
 
+/** Where a light check starts and what vouches for it. */
+export interface LightFrom {
+  head: VerifiedHead;
+  /** "log": a full check recorded in the audit log (its entry); "process": this server verified up to here */
+  source: "log" | "process";
+  checked_at: string;
+  /** the log entry that recorded the full check */
+  entry?: number;
+  actor?: string;
+}
+
+// Heads this process found intact (per database): the next light check starts there. Trusted because the
+// process verified them itself; a recorded full check (in the signed log) is the other starting point.
+const verifiedHeads = new Map<string, LightFrom>();
+
+/** The details a full chain check records in the log, and reads back as a starting point. */
+export interface ChainCheckDetails {
+  ok: boolean;
+  head_seq: number | null;
+  head_hash: string | null;
+  key_fingerprint: string | null;
+  findings: number;
+  /** the first findings' messages, for the log */
+  problems: string[];
+}
+
+/** The newest full chain check recorded in the log, with its result; null when none (or the database cannot be read). */
+export async function lastChainCheck(): Promise<{ seq: number; at: string; actor: string; ok: boolean; head_seq: number | null; head_hash: string | null; findings: number } | null> {
+  let e: Awaited<ReturnType<typeof lastChainCheckEntry>>;
+  try {
+    e = await lastChainCheckEntry();
+  } catch {
+    return null; // the light check that follows reports what is wrong with the database
+  }
+  if (!e) return null;
+  const d = (e.details ?? {}) as Partial<ChainCheckDetails>;
+  return {
+    seq: e.seq, at: e.at.toISOString(), actor: e.actor, ok: d.ok === true,
+    head_seq: typeof d.head_seq === "number" ? d.head_seq : null, head_hash: typeof d.head_hash === "string" ? d.head_hash : null, findings: Number(d.findings ?? 0),
+  };
+}
+
+/**
+ * The light check of a page view: rows in `scope` (without the original bytes) and the chain from the
+ * newest verified head (recorded in the log by a full check, or verified earlier by this process) to now.
+ * A clean result becomes this process's verified head. Never throws on a damaged or tampered database.
+ */
+export async function checkRecordsLight(opts: { scope?: ReadonlySet<string>; anchor?: Anchor; now?: Date } = {}) {
+  let db: string | null;
+  try {
+    db = databaseUrl();
+  } catch {
+    db = null;
+  }
+  const last = await lastChainCheck();
+  const logged: LightFrom | null =
+    last && last.ok && last.head_seq !== null && last.head_hash !== null ? { head: { seq: last.head_seq, hash: last.head_hash }, source: "log", checked_at: last.at, entry: last.seq, actor: last.actor } : null;
+  const mine = db ? verifiedHeads.get(db) ?? null : null;
+  const from = logged && mine ? (mine.head.seq >= logged.head.seq ? mine : logged) : logged ?? mine;
+  const { snapshot, storage } = await readRecordSnapshot({
+    scope: opts.scope ?? new Set(),
+    storageChecks: false,
+    originals: false,
+    chain: { fromSeq: from?.head.seq ?? 0, seqs: opts.anchor ? [opts.anchor.seq] : [] },
+  });
+  const local = localKey();
+  if (validSignatures.size > 1_000_000) validSignatures.clear();
+  const check = checkRecordsFrom(snapshot, from?.head ?? null, { localKeyFingerprint: local.fp, validSignatures });
+  const findings = [...storage, ...check.findings];
+  let anchor: VerifyReport["anchor"];
+  if (opts.anchor) {
+    const af = checkAnchor(snapshot.entries, check.keys, opts.anchor);
+    findings.push(...af);
+    anchor = { given: opts.anchor, contained: af.length === 0 };
+  }
+  const checked_at = (opts.now ?? new Date()).toISOString();
+  if (db && findings.length === 0 && check.head) verifiedHeads.set(db, { head: { seq: check.head.seq, hash: check.head.hash }, source: "process", checked_at });
+  const key: KeyStatus = { chain: check.keys.at(-1)?.fingerprint ?? null, local: local.fp, ...(local.note ? { note: local.note } : {}) };
+  const entriesChecked = snapshot.entries.filter((e) => e.seq > (from?.head.seq ?? 0)).length;
+  return { findings, head: check.head, key, anchor, checked_at, from, logged, entriesChecked };
+}
+
 /** The full check behind `corelag verify`: never throws on a damaged or tampered database; every problem is a finding. */
 export async function verifyRecords(opts: { reviewId?: string; anchor?: Anchor; reproduce?: boolean } = {}): Promise<VerifyReport> {
   const r = await checkStoredRecords({ anchor: opts.anchor });
@@ -97,13 +180,43 @@ export interface RecordVerification {
   head: ChainHead | null;
   key: KeyStatus;
   findings: Finding[];
+  /** whether the whole chain and the original bytes were checked (else the light check, from `from`) */
+  full: boolean;
+  from?: LightFrom;
 }
 
-/** The app's per-review check: the chain and signatures whole, this review and its inputs against it. */
-export async function verifyReviewRecord(ids: { reviewId: string; traceId: string; productId: string; packId?: string | null; limitsId: string }): Promise<RecordVerification> {
+/**
+ * The per-review check: this review and its inputs against the signed chain. `full` (the re-check, exports)
+ * reads the whole chain and the trace's original bytes; the default (a page view) is the light check: the
+ * chain from its last verified head, the rows without the original bytes (their stored SHA-256 stands in).
+ */
+export async function verifyReviewRecord(ids: { reviewId: string; traceId: string; productId: string; packId?: string | null; limitsId: string }, opts: { full?: boolean } = {}): Promise<RecordVerification> {
   const scope = new Set([ids.reviewId, ids.traceId, ids.productId, ids.limitsId, ...(ids.packId ? [ids.packId] : [])]);
-  const r = await checkStoredRecords({ scope, storageChecks: false });
-  return { ok: r.findings.length === 0, checked_at: r.checked_at, head: r.head, key: r.key, findings: r.findings };
+  if (opts.full) {
+    const r = await checkStoredRecords({ scope, storageChecks: false });
+    return { ok: r.findings.length === 0, checked_at: r.checked_at, head: r.head, key: r.key, findings: r.findings, full: true };
+  }
+  const r = await checkRecordsLight({ scope });
+  return { ok: r.findings.length === 0, checked_at: r.checked_at, head: r.head, key: r.key, findings: r.findings, full: false, ...(r.from ? { from: r.from } : {}) };
+}
+
+/**
+ * "Re-check the whole chain now" on the audit page: the full check (storage, every entry, signature and
+ * record, the original bytes against their SHA-256) recorded in the log, so that later page views verify
+ * only the entries after it.
+ */
+export async function recordChainCheck(actor: string): Promise<{ report: Awaited<ReturnType<typeof checkStoredRecords>>; seq: number }> {
+  const report = await checkStoredRecords();
+  const details: ChainCheckDetails = {
+    ok: report.findings.length === 0,
+    head_seq: report.head?.seq ?? null,
+    head_hash: report.head?.hash ?? null,
+    key_fingerprint: report.head?.key_fingerprint ?? null,
+    findings: report.findings.length,
+    problems: report.findings.slice(0, 20).map((f) => f.message),
+  };
+  const entry = await logChainCheck(actor, details);
+  return { report, seq: entry.seq };
 }
 
 /** `corelag anchor`: the current head, also noted in the local anchor log for the audit page. */
@@ -153,8 +266,8 @@ export async function lastAnchorStatus(): Promise<AnchorStatus> {
   } catch {
     anchor = null;
   }
-  // no rows are read (empty scope): only the chain, its signatures and the anchor
-  const r = await checkStoredRecords({ scope: new Set(), storageChecks: false, ...(anchor ? { anchor } : {}) });
+  // no rows are read (empty scope): only the chain from its last verified head, its signatures and the anchor
+  const r = await checkRecordsLight({ ...(anchor ? { anchor } : {}) });
   const anchorFindings = r.findings.filter((f) => f.kind.startsWith("anchor-"));
   return { anchor, contained: anchor ? anchorFindings.length === 0 : null, findings: anchorFindings, head: r.head, key: r.key, checked_at: r.checked_at };
 }

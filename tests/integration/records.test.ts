@@ -142,6 +142,39 @@ describe("review records", () => {
     expect(resultHash(row.result, bytesToFloat64(row.coreC))).toBe(row.resultSha256);
   });
 
+  it("a page view's light check starts from the last recorded full check and leaves the original bytes in the database", async () => {
+    const { verifyReviewRecord, recordChainCheck, checkRecordsLight, lastChainCheck } = await import("@/lib/services/verify");
+    const { db } = await import("@/lib/db/client");
+    const rid = { reviewId, ...ids };
+    // the audit page's full check, recorded in the log: it vouches for the chain up to the entry before it
+    const { report, seq } = await recordChainCheck("test");
+    expect(report.findings).toEqual([]);
+    expect(await lastChainCheck()).toMatchObject({ seq, ok: true, head_seq: seq - 1, actor: "test" });
+    const light = await checkRecordsLight();
+    expect(light.findings).toEqual([]);
+    expect(light.from).toMatchObject({ source: "log", entry: seq, head: { seq: seq - 1, hash: report.head!.hash } });
+    expect(light.entriesChecked).toBe(1); // only the check's own entry
+    expect(light.head!.seq).toBe(seq);
+    // the next view starts where this process last found the chain intact
+    expect((await checkRecordsLight()).from).toMatchObject({ source: "process", head: { seq } });
+    expect(await verifyReviewRecord(rid)).toMatchObject({ ok: true, full: false, head: { seq } });
+    // The original bytes changed behind the application's back, the SHA-256 column left as it was: the page's
+    // light check does not read the bytes (so it cannot see this); the full check (re-check, verify) does.
+    const trigger = (await db.$queryRawUnsafe<{ sql: string }[]>(`SELECT "sql" FROM sqlite_master WHERE "name" = 'Trace_no_update'`))[0]!.sql;
+    await db.$executeRawUnsafe(`DROP TRIGGER "Trace_no_update"`);
+    const original = (await db.$queryRawUnsafe<{ original: Uint8Array }[]>(`SELECT "original" FROM "Trace" WHERE "id" = ?`, ids.traceId))[0]!.original;
+    try {
+      await db.$executeRawUnsafe(`UPDATE "Trace" SET "original" = X'00' WHERE "id" = ?`, ids.traceId);
+      expect((await verifyReviewRecord(rid)).ok).toBe(true);
+      const full = await verifyReviewRecord(rid, { full: true });
+      expect(full.findings.map((f) => f.kind).sort()).toEqual(["row-altered", "stored-hash-mismatch"]);
+    } finally {
+      await db.$executeRawUnsafe(`UPDATE "Trace" SET "original" = ? WHERE "id" = ?`, Buffer.from(original), ids.traceId);
+      await db.$executeRawUnsafe(trigger);
+    }
+    expect((await verifyReviewRecord(rid, { full: true })).ok).toBe(true);
+  });
+
   it("the database refuses to change or delete audit entries", async () => {
     const { db } = await import("@/lib/db/client");
     await expect(db.auditEntry.update({ where: { seq: 1 }, data: { actor: "x" } })).rejects.toThrow();

@@ -358,7 +358,7 @@ describe("a full forgery (readings lowered, hashes and series recomputed, review
     sql(file, (d) => {
       d.exec(`DROP TRIGGER "Trace_no_update"; DROP TRIGGER "Review_stored_result_final"; DROP TRIGGER "Review_signed_final"; DROP TRIGGER "Review_status_transition"`);
       const t = rawTrace(d, ids.demoTrace);
-      const text = Buffer.from(t.original).toString("utf8");
+      const text = Buffer.from(t.original!).toString("utf8");
       // lower every air reading (the second column of the data rows) by 6 K
       const lowered = text.replace(/^(\d{4}-[^,\n]+,)(-?\d+(?:\.\d+)?)/gm, (_m, head: string, v: string) => `${head}${(Number(v) - 6).toFixed(1)}`);
       expect(lowered).not.toBe(text);

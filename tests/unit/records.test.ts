@@ -3,7 +3,7 @@ import { createHash, createPrivateKey, createPublicKey, generateKeyPairSync, sig
 import { keyFingerprint, publicKeyText, rawPublicKey, shortFingerprint, signEntry, verifyEntrySignature } from "@/lib/review/signature";
 import { isoInstant, reviewContentHash, type ReviewRowContent } from "@/lib/review/content";
 import { auditHash, GENESIS_HASH, type AuditEntryRecord } from "@/lib/review/audit";
-import { checkRecords, signatureFindings, type SignatureRecord } from "@/lib/review/records";
+import { checkRecords, checkRecordsFrom, signatureFindings, type RecordSnapshot, type SignatureRecord } from "@/lib/review/records";
 import { checkAnchor, keyInForce, anchorOf } from "@/lib/review/anchor";
 
 // RFC 8032, section 7.1, TEST 1 (Ed25519, empty message).
@@ -107,5 +107,56 @@ describe("signatureFindings and anchors", () => {
     const { entries, signatures } = chain(k1, 2);
     expect(signatureFindings(entries.slice(1), []).findings.map((f) => f.kind)).toEqual(["chain-unsigned"]);
     expect(signatureFindings(entries, signatures.slice(0, 2)).findings.map((f) => [f.kind, f.entry])).toEqual([["entry-unsigned", 3]]);
+  });
+});
+
+describe("checkRecordsFrom: the light check of a page view, from a verified head", () => {
+  const k1 = generateKeyPairSync("ed25519").privateKey;
+  /** what the reader gives a light check from `from`: the tail from it, entry 1 and every key entry */
+  const part = (c: { entries: AuditEntryRecord[]; signatures: SignatureRecord[] }, from: number): RecordSnapshot => {
+    const keep = c.entries.filter((e) => e.seq >= from || e.seq === 1 || e.action === "key");
+    const seqs = new Set(keep.map((e) => e.seq));
+    return { entries: keep, signatures: c.signatures.filter((x) => seqs.has(x.seq) || x.seq >= from), traces: [], definitions: [], reviews: [], incompleteTables: [], scope: new Set(), partial: { fromSeq: from } };
+  };
+
+  it("an intact tail after the verified head passes and gives the same head as the full check", () => {
+    const c = chain(k1, 9); // entries 1 (key) … 10
+    const full = checkRecords({ ...c, traces: [], definitions: [], reviews: [], incompleteTables: [], scope: new Set() });
+    const light = checkRecordsFrom(part(c, 6), { seq: 6, hash: c.entries[5]!.hash });
+    expect(light.findings).toEqual([]);
+    expect(light.head).toEqual(full.head);
+  });
+
+  it("a chain rewritten up to the verified head (re-hashed by a forger) fails: the head's hash differs", () => {
+    const c = chain(k1, 9);
+    const verified = { seq: 6, hash: c.entries[5]!.hash };
+    // the forger re-builds the chain with other details, re-hashing and re-signing with their own key
+    const forged = chain(generateKeyPairSync("ed25519").privateKey, 9);
+    const kinds = checkRecordsFrom(part(forged, 6), verified).findings.map((f) => [f.kind, f.entry]);
+    expect(kinds).toContainEqual(["chain-broken", 6]);
+  });
+
+  it("an entry after the head altered, unlinked or unsigned is found; an entry before it altered without re-hashing is left to the full check", () => {
+    const c = chain(k1, 9);
+    const verified = { seq: 6, hash: c.entries[5]!.hash };
+    const altered = { ...c, entries: c.entries.map((e) => (e.seq === 8 ? { ...e, details: { i: 99 } } : e)) };
+    expect(checkRecordsFrom(part(altered, 6), verified).findings.map((f) => [f.kind, f.entry])).toEqual([["entry-altered", 8]]);
+    const unsigned = { ...c, signatures: c.signatures.filter((x) => x.seq !== 9) };
+    expect(checkRecordsFrom(part(unsigned, 6), verified).findings.map((f) => [f.kind, f.entry])).toEqual([["entry-unsigned", 9]]);
+    const gap = { ...c, entries: c.entries.filter((e) => e.seq !== 8) };
+    expect(checkRecordsFrom(part(gap, 6), verified).findings.map((f) => f.kind)).toContain("chain-broken");
+    // entry 3 changed in place (not re-hashed): not in the light check's part, so not seen here…
+    const old = { ...c, entries: c.entries.map((e) => (e.seq === 3 ? { ...e, details: { i: 77 } } : e)) };
+    expect(checkRecordsFrom(part(old, 6), verified).findings).toEqual([]);
+    // …but the full check finds it
+    expect(checkRecords({ ...old, traces: [], definitions: [], reviews: [], incompleteTables: [], scope: new Set() }).findings.map((f) => [f.kind, f.entry])).toEqual([["entry-altered", 3]]);
+  });
+
+  it("a key entry before the head with its public key swapped (not re-hashed) is found: every key entry is read and hashed", () => {
+    const c = chain(k1, 9);
+    const other = generateKeyPairSync("ed25519").privateKey;
+    const swapped = { ...c, entries: c.entries.map((e) => (e.seq === 1 ? { ...e, details: { ...(e.details as object), publicKey: publicKeyText(other) } } : e)) };
+    const kinds = checkRecordsFrom(part(swapped, 6), { seq: 6, hash: c.entries[5]!.hash }).findings.map((f) => f.kind);
+    expect(kinds).toContain("entry-altered");
   });
 });

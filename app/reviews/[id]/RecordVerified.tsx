@@ -6,6 +6,8 @@ import { formatTime } from "@/lib/display/time";
 /**
  * "Verified at TIME against chain head N, key FINGERPRINT": this review, its trace and its definitions
  * compared with the signed audit chain as the page is rendered (no engine re-run; that is the re-check).
+ * The light check (lib/services/verify.ts verifyReviewRecord): the chain only after its last verified
+ * head, the trace without its original bytes (loaded only for download and the re-check).
  * On the printed report it also states the chain's head at printing time, in full.
  */
 export async function RecordVerified({ review, printing = false, zone = "UTC" }: { review: { id: string; traceId: string; productId: string; packId: string | null; limitsId: string }; printing?: boolean; zone?: string }) {
@@ -29,6 +31,11 @@ export async function RecordVerified({ review, printing = false, zone = "UTC" }:
           </ul>
         </div>
       )}
+      <p className="muted" data-testid="record-verified-scope">
+        {v.full
+          ? <>Checked against the whole chain, with the original logger file against its SHA-256.</>
+          : <>Checked on this view: this review, its trace and definitions against their latest entries, and the chain {v.from ? <>after entry #{v.from.head.seq} (verified {v.from.source === "log" ? <>by the full check of {utc(v.from.checked_at)}</> : <>by this server at {utc(v.from.checked_at)}</>})</> : <>from its first entry</>}. The original logger file is compared with its SHA-256 by <em>Re-check this review</em> and <code>corelag verify</code>.</>}
+      </p>
       {printing && head && (
         <p className="muted" data-testid="report-chain-head">
           Audit chain head at printing: entry {head.seq}, hash <code className="hash">{head.hash}</code>, signed by key <code className="hash">{key}</code>.
