@@ -60,9 +60,15 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                   <td style={{ whiteSpace: "nowrap" }}>{formatTime(e.at, zone, { seconds: true })}</td>
                   <td>{e.action}{e.format && <> <span data-testid="audit-format">({e.format})</span></>}{e.action === "verify" && e.entity === "chain" && <> <strong className={(e.details as { ok?: boolean }).ok ? "status-pass" : "status-fail"}>{(e.details as { ok?: boolean }).ok ? "chain intact" : "problems found"}</strong></>}{e.action === "verify" && e.entity !== "chain" && <> <strong className={(e.details as { reproduced?: boolean }).reproduced ? "status-pass" : "status-fail"}>{(e.details as { reproduced?: boolean }).reproduced ? "reproduced" : "did not reproduce"}</strong></>}</td>
                   <td>
-                    {e.entity === "key" ? "" : <>{ENTITY_WORDS[e.entity] ?? e.entity}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}</>}
-                    {e.subject.href && e.subject.name ? <Link href={e.subject.href} data-testid="audit-subject">{e.subject.name}</Link> : e.subject.name ?? <span className="muted">not found</span>}
-                    <div className="raw-id"><Link href={`/audit?object=${e.entityId}`} title="every entry for this object">{e.entityId}</Link></div>
+                    {e.entity === "chain" ? (
+                      <>audit chain: entries 1–{e.entityId} checked in full</>
+                    ) : (
+                      <>
+                        {e.entity === "key" ? "" : <>{ENTITY_WORDS[e.entity] ?? e.entity}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}</>}
+                        {e.subject.href && e.subject.name ? <Link href={e.subject.href} data-testid="audit-subject">{e.subject.name}</Link> : e.subject.name ?? <span className="muted">not found</span>}
+                        <div className="raw-id"><Link href={`/audit?object=${e.entityId}`} title="every entry for this object">{e.entityId}</Link></div>
+                      </>
+                    )}
                   </td>
                   <td>{e.actor}</td>
                   <td><span data-testid="audit-summary">{auditSummary(e.action, e.details)}</span><details><summary>all details</summary><pre style={{ whiteSpace: "pre-wrap", fontSize: "0.78rem", margin: 0 }}>{JSON.stringify(e.details, null, 1)}</pre></details></td>
