@@ -7,6 +7,7 @@
 // died is taken up again once it expires. A queued run stores its review under its job's id, so a retry
 // after the store committed finds it instead of storing twice.
 import { randomUUID } from "node:crypto";
+import { mayConduct, overCapMessage, STUDY_CAP_STEPS, studyCostSteps } from "../uncertainty/cost";
 import type { ReviewInput } from "../review";
 import { logRunCancelled } from "../db/runs";
 import { dbKind } from "../db/client";
@@ -57,19 +58,11 @@ interface Run extends RunState {
 const globalForRuns = globalThis as unknown as { corelagRuns?: Map<string, Run> };
 const runs: Map<string, Run> = (globalForRuns.corelagRuns ??= new Map());
 
-/**
- * The most work one web request may start, in model-sample steps: trace samples × (1 + Monte Carlo
- * samples), weighted ×100 when the model may be conduction (40 shells and Newton iterations cost about a
- * hundred lumped steps). 5×10⁸ is about two minutes of one core here.
- */
-export const SERVER_RUN_CAP_STEPS = 5e8;
+/** The most work one web request may start (lib/uncertainty/cost.ts). */
+export const SERVER_RUN_CAP_STEPS = STUDY_CAP_STEPS;
 
 export function runCostSteps(input: ReviewInput): number {
-  const samples = input.series.t_s.length;
-  const mc = input.options?.uncertainty?.samples ?? 0;
-  const model = input.options?.model ?? "auto";
-  const mayConduct = model === "conduction" || model === "conduction-1d" || (model === "auto" && input.product.shape !== undefined);
-  return samples * (1 + mc) * (mayConduct ? 100 : 1);
+  return studyCostSteps(input.series.t_s.length, input.options?.uncertainty?.samples ?? 0, mayConduct(input.options?.model, input.product));
 }
 
 function publicState(r: Run): RunState {
@@ -85,16 +78,8 @@ export async function startReviewRun(request: RunReviewRequest, actor: string): 
   if (!ready.ok) return ready;
   const p = ready.prepared;
   const cost = runCostSteps(p.input);
-  if (cost > SERVER_RUN_CAP_STEPS) {
-    return {
-      ok: false,
-      field: p.input.options?.uncertainty ? "uncertainty" : "form",
-      message:
-        `this run would take about ${cost.toExponential(1)} model steps (trace samples × (1 + Monte Carlo samples)${p.input.product.shape ? " × 100 for conduction" : ""}); ` +
-        `the server runs at most ${SERVER_RUN_CAP_STEPS.toExponential(0)} per request. Use fewer Monte Carlo samples, or run the study from the command line: ` +
-        `npm run -s corelag -- review --trace FILE --product P.json --limits L.json --uncertainty U.json`,
-    };
-  }
+  const refusal = overCapMessage(cost, mayConduct(p.input.options?.model, p.input.product), "the server runs");
+  if (refusal) return { ok: false, field: p.input.options?.uncertainty ? "uncertainty" : "form", message: refusal };
   forgetOldRuns();
   if (queued()) {
     const requested_at = new Date().toISOString();

@@ -13,6 +13,7 @@ import { fixed } from "@/lib/display/numbers";
 import { num } from "@/app/components/NumberField";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { Caution } from "@/app/components/Caution";
+import { mayConduct, overCapMessage, studyCostSteps } from "@/lib/uncertainty/cost";
 
 interface Props { t_s: number[]; air_C: number[]; product: Product; pack?: Pack; limits: LimitSet }
 type Run = { kind: "idle" } | { kind: "running"; what: string; fraction: number; started: number } | { kind: "error"; message: string };
@@ -96,6 +97,10 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
     const n = num(samples), s = num(seed);
     if (n === undefined || !(n >= 10 && n <= 20000) || s === undefined || !Number.isInteger(s)) return setRun({ kind: "error", message: "samples must be 10 to 20,000 and the seed a whole number" });
     const spec = { inputs: inputs.map((r) => ({ path: r.path, plusminus: num(r.plusminus) ?? 0, percent: r.percent, distribution: r.distribution })), samples: n, seed: s, use_in_guard_band: false };
+    // the same cap as a review on the server: the tab would otherwise be busy for hours
+    const conduction = mayConduct("auto", product);
+    const refusal = overCapMessage(studyCostSteps(t_s.length, n, conduction), conduction, "this page runs");
+    if (refusal) return setRun({ kind: "error", message: refusal });
     start("Monte Carlo", { type: "mc", spec }, (r) => setMc(r as McResult));
   };
   const busy = run.kind === "running";
