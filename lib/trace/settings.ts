@@ -36,7 +36,7 @@ export const importOptionsSchema = z.object({
   unit: z.enum(["C", "F", "K"], { error: "unit must be C, F or K" }).optional(),
   decimal: z.enum([".", ","], { error: "decimal separator must be . or ," }).optional(),
   /** extra codes that mean "no reading", e.g. "-999" (blank, NA, N/A, NaN, -, -- always do) */
-  missing: z.array(z.string().trim().min(1)).max(20).optional(),
+  missing: z.array(z.string().trim().min(1)).max(20, { message: "at most 20 missing-value codes are allowed" }).optional(),
   /** readings outside this range are flagged and excluded, °C (defaults −60 and +80) */
   plausibleMin_C: z.number().finite().optional(),
   plausibleMax_C: z.number().finite().optional(),

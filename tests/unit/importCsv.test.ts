@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { readFileSync } from "node:fs";
 import path from "node:path";
-import { DUPLICATE_ROWS_ALLOWED, importCsv, TraceImportError } from "@/lib/trace";
+import { DUPLICATE_ROWS_ALLOWED, importCsv, importOptionsSchema, TraceImportError } from "@/lib/trace";
 import { expectClose } from "../helpers/numeric";
 
 const enc = (s: string) => new TextEncoder().encode(s);
@@ -85,6 +85,14 @@ describe("importCsv", () => {
     const doubled = importCsv(enc(`Time,Temp\n${body}${body}`));
     expect(doubled.series.t_s.length).toBe(2000);
     expect(doubled.warnings.join(" ")).toMatch(/sorted.*2000 exact duplicate row\(s\) dropped/);
+  });
+
+  it("import options cap their lists with a message naming the limit", () => {
+    const missing = importOptionsSchema.safeParse({ missing: Array.from({ length: 21 }, (_, i) => `-${i + 900}`) });
+    expect(missing.success ? "" : missing.error.issues[0]!.message).toBe("at most 20 missing-value codes are allowed");
+    const ignored = importOptionsSchema.safeParse({ ignoreColumns: Array.from({ length: 201 }, (_, i) => `c${i}`) });
+    expect(ignored.success ? "" : ignored.error.issues[0]!.message).toBe("at most 200 columns may be left out");
+    expect(importOptionsSchema.safeParse({ missing: ["-999"], ignoreColumns: ["Door"] }).success).toBe(true);
   });
 
   it("importCsv refuses empty and header-only files", () => {
