@@ -126,6 +126,15 @@ test("the audit log shows names, links, raw ids and export formats, filters, sea
   await expect(page.getByTestId("chain-status")).toHaveCount(0);
   await page.getByTestId("verify-chain").click();
   await expect(page.getByTestId("chain-status")).toContainText("the chain is intact and signed");
+  const recorded = Number((await page.getByTestId("chain-status").textContent())!.match(/recorded as entry #(\d+)/)![1]);
+  // the check is recorded in the log; later views check only the entries after the head it verified
+  await page.goto("/audit");
+  await expect(page.getByTestId("chain-last-full")).toContainText(`(entry #${recorded}): the chain was intact and signed up to entry #${recorded - 1}, and every record matched.`);
+  await expect(page.getByTestId("chain-since")).toContainText(/entry #\d+ still has the hash verified/);
+  await expect(page.getByTestId(`audit-row-${recorded}`)).toContainText("verify chain intact");
+  await expect(page.getByTestId(`audit-row-${recorded}`)).toContainText(`audit chain: entries 1–${recorded - 1} checked in full`);
+  await page.waitForLoadState("networkidle");
+  await page.getByTestId("chain-check").screenshot({ path: "test-results/audit-light-check.png" });
 });
 
 test("uploading a file already stored warns and links to it; the trace page lists the same file", async ({ page }) => {
