@@ -160,17 +160,15 @@ describe("review records", () => {
     expect(await verifyReviewRecord(rid)).toMatchObject({ ok: true, full: false, head: { seq } });
     // The original bytes changed behind the application's back, the SHA-256 column left as it was: the page's
     // light check does not read the bytes (so it cannot see this); the full check (re-check, verify) does.
-    const trigger = (await db.$queryRawUnsafe<{ sql: string }[]>(`SELECT "sql" FROM sqlite_master WHERE "name" = 'Trace_no_update'`))[0]!.sql;
-    await db.$executeRawUnsafe(`DROP TRIGGER "Trace_no_update"`);
-    const original = (await db.$queryRawUnsafe<{ original: Uint8Array }[]>(`SELECT "original" FROM "Trace" WHERE "id" = ?`, ids.traceId))[0]!.original;
+    await db.$executeRawUnsafe(dropTriggerSql("Trace_no_update", "Trace"));
+    const original = (await db.trace.findUnique({ where: { id: ids.traceId }, select: { original: true } }))!.original;
     try {
-      await db.$executeRawUnsafe(`UPDATE "Trace" SET "original" = X'00' WHERE "id" = ?`, ids.traceId);
+      await db.$executeRaw`UPDATE "Trace" SET "original" = ${new Uint8Array([0])} WHERE "id" = ${ids.traceId}`;
       expect((await verifyReviewRecord(rid)).ok).toBe(true);
       const full = await verifyReviewRecord(rid, { full: true });
       expect(full.findings.map((f) => f.kind).sort()).toEqual(["row-altered", "stored-hash-mismatch"]);
     } finally {
-      await db.$executeRawUnsafe(`UPDATE "Trace" SET "original" = ? WHERE "id" = ?`, Buffer.from(original), ids.traceId);
-      await db.$executeRawUnsafe(trigger);
+      await db.$executeRaw`UPDATE "Trace" SET "original" = ${original} WHERE "id" = ${ids.traceId}`;
     }
     expect((await verifyReviewRecord(rid, { full: true })).ok).toBe(true);
   });
