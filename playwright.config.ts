@@ -10,8 +10,16 @@ export default defineConfig({
   timeout: 60_000,
   workers: 1,
   reporter: [["list"]],
+  // "setup" signs in once per role (tests/e2e/auth.setup.ts); the specs run signed in as the administrator
+  // unless they ask for another role with test.use({ storageState: roleState(role) }).
+  projects: [
+    { name: "setup", testMatch: /auth\.setup\.ts$/ },
+    { name: "e2e", dependencies: ["setup"], use: { storageState: "test-results/e2e-auth/admin.json" } },
+  ],
   use: {
     baseURL: `http://127.0.0.1:${PORT}`,
+    // Route handlers refuse cookie-authenticated writes without this site's Origin (browsers send it; API requests here do too).
+    extraHTTPHeaders: { origin: `http://127.0.0.1:${PORT}` },
     launchOptions: {
       executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
       args: [
@@ -28,7 +36,7 @@ export default defineConfig({
   },
   webServer: {
     command: `node node_modules/tsx/dist/cli.mjs scripts/e2e-server.ts ${PORT}`,
-    url: `http://127.0.0.1:${PORT}/traces`,
+    url: `http://127.0.0.1:${PORT}/sign-in`,
     timeout: 120_000,
     reuseExistingServer: false,
     stdout: "pipe",

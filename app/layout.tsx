@@ -4,6 +4,10 @@ import "./globals.css";
 import { ZonePicker } from "@/app/components/ZonePicker";
 import { chosenZone } from "@/app/displayZone";
 import { AlertBadge } from "@/app/monitors/AlertBadge";
+import { headers } from "next/headers";
+import { actorFromRequest } from "@/lib/services/access";
+import { userById } from "@/lib/db/users";
+import { UserMenu } from "@/app/components/UserMenu";
 
 export const metadata: Metadata = {
   title: "Corelag",
@@ -11,12 +15,15 @@ export const metadata: Metadata = {
 };
 
 export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // The sign-in and first-administrator pages render without a user: the header then shows no navigation.
+  const actor = await actorFromRequest(await headers());
+  const demo = actor?.kind === "user" ? ((await userById(actor.userId))?.demo ?? false) : false;
   return (
     <html lang="en">
       <body>
         <header className="site">
           <Link href="/" className="brand">Corelag</Link>
-          <nav aria-label="Main">
+          {actor && <nav aria-label="Main">
             <Link href="/">Reviews</Link>
             <Link href="/shipments">Shipments</Link>
             <Link href="/traces">Traces</Link>
@@ -27,8 +34,9 @@ export default async function RootLayout({ children }: { children: React.ReactNo
             <Link href="/monitors" data-testid="nav-monitors">Monitors <AlertBadge /></Link>
             <Link href="/loggers">Loggers</Link>
             <Link href="/audit">Audit log</Link>
-          </nav>
+          </nav>}
           <ZonePicker chosen={await chosenZone()} />
+          {actor && <UserMenu actor={actor} demo={demo} />}
         </header>
         <main>{children}</main>
       </body>

@@ -8,6 +8,10 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { randomBytes } from "node:crypto";
+import { TEST_ACTOR, seedAccounts, signedInFetch } from "../tests/helpers/accounts";
+
+/** Every request as the signed-in test reviewer (issue 13: pages and routes need a session). */
+const fetch = signedInFetch("reviewer");
 
 const CLIENTS = 8;
 const PHASE_S = 20;
@@ -61,9 +65,10 @@ async function one(label: string, pgUrl: string | undefined): Promise<void> {
   process.env.CORELAG_SIGNING_KEY_FILE = path.join(dir, "bench.key");
   const { migrateDatabase } = await import("../lib/db/migrate");
   migrateDatabase(url);
+  seedAccounts(url);
   const { createDefinition } = await import("../lib/db/definitions");
-  const productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 })).id;
-  const limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] })).id;
+  const productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 }, TEST_ACTOR)).id;
+  const limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] }, TEST_ACTOR)).id;
   const { startServer } = await import("../tests/helpers/server");
   const server = await startServer({ DATABASE_URL: url, CORELAG_SIGNING_KEY_FILE: process.env.CORELAG_SIGNING_KEY_FILE });
   const csv = traceCsv(0);

@@ -5,6 +5,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { startServer } from "../tests/helpers/server";
+import { seedAccounts, signInCookie, TEST_ACTOR } from "../tests/helpers/accounts";
 
 const percentile = (xs: number[], p: number) => [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor((p / 100) * xs.length))]!;
 
@@ -22,13 +23,17 @@ export async function benchWeb(): Promise<void> {
   const start = Date.UTC(2026, 5, 1);
   for (let i = 0; i < 43_200; i++) csv += `${new Date(start + i * 60_000).toISOString()},${(4 + 3 * Math.sin((2 * Math.PI * i) / 1440) + (i % 997 === 0 ? 9 : 0)).toFixed(2)}\n`;
   const bytes = new TextEncoder().encode(csv);
-  const traceId = await createTrace({ name: "thirty days", fileName: "thirty-days.csv", bytes, imported: importCsv(bytes) });
-  const productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 })).id;
-  const limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }, { id: "air-above-8C", channel: "air", above_C: 8, max_continuous_min: 60 }] })).id;
-  const stored = await runAndStoreReview({ title: "thirty days", traceId, productId, limitsId, model: "lumped" }, "bench");
+  const traceId = await createTrace({ name: "thirty days", fileName: "thirty-days.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
+  const productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 }, TEST_ACTOR)).id;
+  const limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }, { id: "air-above-8C", channel: "air", above_C: 8, max_continuous_min: 60 }] }, TEST_ACTOR)).id;
+  const stored = await runAndStoreReview({ title: "thirty days", traceId, productId, limitsId, model: "lumped" }, TEST_ACTOR);
   if (!stored.ok) throw new Error(stored.message);
+  seedAccounts(url);
   const server = await startServer({ DATABASE_URL: url });
   try {
+    // every page and route needs a session (issue 13): the bench reads as the reviewer
+    const cookie = await signInCookie(server.url, "reviewer");
+    const fetch = (u: string, init: RequestInit = {}) => globalThis.fetch(u, { ...init, headers: { ...(init.headers as Record<string, string>), cookie, origin: server.url } });
     const page = await (await fetch(`${server.url}/reviews/${stored.reviewId}`)).text();
     console.log(`web: a 30-day, 1-minute review page is ${(page.length / 1000).toFixed(0)} kB of HTML in all (series data target < 200 kB)`);
     const res = await fetch(server.url + "/api/runs", {

@@ -31,7 +31,7 @@ export async function buildCli() {
     target: "node20",
     outExtension: { ".js": ".mjs" },
     // Native and engine packages stay in node_modules; everything else is bundled.
-    external: ["@prisma/*", "better-sqlite3", "pg", "esbuild"],
+    external: ["@prisma/*", "better-sqlite3", "pg", "esbuild", "@node-rs/*"],
     // Some bundled CommonJS packages call require(): give the ESM bundle one.
     banner: { js: "import { createRequire as __corelagRequire } from 'node:module'; const require = __corelagRequire(import.meta.url);" },
     define: {

@@ -22,9 +22,23 @@ function sourceStamp(): string {
 async function main(): Promise<void> {
   const url = databaseUrl();
   migrateDatabase(url);
+  const { config } = await import("../lib/config");
+  const withDemo = config().CORELAG_DEMO !== "0";
   const { loadDemoIfEmpty } = await import("../lib/services/demo");
-  const demo = await loadDemoIfEmpty();
-  console.log(`corelag: database ${url} migrated; demo ${demo === "loaded" ? "loaded" : "already present or not needed"}`);
+  const demo = withDemo ? await loadDemoIfEmpty() : "skipped";
+  console.log(`corelag: database ${url} migrated; demo ${demo === "loaded" ? "loaded" : withDemo ? "already present or not needed" : "off (CORELAG_DEMO=0)"}`);
+  // With the demo data, one demo account per role, printed here once (their passwords are not stored
+  // anywhere else). Without users and without the demo, the first visit offers "create the administrator".
+  const { createDemoAccounts, needsFirstAdmin } = await import("../lib/services/users");
+  if (demo === "loaded") {
+    const accounts = await createDemoAccounts({ kind: "system", what: "demo" });
+    if (accounts.length > 0) {
+      console.log("corelag: demo accounts (shown once; change or disable them before real use):");
+      for (const a of accounts) console.log(`  ${a.role.padEnd(9)} ${a.email.padEnd(24)} password: ${a.password}`);
+    }
+  } else if (await needsFirstAdmin()) {
+    console.log("corelag: no accounts yet: open the app to create the administrator, or run `npm run -s corelag -- user add --email E --name N --role admin --password-stdin`");
+  }
   // The audit signing key beside the database (created now if there is none), and content hashes for rows
   // recorded before entries carried them (once, after upgrading).
   const { prepareRecords } = await import("../lib/services/verify");

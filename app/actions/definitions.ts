@@ -8,13 +8,15 @@ import { profileSchema } from "@/lib/design/profile";
 import { createDefinition, getDefinition, reviseDefinition, type DefinitionKind } from "@/lib/db/definitions";
 import { isDiskFull } from "@/lib/db/errors";
 import { fieldErrors, formValues, type FormState } from "@/lib/validation";
+import { guardAction } from "@/app/guard";
+import type { Actor } from "@/lib/access/actor";
 
 /**
  * The definition editors post the whole definition as one JSON field (built in the browser from the
  * inputs); it is validated here as a whole and refused with a message per field path. With a lineage
  * the save is an edit: a new version, leaving the old one for the reviews that used it.
  */
-async function save<S extends z.ZodType<{ name: string }>>(kind: DefinitionKind, schema: S, form: FormData, back: string): Promise<FormState> {
+async function save<S extends z.ZodType<{ name: string }>>(kind: DefinitionKind, schema: S, form: FormData, back: string, actor: Actor): Promise<FormState> {
   const values = formValues(form);
   let body: unknown;
   try {
@@ -29,9 +31,9 @@ async function save<S extends z.ZodType<{ name: string }>>(kind: DefinitionKind,
     if (typeof lineage === "string" && lineage !== "") {
       const current = await getDefinition(String(form.get("editing") ?? ""));
       if (!current || current.lineage !== lineage || current.kind !== kind) return { message: "the definition being edited no longer exists", values };
-      await reviseDefinition(lineage, parsed.data);
+      await reviseDefinition(lineage, parsed.data, actor);
     } else {
-      await createDefinition(kind, parsed.data);
+      await createDefinition(kind, parsed.data, actor);
     }
   } catch (e) {
     if (isDiskFull(e)) return { message: "the server's disk is full, so nothing was saved; free some space (or ask the administrator to) and save again", values };
@@ -40,18 +42,10 @@ async function save<S extends z.ZodType<{ name: string }>>(kind: DefinitionKind,
   redirect(`${back}?saved=1`);
 }
 
-export async function saveProduct(_prev: FormState, form: FormData): Promise<FormState> {
-  return save("product", productSchema, form, "/products");
-}
+export const saveProduct = guardAction("definition:edit", async (actor, _prev: FormState, form: FormData): Promise<FormState> => save("product", productSchema, form, "/products", actor));
 
-export async function savePack(_prev: FormState, form: FormData): Promise<FormState> {
-  return save("pack", packSchema, form, "/packs");
-}
+export const savePack = guardAction("definition:edit", async (actor, _prev: FormState, form: FormData): Promise<FormState> => save("pack", packSchema, form, "/packs", actor));
 
-export async function saveLimitSet(_prev: FormState, form: FormData): Promise<FormState> {
-  return save("limits", limitSetSchema, form, "/limits");
-}
+export const saveLimitSet = guardAction("definition:edit", async (actor, _prev: FormState, form: FormData): Promise<FormState> => save("limits", limitSetSchema, form, "/limits", actor));
 
-export async function saveProfile(_prev: FormState, form: FormData): Promise<FormState> {
-  return save("profile", profileSchema, form, "/design/profiles");
-}
+export const saveProfile = guardAction("definition:edit", async (actor, _prev: FormState, form: FormData): Promise<FormState> => save("profile", profileSchema, form, "/design/profiles", actor));

@@ -4,6 +4,7 @@ import { redirect } from "next/navigation";
 import { z } from "zod";
 import { saveEffectivePack } from "@/lib/services/calibration";
 import { formValues, textField, type FormState } from "@/lib/validation";
+import { guardAction } from "@/app/guard";
 
 const schema = z.object({
   name: z.string().trim().min(1, { message: "give the effective pack a name" }).max(120),
@@ -14,7 +15,7 @@ const schema = z.object({
   fitOffset: z.boolean(),
 });
 
-export async function saveEffectivePackAction(_prev: FormState, form: FormData): Promise<FormState> {
+export const saveEffectivePackAction = guardAction("definition:edit", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
   const values = formValues(form);
   const parsed = schema.safeParse({
     name: textField(form, "name") ?? "",
@@ -25,7 +26,7 @@ export async function saveEffectivePackAction(_prev: FormState, form: FormData):
     fitOffset: textField(form, "fitOffset") === "1",
   });
   if (!parsed.success) return { fieldErrors: Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])), values };
-  const res = await saveEffectivePack(parsed.data);
+  const res = await saveEffectivePack(parsed.data, actor);
   if (!res.ok) return { message: res.message, values };
   redirect(`/packs?saved=1&edit=${res.packId}`);
-}
+});

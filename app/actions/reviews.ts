@@ -6,6 +6,7 @@ import { z } from "zod";
 import { runReviewRequestSchema, signOff, signOffSchema } from "@/lib/services/reviews";
 import { startReviewRun, waitForRun } from "@/lib/services/runs";
 import { renameReview } from "@/lib/db/reviews";
+import { guardAction } from "@/app/guard";
 import { fieldErrors, formValues, textField, type FormState } from "@/lib/validation";
 
 /** channels besides the core that the form offers for the growth and shelf-life models (checkboxes cc-air, …) */
@@ -14,7 +15,7 @@ const CONSEQUENCE_CHANNELS = ["air", "surface", "mean", "probe"] as const;
 /** datetime-local inputs carry no zone; the form states that they are UTC. */
 const utc = (v: string | undefined) => (v ? (v.length === 16 ? `${v}:00Z` : `${v}Z`) : undefined);
 
-export async function startReview(_prev: FormState, form: FormData): Promise<FormState> {
+export const startReview = guardAction("review:run", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
   const values = formValues(form);
   let uncertainty: unknown = undefined;
   const rawU = (textField(form, "uncertainty") ?? "").trim();
@@ -40,15 +41,15 @@ export async function startReview(_prev: FormState, form: FormData): Promise<For
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
   // The engine runs in the worker pool; a quick run opens its review directly, a long one its progress page.
-  const started = await startReviewRun(parsed.data, "web");
+  const started = await startReviewRun(parsed.data, actor);
   if (!started.ok) return started.field === "form" ? { message: started.message, values } : { fieldErrors: { [started.field]: started.message }, values };
   const run = await waitForRun(started.run.id, 2_000);
   if (run?.status === "failed") return { message: run.message, values };
   if (run?.status === "done" && run.reviewId) redirect(`/reviews/${run.reviewId}`);
   redirect(`/runs/${started.run.id}`);
-}
+});
 
-export async function signOffReview(_prev: FormState, form: FormData): Promise<FormState> {
+export const signOffReview = guardAction("review:sign", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
   const values = formValues(form);
   const id = textField(form, "reviewId") ?? "";
   const parsed = signOffSchema.safeParse({
@@ -58,21 +59,21 @@ export async function signOffReview(_prev: FormState, form: FormData): Promise<F
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
   // The service checks the decision against the stored outcome; a form field cannot waive the comment.
-  const res = await signOff(id, parsed.data);
+  const res = await signOff(id, parsed.data, actor);
   if (!res.ok && res.reason === "comment-required") return { fieldErrors: { comment: res.message }, values };
   if (!res.ok) return { message: res.message, values };
   revalidatePath(`/reviews/${id}`);
   redirect(`/reviews/${id}`);
-}
+});
 
 const renameSchema = z.object({ title: z.string().trim().min(1, { message: "give the review a title" }).max(160) });
 
-export async function renameReviewAction(_prev: FormState, form: FormData): Promise<FormState> {
+export const renameReviewAction = guardAction("review:run", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
   const values = formValues(form);
   const id = textField(form, "reviewId") ?? "";
   const parsed = renameSchema.safeParse({ title: textField(form, "title") ?? "" });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
-  const res = await renameReview(id, parsed.data.title);
+  const res = await renameReview(id, parsed.data.title, actor);
   if (!res.ok) return { message: res.message, values };
   redirect(`/reviews/${id}`);
-}
+});

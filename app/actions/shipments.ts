@@ -7,11 +7,13 @@ import { signOffSchema } from "@/lib/services/reviews";
 import { saveLaneProfile, buildLaneProfile, type HistoryRequest } from "@/lib/services/lanes";
 import { fieldErrors, formValues, textField, type FormState } from "@/lib/validation";
 import { waitForRun } from "@/lib/services/runs";
+import { can, guardAction } from "@/app/guard";
+import { refusalMessage } from "@/lib/services/access";
 
 /** datetime-local inputs carry no zone; the forms state that they are UTC. */
 const utc = (v: string | undefined) => (v ? (v.length === 16 ? `${v}:00Z` : v.length === 19 ? `${v}Z` : v) : undefined);
 
-export async function createShipmentAction(_prev: FormState, form: FormData): Promise<FormState> {
+export const createShipmentAction = guardAction("shipment:edit", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
   const values = formValues(form);
   let loggers: unknown;
   try {
@@ -37,15 +39,15 @@ export async function createShipmentAction(_prev: FormState, form: FormData): Pr
       limitsId: textField(form, "limitsId") ?? "",
     },
     loggers,
-    "web",
+    actor,
   );
   if (!r.ok) return r.field === "form" ? { message: r.message, values } : { fieldErrors: { [r.field.startsWith("loggers") ? "loggers" : r.field]: r.message }, values };
   redirect(`/shipments/${r.shipmentId}`);
-}
+});
 
-export async function runShipmentAction(_prev: FormState, form: FormData): Promise<FormState> {
+export const runShipmentAction = guardAction("review:run", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
   const id = textField(form, "shipmentId") ?? "";
-  const started = await startShipmentReview(id, "web");
+  const started = await startShipmentReview(id, actor);
   if (!started.ok) return { message: started.message };
   const run = await waitForRun(started.run.id, 3_000);
   if (run?.status === "failed") return { message: run.message };
@@ -54,21 +56,21 @@ export async function runShipmentAction(_prev: FormState, form: FormData): Promi
     redirect(`/shipments/${id}`);
   }
   redirect(`/runs/${started.run.id}`);
-}
+});
 
-export async function signShipmentAction(_prev: FormState, form: FormData): Promise<FormState> {
+export const signShipmentAction = guardAction("review:sign", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
   const values = formValues(form);
   const id = textField(form, "shipmentId") ?? "";
   const parsed = signOffSchema.safeParse({ reviewer: textField(form, "reviewer") ?? "", decision: textField(form, "decision") ?? "", comment: textField(form, "comment") || undefined });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
-  const res = await signOffShipment(id, parsed.data);
+  const res = await signOffShipment(id, parsed.data, actor);
   if (!res.ok && res.reason === "comment-required") return { fieldErrors: { comment: res.message }, values };
   if (!res.ok) return { message: res.message, values };
   revalidatePath(`/shipments/${id}`);
   redirect(`/shipments/${id}`);
-}
+});
 
-export async function saveLoggerAction(_prev: FormState, form: FormData): Promise<FormState> {
+export const saveLoggerAction = guardAction("shipment:edit", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
   const values = formValues(form);
   const id = textField(form, "loggerId");
   const input = {
@@ -78,11 +80,11 @@ export async function saveLoggerAction(_prev: FormState, form: FormData): Promis
     lastCalibrationAt: utc(textField(form, "lastCalibrationAt") || undefined),
     nextCalibrationAt: utc(textField(form, "nextCalibrationAt") || undefined),
   };
-  const r = id ? await editLogger(id, input, "web") : await registerLogger(input, "web");
+  const r = id ? await editLogger(id, input, actor) : await registerLogger(input, actor);
   if (!r.ok) return r.field === "form" ? { message: r.message, values } : { fieldErrors: { [r.field]: r.message }, values };
   revalidatePath("/loggers");
   redirect("/loggers");
-}
+});
 
 function historyRequest(form: FormData): HistoryRequest {
   return {
@@ -112,12 +114,14 @@ export interface ProfilePreviewState extends FormState {
 }
 
 /** "Show" builds the envelope and profile without storing; "Save" stores the profile as a new definition. */
-export async function laneProfileAction(_prev: ProfilePreviewState, form: FormData): Promise<ProfilePreviewState> {
+export const laneProfileAction = guardAction("read", async (actor, _prev: ProfilePreviewState, form: FormData): Promise<ProfilePreviewState> => {
   const values = formValues(form);
   const laneId = textField(form, "laneId") ?? "";
   const req = historyRequest(form);
   if (textField(form, "intent") === "save") {
-    const saved = await saveLaneProfile(laneId, req, "web");
+    // showing a profile is a read; saving it is a definition edit
+    if (!can(actor, "definition:edit")) return { message: refusalMessage("definition:edit", actor), values };
+    const saved = await saveLaneProfile(laneId, req, actor);
     if (!saved.ok) return saved.field === "form" ? { message: saved.message, values } : { fieldErrors: { [saved.field]: saved.message }, values };
     redirect(`/design/profiles?saved=${saved.definitionId}`);
   }
@@ -137,4 +141,4 @@ export async function laneProfileAction(_prev: ProfilePreviewState, form: FormDa
       caution: built.build.caution,
     },
   };
-}
+});

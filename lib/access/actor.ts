@@ -48,3 +48,8 @@ export function actorRecord(actor: Actor): Record<string, string> {
       return { kind: "system", what: actor.what };
   }
 }
+
+/** The command line's actor: the operating-system user running it ("cli:ops"); USER/LOGNAME when the OS lookup fails. */
+export function cliActor(osUser: string): Actor {
+  return { kind: "cli", osUser: osUser || "unknown" };
+}

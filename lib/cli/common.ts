@@ -2,11 +2,24 @@
 // file (or standard input) and a JSON definition with its schema, and the one error type for bad input
 // (exit 2, one line naming the file and the row, column or field).
 import { readFileSync } from "node:fs";
+import { userInfo } from "node:os";
+import { cliActor, type Actor } from "../access/actor";
 import { z } from "zod";
 import { importTraceFile, importOptionsSchema, TraceImportError, type ImportOptions, type TraceImport } from "../trace";
 import { modelChoiceSchema, packSchema, productSchema, type Pack, type Product } from "../thermal/definitions";
 
 export class CliError extends Error {}
+
+/** Who runs this command, for the audit log: the operating-system user (`cli:<user>`). */
+export function currentCliActor(): Actor {
+  let name = "";
+  try {
+    name = userInfo().username;
+  } catch {
+    name = process.env.USER ?? process.env.LOGNAME ?? "";
+  }
+  return cliActor(name);
+}
 
 export const USAGE = `usage:
   corelag import FILE [--sheet NAME] [--time-col NAME] [--date-col NAME] [--air-col NAME] [--product-col NAME] [--unit C|F|K] [--tz ZONE]
@@ -25,6 +38,7 @@ export const USAGE = `usage:
   corelag seal                          (once after upgrading: content hashes for rows recorded before them)
   corelag backup --out FILE             (a consistent copy while the app runs: SQLite online backup, or pg_dump)
   corelag restore FILE                  (a backup into the empty database DATABASE_URL names; then run verify)
+  corelag user add --email E --name N --role R --password-stdin | user list | user set-role --email E --role R | user disable|enable --email E
   review also takes --uncertainty U.json (Monte Carlo: inputs, samples, seed, use_in_guard_band)`;
 
 export const IMPORT_FLAGS = {

@@ -93,6 +93,13 @@ Prints {database, out, bytes, sha256, head_seq}.`,
 Restores a backup made by corelag backup into the database named by DATABASE_URL, which must be empty (a SQLite path
 that does not exist yet; a PostgreSQL database without tables, created when missing). All or nothing. Then run
 corelag verify on it, with the original's signing key (CORELAG_SIGNING_KEY_FILE).`,
+  user: `corelag user add --email E --name N --role admin|reviewer|designer|auditor --password-stdin
+corelag user list
+corelag user set-role --email E --role R
+corelag user disable --email E      (and user enable --email E)
+Accounts of the web app. The password is read from standard input (first line), never from the command line.
+Every change is recorded in the audit log as cli:<operating-system user>. An administrator cannot be demoted or
+disabled while they are the only enabled one.`,
   seal: `corelag seal
 Once after upgrading: records the content hash of every row whose audit entries were written before entries carried one.`,
 };
@@ -112,6 +119,7 @@ const SUMMARY: Record<string, string> = {
   seal: "record content hashes for rows written before they existed",
   backup: "a consistent copy of the database while the app runs",
   restore: "restore a backup into an empty database",
+  user: "add, list, change the role of, disable or enable web accounts",
 };
 
 export const PROGRAM_HELP = `corelag: predicts product core temperature from cold-chain logger traces and judges it against your limits.

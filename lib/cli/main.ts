@@ -41,7 +41,10 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
   simulate: async () => (await import("./commands/simulate")).simulateCommand,
   shipment: async () => (await import("./commands/shipment")).shipmentCommand,
   profile: async () => (await import("./commands/profile")).profileCommand,
+  user: async () => (await import("./commands/user")).userCommand,
 };
+/** Commands that work on the database: it must already exist (npm start creates and migrates it). */
+const DATABASE_COMMANDS = new Set(["user"]);
 
 /** Runs one command; returns the exit code (0 done, 1 verify found a problem, 2 bad input, 3 unexpected failure). */
 export async function runCli(args: string[]): Promise<number> {
@@ -64,6 +67,7 @@ export async function runCli(args: string[]): Promise<number> {
       if (r.stderr) process.stderr.write(r.stderr);
       return r.code;
     }
+    if (DATABASE_COMMANDS.has(command!)) await requireExistingDatabase();
     const output = await (await run!())(rest);
     if (output !== undefined) process.stdout.write(JSON.stringify(output, null, 2) + "\n");
     return 0;

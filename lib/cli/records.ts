@@ -3,6 +3,7 @@
 import { existsSync, readFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { anchorSchema, type Anchor } from "../review/anchor";
+import { currentCliActor } from "./common";
 
 export class RecordsUsageError extends Error {}
 
@@ -59,7 +60,7 @@ export async function keyCommand(argv: string[]): Promise<CommandResult> {
   const { positionals } = parseArgs({ args: argv, options: {}, allowPositionals: true, strict: true });
   if (positionals[0] !== "rotate" || positionals.length !== 1) throw new RecordsUsageError("usage: corelag key rotate");
   const { rotateKey } = await import("../services/verify");
-  const r = await rotateKey("cli");
+  const r = await rotateKey(currentCliActor());
   if (!r.ok) return { stdout: "", stderr: `corelag key: ${r.message}\n`, code: 1 };
   return { stdout: JSON.stringify({ rotated: true, from_key_fingerprint: r.from, key_fingerprint: r.to, entry: r.seq }) + "\n", code: 0 };
 }
@@ -68,7 +69,7 @@ export async function keyCommand(argv: string[]): Promise<CommandResult> {
 export async function sealCommand(argv: string[]): Promise<CommandResult> {
   parseArgs({ args: argv, options: {}, strict: true });
   const { sealRows } = await import("../services/verify");
-  return { stdout: JSON.stringify({ sealed: await sealRows("cli") }) + "\n", code: 0 };
+  return { stdout: JSON.stringify({ sealed: await sealRows(currentCliActor()) }) + "\n", code: 0 };
 }
 
 /** `backup --out FILE`: a consistent copy while the app runs; prints what was written. */

@@ -5,16 +5,20 @@ import { publicKeyText, signEntry } from "../review/signature";
 import { definitionContentHash, reviewContentHash, traceContentHash } from "../review/content";
 import { CONTENT_ACTIONS, type SignatureRecord } from "../review/records";
 import { loadSigningKey, prepareKeyRotation, SigningKeyError, type SigningKey } from "./signingKey";
+import { actorLabel, actorRecord, type Actor } from "../access/actor";
 
 export type Tx = Prisma.TransactionClient;
 
 export interface AuditEvent {
-  action: "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel" | "readings" | "raise" | "clear" | "deliver" | "close";
-  /** "run": a background run that stored nothing (cancelled); its entityId is the run's id. "chain": a full check of the chain (entityId: the head checked) */
-  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview" | "chain";
+  action:
+    | "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel" | "readings" | "raise" | "clear" | "deliver" | "close"
+    // accounts (issue 13): a sign-in, a refused one, a sign-out; a user's role changed, disabled or enabled
+    | "sign-in" | "sign-in-refused" | "sign-out" | "set-role" | "disable" | "enable";
+  /** "run": a background run that stored nothing (cancelled); its entityId is the run's id. "chain": a full check of the chain (entityId: the head checked). "user": an account (its id, or the e-mail typed when it names no user) */
+  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview" | "chain" | "user";
   entityId: string;
-  /** who did it: the reviewer's name at sign-off, "web" or "cli" otherwise (there are no accounts yet) */
-  actor: string;
+  /** who did it: written as `actorLabel` in the entry's actor column and as `actorRecord` in its details */
+  actor: Actor;
   details: Record<string, unknown>;
   /** SHA-256 of the canonical content of the row as this change left it (lib/review/content.ts); every change but an export has one */
   contentSha256?: string;
@@ -37,14 +41,14 @@ async function lockChain(tx: Tx): Promise<void> {
 /** Writes one entry and its signature; the caller has checked that `signer` is the key in force. */
 async function writeEntry(tx: Tx, e: AuditEvent, signer: SigningKey, at: Date): Promise<AuditEntryRecord> {
   const last = await tx.auditEntry.findFirst({ orderBy: { seq: "desc" }, select: { seq: true, hash: true } });
-  const details = { ...e.details, ...(e.contentSha256 ? { contentSha256: e.contentSha256 } : {}) };
+  const details = { ...e.details, actor: actorRecord(e.actor), ...(e.contentSha256 ? { contentSha256: e.contentSha256 } : {}) };
   const fields = {
     seq: (last?.seq ?? 0) + 1,
     at,
     action: e.action,
     entity: e.entity,
     entityId: e.entityId,
-    actor: e.actor,
+    actor: actorLabel(e.actor),
     details: JSON.parse(JSON.stringify(details)) as unknown,
     prevHash: last?.hash ?? GENESIS_HASH,
   };
@@ -54,7 +58,10 @@ async function writeEntry(tx: Tx, e: AuditEvent, signer: SigningKey, at: Date): 
   return { ...fields, hash };
 }
 
-const keyEvent = (k: SigningKey, previous: string | null, actor: string): AuditEvent => ({
+/** The actor of entries the application makes on its own (the first key entry, the demo loader). */
+export const SYSTEM_ACTOR: Actor = { kind: "system", what: "corelag" };
+
+const keyEvent = (k: SigningKey, previous: string | null, actor: Actor): AuditEvent => ({
   action: "key",
   entity: "key",
   entityId: k.fingerprint,
@@ -77,7 +84,7 @@ export async function appendAudit(tx: Tx, e: AuditEvent, at: Date = new Date()):
   const signer = loadSigningKey({ create: true })!;
   await lockChain(tx);
   const inForce = await chainKey(tx);
-  if (inForce === null) await writeEntry(tx, keyEvent(signer, null, "system"), signer, at);
+  if (inForce === null) await writeEntry(tx, keyEvent(signer, null, SYSTEM_ACTOR), signer, at);
   else if (inForce !== signer.fingerprint) {
     throw new SigningKeyError(
       `the signing key ${signer.fingerprint.slice(0, 16)}… (${signer.source}) is not the key this audit chain is signed with (${inForce.slice(0, 16)}…): restore that key, or rotate keys with \`corelag key rotate\``,
@@ -87,14 +94,14 @@ export async function appendAudit(tx: Tx, e: AuditEvent, at: Date = new Date()):
 }
 
 /** A new signing key, recorded in the chain and endorsed by the outgoing key; the old private key is deleted. */
-export async function rotateSigningKey(actor = "cli"): Promise<{ from: string; to: string; seq: number }> {
+export async function rotateSigningKey(actor: Actor): Promise<{ from: string; to: string; seq: number }> {
   const r = prepareKeyRotation();
   try {
     const entry = await db.$transaction(async (tx) => {
       await lockChain(tx);
       const inForce = await chainKey(tx);
       if (inForce !== null && inForce !== r.old.fingerprint) throw new SigningKeyError(`the current key file is not the chain's key (${inForce.slice(0, 16)}…); rotation needs the key in force`);
-      if (inForce === null) await writeEntry(tx, keyEvent(r.old, null, "system"), r.old, new Date());
+      if (inForce === null) await writeEntry(tx, keyEvent(r.old, null, SYSTEM_ACTOR), r.old, new Date());
       return writeEntry(tx, keyEvent(r.next, r.old.fingerprint, actor), r.old, new Date());
     });
     r.commit();
@@ -116,22 +123,22 @@ export async function listSignatures(): Promise<SignatureRecord[]> {
 }
 
 /** Records an export (outside any other change). */
-export async function logExport(reviewId: string, format: string, sha256: string): Promise<void> {
-  await db.$transaction((tx) => appendAudit(tx, { action: "export", entity: "review", entityId: reviewId, actor: "web", details: { format, sha256 } }));
+export async function logExport(reviewId: string, format: string, sha256: string, actor: Actor): Promise<void> {
+  await db.$transaction((tx) => appendAudit(tx, { action: "export", entity: "review", entityId: reviewId, actor, details: { format, sha256 } }));
 }
 
 /** Records a download of a trace's original bytes, with the SHA-256 of the bytes served. */
-export async function logOriginalDownload(traceId: string, sha256: string): Promise<void> {
-  await db.$transaction((tx) => appendAudit(tx, { action: "export", entity: "trace", entityId: traceId, actor: "web", details: { format: "original", sha256 } }));
+export async function logOriginalDownload(traceId: string, sha256: string, actor: Actor): Promise<void> {
+  await db.$transaction((tx) => appendAudit(tx, { action: "export", entity: "trace", entityId: traceId, actor, details: { format: "original", sha256 } }));
 }
 
 /** Records the result of re-checking a stored review (re-import and re-run, as `corelag verify --review` does). */
-export async function logRecheck(reviewId: string, actor: string, details: { reproduced: boolean; problems: string[]; engineVersion: string; resultSha256: string }): Promise<AuditEntryRecord> {
+export async function logRecheck(reviewId: string, actor: Actor, details: { reproduced: boolean; problems: string[]; engineVersion: string; resultSha256: string }): Promise<AuditEntryRecord> {
   return db.$transaction((tx) => appendAudit(tx, { action: "verify", entity: "review", entityId: reviewId, actor, details }));
 }
 
 /** A full check of the chain (the audit page's button), recorded with its result: later views verify from its head. */
-export async function logChainCheck(actor: string, details: { ok: boolean; head_seq: number | null; head_hash: string | null; key_fingerprint: string | null; findings: number; problems: string[] }): Promise<AuditEntryRecord> {
+export async function logChainCheck(actor: Actor, details: { ok: boolean; head_seq: number | null; head_hash: string | null; key_fingerprint: string | null; findings: number; problems: string[] }): Promise<AuditEntryRecord> {
   return db.$transaction((tx) => appendAudit(tx, { action: "verify", entity: "chain", entityId: details.head_seq === null ? "empty" : String(details.head_seq), actor, details }));
 }
 
@@ -145,7 +152,7 @@ export async function lastChainCheckEntry(): Promise<AuditEntryRecord | null> {
  * Once after upgrading: rows whose latest entry was written before entries carried content hashes get a
  * "seal" entry with their current content hash. Rows with no entry at all are left for verify to report.
  */
-export async function sealUnsealedRows(actor = "system"): Promise<number> {
+export async function sealUnsealedRows(actor: Actor): Promise<number> {
   const entries = await db.auditEntry.findMany({ where: { entity: { in: ["trace", "definition", "review"] }, action: { in: [...CONTENT_ACTIONS] } }, orderBy: { seq: "asc" }, select: { entity: true, entityId: true, details: true } });
   const latest = new Map<string, boolean>();
   for (const e of entries) latest.set(`${e.entity}:${e.entityId}`, typeof (e.details as { contentSha256?: unknown } | null)?.contentSha256 === "string");

@@ -4,6 +4,7 @@ import { appendAudit } from "./audit";
 import { canonicalJson } from "../review/canonical";
 import { sha256Hex } from "../trace/hash";
 import { definitionContentHash } from "../review/content";
+import type { Actor } from "../access/actor";
 
 export type DefinitionKind = "product" | "pack" | "limits" | "profile";
 
@@ -39,7 +40,7 @@ async function insertDefinition(tx: Tx, d: { kind: string; lineage: string; vers
 }
 
 /** A new definition, version 1 of a new lineage. `body` must already be validated. */
-export async function createDefinition<T extends { name: string }>(kind: DefinitionKind, body: T, actor = "web"): Promise<StoredDefinition<T>> {
+export async function createDefinition<T extends { name: string }>(kind: DefinitionKind, body: T, actor: Actor): Promise<StoredDefinition<T>> {
   return db.$transaction(async (tx) => {
     const row = await insertDefinition(tx, { kind, lineage: randomUUID(), version: 1, name: body.name, body });
     await appendAudit(tx, { action: "create", entity: "definition", entityId: row.id, actor, details: { kind, name: row.name, lineage: row.lineage, version: 1, sha256: row.sha256 }, contentSha256: definitionContentHash(row) });
@@ -48,7 +49,7 @@ export async function createDefinition<T extends { name: string }>(kind: Definit
 }
 
 /** An edit: a new version in the same lineage. Earlier versions stay as they were, for the reviews that used them. */
-export async function reviseDefinition<T extends { name: string }>(lineage: string, body: T, actor = "web"): Promise<StoredDefinition<T>> {
+export async function reviseDefinition<T extends { name: string }>(lineage: string, body: T, actor: Actor): Promise<StoredDefinition<T>> {
   return db.$transaction(async (tx) => {
     const latest = await tx.definition.findFirst({ where: { lineage }, orderBy: { version: "desc" } });
     if (!latest) throw new Error(`no definition with lineage ${lineage}`);

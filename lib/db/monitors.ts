@@ -1,5 +1,6 @@
 import { db } from "./client";
 import { appendAudit } from "./audit";
+import type { Actor } from "../access/actor";
 
 /** A monitor as stored (without the device token's hash). */
 export interface StoredMonitor {
@@ -48,7 +49,7 @@ function toStored(r: Row): StoredMonitor {
 }
 
 /** Stores a new monitor and its "create" entry (the definitions it uses, its alert settings; never the token). */
-export async function createMonitor(m: NewMonitor, actor: string): Promise<StoredMonitor> {
+export async function createMonitor(m: NewMonitor, actor: Actor): Promise<StoredMonitor> {
   return db.$transaction(async (tx) => {
     const row = await tx.monitor.create({ data: { ...m, packId: m.packId ?? null, shipmentId: m.shipmentId ?? null, serial: m.serial ?? null, airHoldCount: m.airHoldCount ?? null } });
     await appendAudit(tx, {
@@ -115,7 +116,7 @@ export interface NewBatch {
 }
 
 /** Stores one accepted batch and its readings with a "readings" entry (the body's SHA-256 and the counts), in one transaction. */
-export async function storeBatch(monitorId: string, b: NewBatch, actor: string): Promise<{ batchId: string }> {
+export async function storeBatch(monitorId: string, b: NewBatch, actor: Actor): Promise<{ batchId: string }> {
   return db.$transaction(async (tx) => {
     const batch = await tx.monitorBatch.create({ data: { monitorId, sha256: b.sha256, format: b.format, accepted: b.readings.length, duplicates: b.duplicates, conflicts: b.conflicts, refused: b.refused } });
     if (b.readings.length) await tx.monitorReading.createMany({ data: b.readings.map((r) => ({ monitorId, tS: r.t_s, airC: r.air_C, probeC: r.probe_C, batchId: batch.id })) });
@@ -147,7 +148,7 @@ export async function openAlerts(monitorId: string): Promise<StoredAlert[]> {
 }
 
 /** Raises an alert and records it ("raise"), unless one for the same condition is open (then returns null). */
-export async function raiseAlert(monitorId: string, a: { key: string; kind: string; rule: string | null; message: string }, at: Date, actor: string): Promise<StoredAlert | null> {
+export async function raiseAlert(monitorId: string, a: { key: string; kind: string; rule: string | null; message: string }, at: Date, actor: Actor): Promise<StoredAlert | null> {
   return db.$transaction(async (tx) => {
     const open = await tx.alert.findFirst({ where: { monitorId, key: a.key, clearedAt: null } });
     if (open) return null;
@@ -158,7 +159,7 @@ export async function raiseAlert(monitorId: string, a: { key: string; kind: stri
 }
 
 /** Clears an open alert and records it ("clear"); null when it was already cleared. */
-export async function clearAlert(alertId: string, at: Date, actor: string): Promise<StoredAlert | null> {
+export async function clearAlert(alertId: string, at: Date, actor: Actor): Promise<StoredAlert | null> {
   return db.$transaction(async (tx) => {
     const open = await tx.alert.findFirst({ where: { id: alertId, clearedAt: null } });
     if (!open) return null;
@@ -182,7 +183,7 @@ export interface DeliveryAttempt {
 }
 
 /** Logs one delivery attempt with a "deliver" entry. */
-export async function logDelivery(d: DeliveryAttempt, actor: string): Promise<void> {
+export async function logDelivery(d: DeliveryAttempt, actor: Actor): Promise<void> {
   await db.$transaction(async (tx) => {
     const row = await tx.alertDelivery.create({ data: { ...d, httpStatus: d.httpStatus ?? null, error: d.error ?? null, nextAt: d.nextAt ?? null } });
     await appendAudit(tx, { action: "deliver", entity: "alert", entityId: d.alertId, actor, details: { deliveryId: row.id, event: d.event, channel: d.channel, target: d.target, attempt: d.attempt, ok: d.ok, httpStatus: d.httpStatus ?? null, error: d.error ?? null } }, d.at);
@@ -209,7 +210,7 @@ export async function openAlertCount(): Promise<number> {
 }
 
 /** Closes a monitor, pointing at the trace and review made from its readings ("close"). */
-export async function closeMonitorRow(id: string, traceId: string, reviewId: string, actor: string): Promise<void> {
+export async function closeMonitorRow(id: string, traceId: string, reviewId: string, actor: Actor): Promise<void> {
   await db.$transaction(async (tx) => {
     const m = await tx.monitor.findUniqueOrThrow({ where: { id } });
     if (m.status !== "open") throw new Error("the monitor is already closed");

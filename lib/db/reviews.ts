@@ -7,6 +7,7 @@ import { bytesToFloat64, float64ToBytes } from "./bytes";
 import type { ReviewComputation, ReviewResult } from "../review";
 import type { Outcome } from "../exposure/rules";
 import { reviewContentHash } from "../review/content";
+import type { Actor } from "../access/actor";
 
 /** What a sign-off means, recorded with it when the signer gives no other wording. */
 export const DEFAULT_SIGN_MEANING = "I reviewed this record; the decision above is mine";
@@ -22,7 +23,7 @@ export interface NewReview {
   computation: ReviewComputation;
   resultSha256: string;
   correctsId?: string;
-  actor?: string;
+  actor: Actor;
   /** the review's id when the caller must know it in advance (a queued run stores under its job's id, so a retry cannot store twice) */
   id?: string;
 }
@@ -48,7 +49,7 @@ export async function insertReview(tx: Tx, r: NewReview): Promise<string> {
     action: "run",
     entity: "review",
     entityId: row.id,
-    actor: r.actor ?? "web",
+    actor: r.actor,
     details: {
       traceId: r.traceId,
       traceSha256: row.trace.sha256,
@@ -77,7 +78,7 @@ export const COMMENT_REQUIRED_MESSAGE = "a decision that differs from the sugges
  * needs a comment; this is checked here, inside the transaction, against the row itself, so no form
  * field (a hidden "suggested" value, say) can waive it.
  */
-export async function signReview(id: string, s: { reviewer: string; decision: Outcome; comment?: string; meaning?: string }): Promise<ReviewChange> {
+export async function signReview(id: string, s: { reviewer: string; decision: Outcome; comment?: string; meaning?: string }, actor: Actor): Promise<ReviewChange> {
   return db.$transaction(async (tx) => {
     const row = await tx.review.findUnique({ where: { id }, select: { status: true, outcome: true } });
     if (!row) return { ok: false, reason: "not-found", message: "that review does not exist" };
@@ -94,7 +95,7 @@ export async function signReview(id: string, s: { reviewer: string; decision: Ou
         action: "sign",
         entity: "review",
         entityId: id,
-        actor: s.reviewer,
+        actor,
         details: { decision: s.decision, suggested: row.outcome, comment: s.comment ?? null, meaning, signedAt: signedAt.toISOString() },
         contentSha256: reviewContentHash(signed),
       },
@@ -105,13 +106,13 @@ export async function signReview(id: string, s: { reviewer: string; decision: Ou
 }
 
 /** Renames an open review; a signed one refuses. */
-export async function renameReview(id: string, title: string): Promise<ReviewChange> {
+export async function renameReview(id: string, title: string, actor: Actor): Promise<ReviewChange> {
   return db.$transaction(async (tx) => {
     const row = await tx.review.findUnique({ where: { id }, select: { status: true, title: true } });
     if (!row) return { ok: false, reason: "not-found", message: "that review does not exist" };
     if (row.status === "signed") return { ok: false, reason: "signed", message: "a signed review cannot be edited; start a correction instead" };
     const renamed = await tx.review.update({ where: { id }, data: { title } });
-    await appendAudit(tx, { action: "rename", entity: "review", entityId: id, actor: "web", details: { from: row.title, to: title }, contentSha256: reviewContentHash(renamed) });
+    await appendAudit(tx, { action: "rename", entity: "review", entityId: id, actor, details: { from: row.title, to: title }, contentSha256: reviewContentHash(renamed) });
     return { ok: true };
   });
 }

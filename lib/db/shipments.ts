@@ -7,6 +7,7 @@ import { shipmentRowContentHash } from "../shipment/content";
 import { reviewContentHash } from "../review/content";
 import type { Outcome } from "../exposure/rules";
 import { COMMENT_REQUIRED_MESSAGE, DEFAULT_SIGN_MEANING, MIN_DIFFERING_COMMENT_CHARS, insertReview, type NewReview } from "./reviews";
+import type { Actor } from "../access/actor";
 
 export interface ShipmentProductEntry {
   productId: string;
@@ -16,7 +17,7 @@ export interface ShipmentProductEntry {
 
 // ---- lanes -------------------------------------------------------------------------------------------
 
-export async function createLane(l: { name: string; origin: string; destination: string }, actor: string) {
+export async function createLane(l: { name: string; origin: string; destination: string }, actor: Actor) {
   return db.$transaction(async (tx) => {
     const row = await tx.lane.create({ data: l });
     await appendAudit(tx, { action: "create", entity: "lane", entityId: row.id, actor, details: { name: row.name, origin: row.origin, destination: row.destination }, contentSha256: shipmentRowContentHash("Lane", row) });
@@ -46,7 +47,7 @@ export interface LoggerInput {
   nextCalibrationAt?: Date | null;
 }
 
-export async function createLogger(l: LoggerInput, actor: string, tx0?: Tx) {
+export async function createLogger(l: LoggerInput, actor: Actor, tx0?: Tx) {
   const write = async (tx: Tx) => {
     const row = await tx.logger.create({ data: { ...l, lastCalibrationAt: l.lastCalibrationAt ?? null, nextCalibrationAt: l.nextCalibrationAt ?? null } });
     await appendAudit(tx, { action: "create", entity: "logger", entityId: row.id, actor, details: { serial: row.serial, accuracyK: row.accuracyK, nextCalibrationAt: row.nextCalibrationAt?.toISOString() ?? null }, contentSha256: shipmentRowContentHash("Logger", row) });
@@ -56,7 +57,7 @@ export async function createLogger(l: LoggerInput, actor: string, tx0?: Tx) {
 }
 
 /** A new calibration or description: the row changes, the entry keeps what it was and what it became. */
-export async function updateLogger(id: string, l: Omit<LoggerInput, "serial">, actor: string) {
+export async function updateLogger(id: string, l: Omit<LoggerInput, "serial">, actor: Actor) {
   return db.$transaction(async (tx) => {
     const before = await tx.logger.findUniqueOrThrow({ where: { id } });
     const row = await tx.logger.update({ where: { id }, data: { ...l, updatedAt: new Date() } });
@@ -103,7 +104,7 @@ export interface ShipmentLoggerInput {
   products: ShipmentProductEntry[];
 }
 
-export async function createShipment(s: ShipmentInput, loggers: ShipmentLoggerInput[], actor: string): Promise<string> {
+export async function createShipment(s: ShipmentInput, loggers: ShipmentLoggerInput[], actor: Actor): Promise<string> {
   return db.$transaction(async (tx) => {
     const row = await tx.shipment.create({ data: { ...s, laneId: s.laneId ?? null } });
     await appendAudit(tx, { action: "create", entity: "shipment", entityId: row.id, actor, details: { reference: row.reference, laneId: row.laneId, limitsId: row.limitsId }, contentSha256: shipmentRowContentHash("Shipment", row) });
@@ -112,14 +113,14 @@ export async function createShipment(s: ShipmentInput, loggers: ShipmentLoggerIn
   });
 }
 
-async function insertLogger(tx: Tx, shipmentId: string, ordinal: number, l: ShipmentLoggerInput, actor: string) {
+async function insertLogger(tx: Tx, shipmentId: string, ordinal: number, l: ShipmentLoggerInput, actor: Actor) {
   const row = await tx.shipmentLogger.create({ data: { shipmentId, ordinal, position: l.position, serial: l.serial ?? null, fileNamePattern: l.fileNamePattern ?? null, products: l.products as unknown as object } });
   await appendAudit(tx, { action: "create", entity: "shipmentLogger", entityId: row.id, actor, details: { shipmentId, ordinal, position: row.position, serial: row.serial, products: l.products as unknown as object }, contentSha256: shipmentRowContentHash("ShipmentLogger", row) });
   return row;
 }
 
 /** Adds logger entries to an open shipment. */
-export async function addShipmentLoggers(shipmentId: string, loggers: ShipmentLoggerInput[], actor: string) {
+export async function addShipmentLoggers(shipmentId: string, loggers: ShipmentLoggerInput[], actor: Actor) {
   return db.$transaction(async (tx) => {
     const n = await tx.shipmentLogger.count({ where: { shipmentId } });
     const rows = [];
@@ -129,7 +130,7 @@ export async function addShipmentLoggers(shipmentId: string, loggers: ShipmentLo
 }
 
 /** Attaches stored traces to logger entries (the confirmed matching of a batch upload), all or none. */
-export async function attachTraces(shipmentId: string, links: ReadonlyArray<{ shipmentLoggerId: string; traceId: string }>, actor: string) {
+export async function attachTraces(shipmentId: string, links: ReadonlyArray<{ shipmentLoggerId: string; traceId: string }>, actor: Actor) {
   return db.$transaction(async (tx) => {
     for (const l of links) {
       const entry = await tx.shipmentLogger.findUnique({ where: { id: l.shipmentLoggerId } });
@@ -144,7 +145,7 @@ export async function attachTraces(shipmentId: string, links: ReadonlyArray<{ sh
  * A shipment review run in one transaction: every review with its audit entry, the links saying which
  * logger and product each stands for, and the shipment's outcome. A failure stores none of it.
  */
-export async function recordShipmentRun(shipmentId: string, runId: string, items: ReadonlyArray<{ shipmentLoggerId: string; productId: string; review: NewReview }>, outcome: Outcome, result: unknown, actor: string): Promise<string[]> {
+export async function recordShipmentRun(shipmentId: string, runId: string, items: ReadonlyArray<{ shipmentLoggerId: string; productId: string; review: NewReview }>, outcome: Outcome, result: unknown, actor: Actor): Promise<string[]> {
   return db.$transaction(async (tx) => {
     const reviewIds: string[] = [];
     for (const item of items) {
@@ -168,7 +169,7 @@ export type ShipmentSignOutcome = { ok: true } | { ok: false; reason: "not-found
  * transaction, each with its own audit entry. Each review records the shipment's decision, with a comment
  * naming the shipment (and the review's own suggestion when it differs), so every review says why.
  */
-export async function signShipment(id: string, s: { reviewer: string; decision: Outcome; comment?: string; meaning?: string }): Promise<ShipmentSignOutcome> {
+export async function signShipment(id: string, s: { reviewer: string; decision: Outcome; comment?: string; meaning?: string }, actor: Actor): Promise<ShipmentSignOutcome> {
   return db.$transaction(async (tx) => {
     const row = await tx.shipment.findUnique({ where: { id } });
     if (!row) return { ok: false, reason: "not-found", message: "that shipment does not exist" };
@@ -183,10 +184,10 @@ export async function signShipment(id: string, s: { reviewer: string; decision: 
       if (r.status === "signed") continue; // signed on its own before: that signature stands
       const comment = [`Signed with shipment ${row.reference} (shipment decision: ${s.decision}; this review suggested ${r.outcome}).`, s.comment?.trim()].filter(Boolean).join(" ");
       const signed = await tx.review.update({ where: { id: l.reviewId }, data: { status: "signed", signedBy: s.reviewer, signedAt, decision: s.decision, signComment: comment, signMeaning: meaning } });
-      await appendAudit(tx, { action: "sign", entity: "review", entityId: l.reviewId, actor: s.reviewer, details: { decision: s.decision, suggested: r.outcome, comment, meaning, signedAt: signedAt.toISOString(), shipment: id }, contentSha256: reviewContentHash(signed) }, signedAt);
+      await appendAudit(tx, { action: "sign", entity: "review", entityId: l.reviewId, actor, details: { decision: s.decision, suggested: r.outcome, comment, meaning, signedAt: signedAt.toISOString(), shipment: id }, contentSha256: reviewContentHash(signed) }, signedAt);
     }
     const signed = await tx.shipment.update({ where: { id }, data: { status: "signed", signedBy: s.reviewer, signedAt, decision: s.decision, signComment: s.comment?.trim() || null, signMeaning: meaning } });
-    await appendAudit(tx, { action: "sign", entity: "shipment", entityId: id, actor: s.reviewer, details: { decision: s.decision, suggested: row.outcome, comment: s.comment ?? null, meaning, signedAt: signedAt.toISOString(), reviews: links.map((l) => l.reviewId) }, contentSha256: shipmentRowContentHash("Shipment", signed) }, signedAt);
+    await appendAudit(tx, { action: "sign", entity: "shipment", entityId: id, actor, details: { decision: s.decision, suggested: row.outcome, comment: s.comment ?? null, meaning, signedAt: signedAt.toISOString(), reviews: links.map((l) => l.reviewId) }, contentSha256: shipmentRowContentHash("Shipment", signed) }, signedAt);
     return { ok: true };
   });
 }

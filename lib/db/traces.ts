@@ -5,6 +5,7 @@ import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import { idsContaining } from "./textSearch";
 import { traceContentHash } from "../review/content";
 import { sha256Hex, type TraceImport, type TraceSeries, type ResolvedImportSettings } from "../trace";
+import type { Actor } from "../access/actor";
 
 export interface StoredTraceMeta {
   id: string;
@@ -21,7 +22,7 @@ export interface StoredTraceMeta {
 }
 
 /** Stores the original bytes, their hash, the resolved import settings and the parsed series, in one write. */
-export async function createTrace(args: { name: string; fileName: string; bytes: Uint8Array; imported: TraceImport; actor?: string }): Promise<string> {
+export async function createTrace(args: { name: string; fileName: string; bytes: Uint8Array; imported: TraceImport; actor: Actor }): Promise<string> {
   const { series, settings, warnings } = args.imported;
   const n = series.t_s.length;
   const sha256 = sha256Hex(args.bytes);
@@ -46,7 +47,7 @@ export async function createTrace(args: { name: string; fileName: string; bytes:
       action: "import",
       entity: "trace",
       entityId: row.id,
-      actor: args.actor ?? "web",
+      actor: args.actor,
       details: { fileName: args.fileName, sha256, samples: n, settings: settings as unknown as object, warnings: warnings.length },
       contentSha256: traceContentHash(row),
     });

@@ -1,6 +1,7 @@
 import { createHmac } from "node:crypto";
 import { config } from "../config";
 import { logDelivery, type StoredAlert, type StoredMonitor } from "../db/monitors";
+import type { Actor } from "../access/actor";
 
 /** The header that carries the body's signature: "sha256=" and the hex HMAC-SHA256 of the exact body bytes with the monitor's secret. */
 export const SIGNATURE_HEADER = "X-Corelag-Signature";
@@ -42,7 +43,7 @@ function track(p: Promise<void>): void {
 const sleep = (s: number) => new Promise<void>((r) => setTimeout(r, s * 1000).unref?.());
 
 /** One webhook: POST the signed JSON, retried with backoff on an error or a non-2xx answer; every attempt logged. */
-async function deliverWebhook(m: StoredMonitor, a: StoredAlert, event: AlertEvent, url: string, actor: string): Promise<void> {
+async function deliverWebhook(m: StoredMonitor, a: StoredAlert, event: AlertEvent, url: string, actor: Actor): Promise<void> {
   const max = config().CORELAG_WEBHOOK_MAX_ATTEMPTS;
   // one body for every attempt: the receiver can tell a retry by the delivery's alert id, event and sent_at
   const body = JSON.stringify(alertPayload(m, a, event, new Date()));
@@ -72,7 +73,7 @@ async function deliverWebhook(m: StoredMonitor, a: StoredAlert, event: AlertEven
 }
 
 /** One e-mail through the configured SMTP server (nodemailer), retried like a webhook. */
-async function deliverEmail(m: StoredMonitor, a: StoredAlert, event: AlertEvent, to: string, smtpUrl: string, actor: string): Promise<void> {
+async function deliverEmail(m: StoredMonitor, a: StoredAlert, event: AlertEvent, to: string, smtpUrl: string, actor: Actor): Promise<void> {
   const { createTransport } = await import("nodemailer");
   const transport = createTransport(smtpUrl);
   const p = alertPayload(m, a, event, new Date());
@@ -106,7 +107,7 @@ async function deliverEmail(m: StoredMonitor, a: StoredAlert, event: AlertEvent,
  * background: the request that raised the alert does not wait. Retries happen in this process; an attempt
  * still due when the server stops is not resumed (its `nextAt` stays in the log).
  */
-export function deliverAlert(m: StoredMonitor, a: StoredAlert, event: AlertEvent, actor = "system:alerts"): void {
+export function deliverAlert(m: StoredMonitor, a: StoredAlert, event: AlertEvent, actor: Actor = { kind: "system", what: "alerts" }): void {
   for (const url of m.webhooks) track(deliverWebhook(m, a, event, url, actor).catch((e) => console.error(`webhook delivery to ${url} failed to log:`, e)));
   const smtp = config().CORELAG_SMTP_URL;
   if (smtp) for (const to of m.emails) track(deliverEmail(m, a, event, to, smtp, actor).catch((e) => console.error(`e-mail to ${to} failed to log:`, e)));

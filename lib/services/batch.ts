@@ -9,6 +9,7 @@ import { matchFiles, serialFromMetadata, type FileMatch } from "../shipment/matc
 import { createTrace } from "../db/traces";
 import { attachTraces, createLogger, getShipment, loggersBySerial } from "../db/shipments";
 import { isDiskFull } from "../db/errors";
+import type { Actor } from "../access/actor";
 
 /** At most this many files in one batch (a truck, a container: not a warehouse). */
 export const MAX_BATCH_FILES = 200;
@@ -163,7 +164,7 @@ export interface StoreBatchResult {
  * entry), every new serial in the register, then the matching, in one transaction. A refused file stores
  * nothing and is listed; the others go on.
  */
-export async function storeBatch(shipmentId: string, files: readonly UploadedFile[], request: StoreBatchRequest, actor: string): Promise<{ ok: true; result: StoreBatchResult } | { ok: false; message: string }> {
+export async function storeBatch(shipmentId: string, files: readonly UploadedFile[], request: StoreBatchRequest, actor: Actor): Promise<{ ok: true; result: StoreBatchResult } | { ok: false; message: string }> {
   const parsed = storeBatchSchema.safeParse(request);
   if (!parsed.success) {
     const i = parsed.error.issues[0]!;

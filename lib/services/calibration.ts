@@ -7,6 +7,7 @@ import { bridgeGaps } from "../trace/series";
 import { getTrace } from "../db/traces";
 import { createDefinition, getDefinition, reviseDefinition, type StoredDefinition } from "../db/definitions";
 import { ENGINE_VERSION } from "../review/runReview";
+import type { Actor } from "../access/actor";
 
 export const calibrationRequestSchema = z.object({
   traceId: z.string().min(1, { message: "choose a trace with a product probe" }),
@@ -56,7 +57,7 @@ export async function runCalibration(request: CalibrationRequest): Promise<Calib
  * was compared with a pack, the effective pack is a new version of that pack (the old version stays
  * for the reviews that used it); otherwise it is a new pack. Later reviews can use it.
  */
-export async function saveEffectivePack(request: CalibrationRequest & { name: string }): Promise<{ ok: true; packId: string } | { ok: false; message: string }> {
+export async function saveEffectivePack(request: CalibrationRequest & { name: string }, actor: Actor): Promise<{ ok: true; packId: string } | { ok: false; message: string }> {
   const out = await runCalibration(request);
   if (!out.ok) return out;
   if (!out.product || out.result.h_eff_W_m2K === undefined) return { ok: false, message: "choose the product: the effective coefficient is referred to its surface" };
@@ -81,6 +82,6 @@ export async function saveEffectivePack(request: CalibrationRequest & { name: st
     return { ok: false, message: `the fitted pack cannot be saved: field '${issue.path.join(".")}': ${issue.message}` };
   }
   const body = parsed.data;
-  const saved = out.pack ? await reviseDefinition(out.pack.lineage, body) : await createDefinition("pack", body);
+  const saved = out.pack ? await reviseDefinition(out.pack.lineage, body, actor) : await createDefinition("pack", body, actor);
   return { ok: true, packId: saved.id };
 }

@@ -10,6 +10,10 @@ import { db } from "../db/client";
 import { DEMO_DESIGN_NAMES, DEMO_MONITOR } from "./demoNames";
 import { createMonitorService } from "./monitors";
 import { runAndStoreReview, signOff } from "./reviews";
+import type { Actor } from "../access/actor";
+
+/** The demo loader writes as itself; its historic sign-off is by the invented QA person it names. */
+const DEMO_ACTOR: Actor = { kind: "system", what: "demo" };
 
 const DEMO = path.resolve(__dirname, "..", "..", "public", "demo");
 /** The demo's design files (their names are DEMO_DESIGN_NAMES). */
@@ -20,36 +24,36 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   if ((await db.trace.count()) > 0 || (await db.definition.count()) > 0) return "skipped";
   const product = productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
   const limits = limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
-  const p = await createDefinition("product", product);
-  const l = await createDefinition("limits", limits);
+  const p = await createDefinition("product", product, DEMO_ACTOR);
+  const l = await createDefinition("limits", limits, DEMO_ACTOR);
   // A historic record an auditor can open: the same route a week earlier, reviewed and signed off.
   const earlyName = "route7-tote3-0609.csv";
   const earlyBytes = readFileSync(path.join(DEMO, earlyName));
-  const earlyTrace = await createTrace({ name: "Route 7 north, tote 3, 9 June (demo)", fileName: earlyName, bytes: earlyBytes, imported: importCsv(earlyBytes) });
-  const early = await runAndStoreReview({ title: "Route 7, 9 June: tote 3, door openings only (demo)", traceId: earlyTrace, productId: p.id, limitsId: l.id });
+  const earlyTrace = await createTrace({ name: "Route 7 north, tote 3, 9 June (demo)", fileName: earlyName, bytes: earlyBytes, imported: importCsv(earlyBytes), actor: DEMO_ACTOR });
+  const early = await runAndStoreReview({ title: "Route 7, 9 June: tote 3, door openings only (demo)", traceId: earlyTrace, productId: p.id, limitsId: l.id }, DEMO_ACTOR);
   if (!early.ok) throw new Error(`demo review failed: ${early.message}`);
   const signed = await signOff(early.reviewId, {
     reviewer: "Mara Quellen (QA, invented)",
     decision: "accept",
     comment: "Air rose only at the five drops; the core estimate stayed below 5 °C. Released.",
-  });
+  }, DEMO_ACTOR);
   if (!signed.ok) throw new Error(`demo sign-off failed: ${signed.message}`);
   // The open review: the dock delay of 16 June, awaiting a decision.
   const fileName = "route7-tote3.csv";
   const bytes = readFileSync(path.join(DEMO, fileName));
-  const traceId = await createTrace({ name: "Route 7 north, tote 3 (demo)", fileName, bytes, imported: importCsv(bytes) });
-  const res = await runAndStoreReview({ title: "Route 7, 16 June: tote 3 after the dock delay (demo)", traceId, productId: p.id, limitsId: l.id });
+  const traceId = await createTrace({ name: "Route 7 north, tote 3 (demo)", fileName, bytes, imported: importCsv(bytes), actor: DEMO_ACTOR });
+  const res = await runAndStoreReview({ title: "Route 7, 16 June: tote 3 after the dock delay (demo)", traceId, productId: p.id, limitsId: l.id }, DEMO_ACTOR);
   if (!res.ok) throw new Error(`demo review failed: ${res.message}`);
   // For the design pages: a probe test, a shaped product in a tote with a gel pack, and example profiles.
   const probeBytes = readFileSync(path.join(DEMO, "probe-test.csv"));
-  await createTrace({ name: "Probe test, tray with simulant (demo)", fileName: "probe-test.csv", bytes: probeBytes, imported: importCsv(probeBytes) });
-  await createDefinition("product", productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.product), "utf8"))));
-  await createDefinition("pack", packSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.pack), "utf8"))));
+  await createTrace({ name: "Probe test, tray with simulant (demo)", fileName: "probe-test.csv", bytes: probeBytes, imported: importCsv(probeBytes), actor: DEMO_ACTOR });
+  await createDefinition("product", productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.product), "utf8"))), DEMO_ACTOR);
+  await createDefinition("pack", packSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.pack), "utf8"))), DEMO_ACTOR);
   // the example plan without its air rule: a route's air is not something a pack can change
-  await createDefinition("limits", limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.limits), "utf8"))));
-  for (const profile of EXAMPLE_PROFILES) await createDefinition("profile", profile);
+  await createDefinition("limits", limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.limits), "utf8"))), DEMO_ACTOR);
+  for (const profile of EXAMPLE_PROFILES) await createDefinition("profile", profile, DEMO_ACTOR);
   // A live monitor with no readings yet: `corelag simulate` feeds it the 16 June trace on request (README).
-  const live = await createMonitorService({ name: DEMO_MONITOR.name, product_id: p.id, limits_id: l.id, shipment_id: "R7-0616 (invented)", serial: "HX-20417", alert: { lead_min: 60 } }, "system:demo", DEMO_MONITOR.token);
+  const live = await createMonitorService({ name: DEMO_MONITOR.name, product_id: p.id, limits_id: l.id, shipment_id: "R7-0616 (invented)", serial: "HX-20417", alert: { lead_min: 60 } }, DEMO_ACTOR, DEMO_MONITOR.token);
   if (!live.ok) throw new Error(`demo monitor failed: ${live.message}`);
   return "loaded";
 }

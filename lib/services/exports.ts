@@ -5,6 +5,7 @@ import { canonicalJson, findingsCsv, seriesCsv } from "../review";
 import { bridgeGaps } from "../trace/series";
 import { sha256Hex } from "../trace/hash";
 import { verifyReviewRecord } from "./verify";
+import type { Actor } from "../access/actor";
 
 export const REVIEW_EXPORT_FORMATS = ["series.csv", "findings.csv", "review.json"] as const;
 export type ReviewExportFormat = (typeof REVIEW_EXPORT_FORMATS)[number];
@@ -12,7 +13,7 @@ export type ReviewExportFormat = (typeof REVIEW_EXPORT_FORMATS)[number];
 export type ReviewExport = { ok: true; body: string; contentType: string; fileName: string } | { ok: false; status: 404; message: string };
 
 /** Builds one export of a stored review and records it (format and SHA-256 of the body) in the audit log. */
-export async function exportReview(id: string, format: string): Promise<ReviewExport> {
+export async function exportReview(id: string, format: string, actor: Actor): Promise<ReviewExport> {
   if (!(REVIEW_EXPORT_FORMATS as readonly string[]).includes(format)) return { ok: false, status: 404, message: `unknown export '${format}' (use ${REVIEW_EXPORT_FORMATS.join(", ")})` };
   const review = await getReview(id);
   if (!review) return { ok: false, status: 404, message: "no such review" };
@@ -64,6 +65,6 @@ export async function exportReview(id: string, format: string): Promise<ReviewEx
     body = JSON.stringify(JSON.parse(canonicalJson(record)), null, 2) + "\n";
     contentType = "application/json; charset=utf-8";
   }
-  await logExport(id, format, sha256Hex(body));
+  await logExport(id, format, sha256Hex(body), actor);
   return { ok: true, body, contentType, fileName: `review-${id}-${format}` };
 }

@@ -8,6 +8,7 @@ import { envelopeProfile, historyEnvelope, HISTORY_PROFILE_CAUTION, type History
 import { getLane, listShipments, getShipment } from "../db/shipments";
 import { getTrace } from "../db/traces";
 import { createDefinition } from "../db/definitions";
+import type { Actor } from "../access/actor";
 
 export interface PositionStat {
   position: string;
@@ -129,7 +130,7 @@ export async function buildLaneProfile(laneId: string, request: HistoryRequest):
 }
 
 /** Saves the profile as a new profile definition (version 1) whose body lists the shipments and traces used. */
-export async function saveLaneProfile(laneId: string, request: HistoryRequest, actor: string): Promise<{ ok: true; definitionId: string } | { ok: false; field: string; message: string }> {
+export async function saveLaneProfile(laneId: string, request: HistoryRequest, actor: Actor): Promise<{ ok: true; definitionId: string } | { ok: false; field: string; message: string }> {
   const built = await buildLaneProfile(laneId, request);
   if (!built.ok) return built;
   const def = await createDefinition("profile", built.build.profile, actor);

@@ -8,6 +8,7 @@ import { deliverAlert } from "./alertDelivery";
 import { dropLiveEntry, liveEntry, loadMonitorDefinitions, notifyMonitorChange, withMonitor, type LiveEntry } from "./liveRegistry";
 import { importAndStoreTrace } from "./traces";
 import { runAndStoreReview } from "./reviews";
+import type { Actor } from "../access/actor";
 
 const text = (what: string, max: number) => z.string({ error: `${what} must be text` }).trim().min(1, { message: `${what} is empty` }).max(max, { message: `${what} is longer than ${max} characters` });
 
@@ -39,7 +40,7 @@ export const FUTURE_TOLERANCE_S = 24 * 3600;
 const hashToken = (token: string) => createHash("sha256").update(token, "utf8").digest("hex");
 
 /** Creates a monitor; the device token is returned once and only its hash is kept. */
-export async function createMonitorService(input: unknown, actor: string, fixedToken?: string): Promise<CreateMonitorOutcome> {
+export async function createMonitorService(input: unknown, actor: Actor, fixedToken?: string): Promise<CreateMonitorOutcome> {
   const parsed = createMonitorSchema.safeParse(input);
   if (!parsed.success) {
     const i = parsed.error.issues[0]!;
@@ -127,7 +128,7 @@ export async function monitorView(id: string, now = new Date()): Promise<Monitor
  * Raises alerts whose condition holds and has none open, clears open ones whose condition ended (both
  * audited), and sends each change to the webhooks and e-mails in the background.
  */
-export async function evaluateAlerts(entry: LiveEntry, now: Date, actor = "system:alerts"): Promise<{ raised: string[]; cleared: string[] }> {
+export async function evaluateAlerts(entry: LiveEntry, now: Date, actor: Actor = { kind: "system", what: "alerts" }): Promise<{ raised: string[]; cleared: string[] }> {
   const v = viewOf(entry, now);
   const conds = entry.monitor.status === "open" ? alertConditions(v.rules, v.forecast, v.stale, entry.monitor.alertLeadMin) : [];
   const open = await openAlerts(entry.monitor.id);
@@ -161,7 +162,7 @@ export type ReadingsOutcome =
  * reported as conflicts when different. The accepted readings are stored with the body's SHA-256 (audited),
  * then the live state advances from the first reading they affect and the alerts are re-evaluated.
  */
-export async function postReadings(id: string, body: Uint8Array, contentType: string, partial: boolean, actor: string, now = () => new Date()): Promise<ReadingsOutcome> {
+export async function postReadings(id: string, body: Uint8Array, contentType: string, partial: boolean, actor: Actor, now = () => new Date()): Promise<ReadingsOutcome> {
   const monitor = await getMonitor(id);
   if (!monitor) return { ok: false, status: 404, title: "No such monitor", detail: `no monitor ${id}` };
   if (monitor.status !== "open") return { ok: false, status: 409, title: "Monitor closed", detail: "this monitor is closed and takes no more readings" };
@@ -251,7 +252,7 @@ export type CloseOutcome = { ok: true; traceId: string; reviewId: string } | { o
  * Closes a monitor: its readings become a stored trace (the CSV file above, imported like any upload) and a
  * normal review of it with the monitor's definitions, the same as uploading that file and reviewing it.
  */
-export async function closeMonitor(id: string, actor: string): Promise<CloseOutcome> {
+export async function closeMonitor(id: string, actor: Actor): Promise<CloseOutcome> {
   return withMonitor(id, async () => {
     const m = await getMonitor(id);
     if (!m) return { ok: false, status: 404, message: `no monitor ${id}` };

@@ -3,6 +3,7 @@ import { logRecheck } from "../db/audit";
 import { ENGINE_VERSION } from "../review/runReview";
 import { verifyStoredReview, type ReproductionCheck } from "./reviews";
 import { verifyReviewRecord } from "./verify";
+import type { Actor } from "../access/actor";
 
 export type RecheckOutcome = { ok: true; check: ReproductionCheck; seq: number; at: Date } | { ok: false; message: string };
 
@@ -12,7 +13,7 @@ export type RecheckOutcome = { ok: true; check: ReproductionCheck; seq: number; 
  * with the recorded settings and the engine re-run on the recorded definition versions. The result is
  * recorded in the audit log whether it reproduced or not.
  */
-export async function recheckReview(reviewId: string, actor = "web"): Promise<RecheckOutcome> {
+export async function recheckReview(reviewId: string, actor: Actor): Promise<RecheckOutcome> {
   const review = await getReview(reviewId);
   if (!review) return { ok: false, message: "that review does not exist" };
   const records = await verifyReviewRecord({ reviewId, traceId: review.traceId, productId: review.productId, packId: review.packId, limitsId: review.limitsId }, { full: true });

@@ -9,6 +9,7 @@ import { getTrace, getTraceOriginal } from "../db/traces";
 import { getDefinition } from "../db/definitions";
 import { createReview, getReview, signReview, type NewReview } from "../db/reviews";
 import { uncertaintySpecSchema } from "../uncertainty/monteCarlo";
+import type { Actor } from "../access/actor";
 
 const isoTime = z.iso.datetime({ offset: true, message: "must be an ISO 8601 date-time with Z or an offset" });
 
@@ -121,12 +122,12 @@ export async function prepareReview(request: RunReviewRequest): Promise<PrepareO
 }
 
 /** Stores a computed review with its run audit entry (one transaction). */
-export async function storeReview(p: PreparedReview, comp: ReviewComputation, actor: string, id?: string): Promise<string> {
+export async function storeReview(p: PreparedReview, comp: ReviewComputation, actor: Actor, id?: string): Promise<string> {
   return createReview(newReviewOf(p, comp, actor, id));
 }
 
 /** The stored form of a computed review (for storing several in one transaction, as a shipment does). */
-export function newReviewOf(p: PreparedReview, comp: ReviewComputation, actor: string, id?: string): NewReview {
+export function newReviewOf(p: PreparedReview, comp: ReviewComputation, actor: Actor, id?: string): NewReview {
   return {
     id,
     title: p.title,
@@ -144,7 +145,7 @@ export function newReviewOf(p: PreparedReview, comp: ReviewComputation, actor: s
 }
 
 /** Loads the exact stored inputs, runs the engine in this thread and stores the review (CLI, demo, tests). */
-export async function runAndStoreReview(request: RunReviewRequest, actor = "web"): Promise<RunReviewOutcome> {
+export async function runAndStoreReview(request: RunReviewRequest, actor: Actor): Promise<RunReviewOutcome> {
   const ready = await prepareReview(request);
   if (!ready.ok) return ready;
   const attempt = tryRunReview(ready.prepared.input);
@@ -162,9 +163,9 @@ export const signOffSchema = z.object({
   comment: z.string().trim().max(2000, { message: "at most 2,000 characters" }).optional(),
 });
 
-export async function signOff(reviewId: string, input: z.input<typeof signOffSchema>) {
+export async function signOff(reviewId: string, input: z.input<typeof signOffSchema>, actor: Actor) {
   const s = signOffSchema.parse(input);
-  return signReview(reviewId, { reviewer: s.reviewer, decision: s.decision, comment: s.comment || undefined });
+  return signReview(reviewId, { reviewer: s.reviewer, decision: s.decision, comment: s.comment || undefined }, actor);
 }
 
 export interface ReproductionCheck {

@@ -14,11 +14,12 @@ import { dbKind } from "../db/client";
 import { reviewExists } from "../db/reviews";
 import { engineThreads, runReviewInPool } from "./enginePool";
 import { prepareReview, storeReview, type RunReviewRequest } from "./reviews";
+import type { Actor } from "../access/actor";
 
 const REVIEW_QUEUE = "review-run";
 interface ReviewJobData {
   request: RunReviewRequest;
-  actor: string;
+  actor: Actor;
   title: string;
   requested_at: string;
 }
@@ -52,6 +53,8 @@ export interface RunState {
 
 interface Run extends RunState {
   controller: AbortController;
+  /** who cancelled it, for the audit entry */
+  cancelledBy?: Actor;
   finished: Promise<void>;
 }
 
@@ -66,14 +69,14 @@ export function runCostSteps(input: ReviewInput): number {
 }
 
 function publicState(r: Run): RunState {
-  const { controller: _c, finished: _f, ...state } = r;
+  const { controller: _c, finished: _f, cancelledBy: _b, ...state } = r;
   return state;
 }
 
 export type StartRunOutcome = { ok: true; run: RunState } | { ok: false; field: string; message: string };
 
 /** Checks and loads the request, then starts the computation in the pool; returns at once. */
-export async function startReviewRun(request: RunReviewRequest, actor: string): Promise<StartRunOutcome> {
+export async function startReviewRun(request: RunReviewRequest, actor: Actor): Promise<StartRunOutcome> {
   const ready = await prepareReview(request);
   if (!ready.ok) return ready;
   const p = ready.prepared;
@@ -99,7 +102,7 @@ export async function startReviewRun(request: RunReviewRequest, actor: string): 
       end("done", { progress: 1, reviewId: await storeReview(p, attempt.computation, actor) });
     } catch (e) {
       if (!controller.signal.aborted) return void end("failed", { message: e instanceof Error ? e.message : String(e) });
-      await logRunCancelled(run.id, actor, { kind: run.kind, title: run.title, progress: Number(run.progress.toFixed(3)), requested_at: run.started_at });
+      await logRunCancelled(run.id, run.cancelledBy ?? actor, { kind: run.kind, title: run.title, progress: Number(run.progress.toFixed(3)), requested_at: run.started_at });
       end("cancelled");
     }
   })();
@@ -116,7 +119,7 @@ export interface RunContext {
  * Starts a shipment review in the background: `job` runs each logger × product review in the pool (so a
  * cancel ends its worker) and stores the results at the end; the run is followed like a review run.
  */
-export function startShipmentRun(shipmentId: string, title: string, total: number, actor: string, job: (ctx: RunContext) => Promise<{ ok: true } | { ok: false; message: string }>): RunState {
+export function startShipmentRun(shipmentId: string, title: string, total: number, actor: Actor, job: (ctx: RunContext) => Promise<{ ok: true } | { ok: false; message: string }>): RunState {
   forgetOldRuns();
   const controller = new AbortController();
   const run: Run = { id: randomUUID(), kind: "shipment", title, shipmentId, done: 0, total, status: "running", progress: 0, started_at: new Date().toISOString(), controller, finished: Promise.resolve() };
@@ -187,7 +190,7 @@ export async function waitForRun(id: string, ms: number): Promise<RunState | und
 export type CancelOutcome = { ok: true; run: RunState } | { ok: false; reason: "not-found" | "not-running"; run?: RunState };
 
 /** Cancels a running run: its worker ends, nothing is stored, and an audit entry says so. */
-export async function cancelRun(id: string): Promise<CancelOutcome> {
+export async function cancelRun(id: string, actor: Actor): Promise<CancelOutcome> {
   if (queued() && !localShipmentRun(id)) {
     const before = await getRun(id);
     if (!before) return { ok: false, reason: "not-found" };
@@ -197,7 +200,7 @@ export async function cancelRun(id: string): Promise<CancelOutcome> {
     await q.cancelJob(REVIEW_QUEUE, id);
     // a job no worker has started yet: nobody else will record the cancellation
     if (job && (job.state === "created" || job.state === "retry")) {
-      await logRunCancelled(id, job.data.actor, { kind: "review", title: job.data.title, progress: 0, requested_at: job.data.requested_at });
+      await logRunCancelled(id, actor, { kind: "review", title: job.data.title, progress: 0, requested_at: job.data.requested_at });
     } else {
       // the worker running it notices within a second, ends its computation and records the cancellation
       for (let i = 0; i < 100 && runs.get(id)?.status === "running"; i++) await new Promise((res) => setTimeout(res, 100));
@@ -207,6 +210,7 @@ export async function cancelRun(id: string): Promise<CancelOutcome> {
   const r = runs.get(id);
   if (!r) return { ok: false, reason: "not-found" };
   if (r.status !== "running") return { ok: false, reason: "not-running", run: publicState(r) };
+  r.cancelledBy = actor;
   r.controller.abort(new Error("cancelled by the user"));
   await r.finished;
   return { ok: true, run: publicState(r) };

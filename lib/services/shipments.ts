@@ -15,6 +15,7 @@ import {
 import { newReviewOf, prepareReview, signOffSchema, type PreparedReview } from "./reviews";
 import { runReviewInPool } from "./enginePool";
 import { startShipmentRun, type RunState } from "./runs";
+import type { Actor } from "../access/actor";
 
 const text = (what: string, max: number) => z.string().trim().max(max, { message: `${what}: at most ${max} characters` });
 const optionalText = (what: string, max: number) => text(what, max).optional().transform((v) => (v ? v : null));
@@ -67,7 +68,7 @@ export type FieldRefusal = { ok: false; field: string; message: string };
 const refusal = (e: z.ZodError): FieldRefusal => ({ ok: false, field: String(e.issues[0]!.path[0] ?? "form"), message: e.issues[0]!.message });
 
 /** Creates a shipment (and a new lane when asked) with its logger entries. */
-export async function createShipmentFromForm(input: ShipmentForm, loggers: z.input<typeof shipmentLoggerSchema>[], actor: string): Promise<{ ok: true; shipmentId: string } | FieldRefusal> {
+export async function createShipmentFromForm(input: ShipmentForm, loggers: z.input<typeof shipmentLoggerSchema>[], actor: Actor): Promise<{ ok: true; shipmentId: string } | FieldRefusal> {
   const parsed = shipmentFormSchema.safeParse(input);
   if (!parsed.success) return refusal(parsed.error);
   const s = parsed.data;
@@ -114,7 +115,7 @@ function governingConflict(entries: readonly ShipmentLoggerInput[]): string | nu
   return null;
 }
 
-export async function addLoggersToShipment(shipmentId: string, loggers: z.input<typeof shipmentLoggerSchema>[], actor: string): Promise<{ ok: true } | FieldRefusal> {
+export async function addLoggersToShipment(shipmentId: string, loggers: z.input<typeof shipmentLoggerSchema>[], actor: Actor): Promise<{ ok: true } | FieldRefusal> {
   const shipment = await getShipment(shipmentId);
   if (!shipment) return { ok: false, field: "form", message: "that shipment does not exist" };
   if (shipment.status === "signed") return { ok: false, field: "form", message: "this shipment is signed off; its loggers cannot change" };
@@ -144,14 +145,14 @@ export const loggerRegisterSchema = z
   })
   .refine((l) => !l.lastCalibrationAt || !l.nextCalibrationAt || l.nextCalibrationAt > l.lastCalibrationAt, { message: "the next calibration must come after the last", path: ["nextCalibrationAt"] });
 
-export async function registerLogger(input: z.input<typeof loggerRegisterSchema>, actor: string): Promise<{ ok: true; id: string } | FieldRefusal> {
+export async function registerLogger(input: z.input<typeof loggerRegisterSchema>, actor: Actor): Promise<{ ok: true; id: string } | FieldRefusal> {
   const p = loggerRegisterSchema.safeParse(input);
   if (!p.success) return refusal(p.error);
   if ((await loggersBySerial([p.data.serial])).length > 0) return { ok: false, field: "serial", message: `logger ${p.data.serial} is already registered: edit it instead` };
   return { ok: true, id: (await createLogger(p.data, actor)).id };
 }
 
-export async function editLogger(id: string, input: z.input<typeof loggerRegisterSchema>, actor: string): Promise<{ ok: true } | FieldRefusal> {
+export async function editLogger(id: string, input: z.input<typeof loggerRegisterSchema>, actor: Actor): Promise<{ ok: true } | FieldRefusal> {
   const p = loggerRegisterSchema.safeParse(input);
   if (!p.success) return refusal(p.error);
   const { serial: _s, ...rest } = p.data;
@@ -239,7 +240,7 @@ export function combineStored(planned: ReadonlyArray<{ shipmentLoggerId: string;
  * at once as the pool has threads), then, when all have finished, every review, its link and the shipment's
  * outcome in one transaction. A failure or cancel stores nothing (a cancel is audited as such).
  */
-export async function startShipmentReview(shipmentId: string, actor: string): Promise<{ ok: true; run: RunState } | { ok: false; message: string }> {
+export async function startShipmentReview(shipmentId: string, actor: Actor): Promise<{ ok: true; run: RunState } | { ok: false; message: string }> {
   const plan = await planShipmentReview(shipmentId);
   if (!plan.ok) return plan;
   const { reviews } = plan;
@@ -270,7 +271,7 @@ export async function startShipmentReview(shipmentId: string, actor: string): Pr
 }
 
 /** One sign-off for the shipment and every review of its latest run (the sign-off rules of a review apply to the shipment's outcome). */
-export async function signOffShipment(shipmentId: string, input: z.input<typeof signOffSchema>) {
+export async function signOffShipment(shipmentId: string, input: z.input<typeof signOffSchema>, actor: Actor) {
   const s = signOffSchema.parse(input);
-  return signShipment(shipmentId, { reviewer: s.reviewer, decision: s.decision, comment: s.comment || undefined });
+  return signShipment(shipmentId, { reviewer: s.reviewer, decision: s.decision, comment: s.comment || undefined }, actor);
 }

@@ -3,6 +3,7 @@ import { importOptionsSchema, importTraceFile, TraceImportError } from "../trace
 import { createTrace } from "../db/traces";
 import { isDiskFull } from "../db/errors";
 import { StorageBusyError } from "../db/busy";
+import type { Actor } from "../access/actor";
 
 export const uploadSchema = z.object({
   name: z.string().trim().max(160, { message: "the name is longer than 160 characters" }).optional(),
@@ -24,7 +25,7 @@ export type StoreTraceOutcome =
  * writes nothing (no trace, no audit entry), and the message names the first problem. A full disk
  * is reported as such; the failed write leaves nothing behind and the storage usable.
  */
-export async function importAndStoreTrace(bytes: Uint8Array, input: z.input<typeof uploadSchema>, actor = "web"): Promise<StoreTraceOutcome> {
+export async function importAndStoreTrace(bytes: Uint8Array, input: z.input<typeof uploadSchema>, actor: Actor): Promise<StoreTraceOutcome> {
   const parsed = uploadSchema.safeParse(input);
   if (!parsed.success) {
     const issue = parsed.error.issues[0]!;

@@ -5,12 +5,13 @@ export { postgresDatabaseProblem } from "../db/presence";
 export { backupDatabase, restoreDatabase, BackupError } from "../db/backup";
 import { loadSigningKey, SigningKeyError } from "../db/signingKey";
 import { lastRecordedAnchor, recordAnchor } from "../db/anchorLog";
-import { lastChainCheckEntry, logChainCheck, rotateSigningKey, sealUnsealedRows } from "../db/audit";
+import { lastChainCheckEntry, logChainCheck, rotateSigningKey, sealUnsealedRows, SYSTEM_ACTOR } from "../db/audit";
 import { databaseUrl } from "../db/env";
 import { checkRecords, checkRecordsFrom, type ChainHead, type Finding, type VerifiedHead } from "../review/records";
 import { checkAnchor, anchorOf, type Anchor } from "../review/anchor";
 import { verifyAuditChain, type ChainCheck } from "../review/audit";
 import { verifyStoredReview, type ReproductionCheck } from "./reviews";
+import type { Actor } from "../access/actor";
 
 export interface KeyStatus {
   /** the key in force according to the chain */
@@ -205,7 +206,7 @@ export async function verifyReviewRecord(ids: { reviewId: string; traceId: strin
  * record, the original bytes against their SHA-256) recorded in the log, so that later page views verify
  * only the entries after it.
  */
-export async function recordChainCheck(actor: string): Promise<{ report: Awaited<ReturnType<typeof checkStoredRecords>>; seq: number }> {
+export async function recordChainCheck(actor: Actor): Promise<{ report: Awaited<ReturnType<typeof checkStoredRecords>>; seq: number }> {
   const report = await checkStoredRecords();
   const details: ChainCheckDetails = {
     ok: report.findings.length === 0,
@@ -227,7 +228,7 @@ export async function takeAnchor(now = new Date()): ReturnType<typeof currentAnc
 }
 
 /** `corelag key rotate`: a key problem comes back as a message, not a crash. */
-export async function rotateKey(actor = "cli"): Promise<{ ok: true; from: string; to: string; seq: number } | { ok: false; message: string }> {
+export async function rotateKey(actor: Actor): Promise<{ ok: true; from: string; to: string; seq: number } | { ok: false; message: string }> {
   try {
     return { ok: true, ...(await rotateSigningKey(actor)) };
   } catch (e) {
@@ -237,14 +238,14 @@ export async function rotateKey(actor = "cli"): Promise<{ ok: true; from: string
 }
 
 /** `corelag seal`: content hashes for rows whose entries predate them; returns how many rows were sealed. */
-export async function sealRows(actor = "cli"): Promise<number> {
+export async function sealRows(actor: Actor): Promise<number> {
   return sealUnsealedRows(actor);
 }
 
 /** At start: the signing key exists (created beside the database if needed) and older rows are sealed. */
 export async function prepareRecords(): Promise<{ fingerprint: string; source: string; sealed: number }> {
   const key = loadSigningKey({ create: true })!;
-  return { fingerprint: key.fingerprint, source: key.source, sealed: await sealUnsealedRows("system") };
+  return { fingerprint: key.fingerprint, source: key.source, sealed: await sealUnsealedRows(SYSTEM_ACTOR) };
 }
 
 export interface AnchorStatus {

@@ -4,6 +4,11 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { createHash } from "node:crypto";
 import { dropTriggerSql, testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
+import type { Actor } from "../../lib/access/actor";
+
+/** The signer of the test's signed review: a user, so the audit log names her (and a search for "vintner" finds the entry). */
+const ADA: Actor = { kind: "user", userId: "u-ada", name: "Ada Vintner", email: "ada@example.com", role: "reviewer" };
 
 // What an auditor and a QA reviewer read back, on a real SQLite file: the audit log with names, links,
 // filters, pages and CSV; the original file; re-checks; findings with the sign-off; lists and attention.
@@ -22,18 +27,18 @@ beforeAll(async () => {
   const { importCsv } = await import("@/lib/trace");
   const dbm = await import("@/lib/db");
   const { runAndStoreReview, signOff } = await import("@/lib/services/reviews");
-  const traceId = await dbm.createTrace({ name: "Route seven tote three", fileName: "route7-tote3.csv", bytes: routeBytes, imported: importCsv(routeBytes) });
+  const traceId = await dbm.createTrace({ name: "Route seven tote three", fileName: "route7-tote3.csv", bytes: routeBytes, imported: importCsv(routeBytes), actor: TEST_ACTOR });
   const probe = readFileSync(path.join(DEMO, "probe-test.csv"));
-  const otherTraceId = await dbm.createTrace({ name: "Probe test", fileName: "probe-test.csv", bytes: probe, imported: importCsv(probe) });
-  const p = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
+  const otherTraceId = await dbm.createTrace({ name: "Probe test", fileName: "probe-test.csv", bytes: probe, imported: importCsv(probe), actor: TEST_ACTOR });
+  const p = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), TEST_ACTOR);
   // a name a spreadsheet would run as a formula
-  const l = await dbm.createDefinition("limits", { ...JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")), name: "=HYPERLINK(\"http://x\")" });
-  const a = await runAndStoreReview({ title: "Open one", traceId, productId: p.id, limitsId: l.id });
-  const b = await runAndStoreReview({ title: "Signed one", traceId, productId: p.id, limitsId: l.id });
+  const l = await dbm.createDefinition("limits", { ...JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")), name: "=HYPERLINK(\"http://x\")" }, TEST_ACTOR);
+  const a = await runAndStoreReview({ title: "Open one", traceId, productId: p.id, limitsId: l.id }, TEST_ACTOR);
+  const b = await runAndStoreReview({ title: "Signed one", traceId, productId: p.id, limitsId: l.id }, TEST_ACTOR);
   if (!a.ok || !b.ok) throw new Error("review failed");
   const outcome = (await dbm.getReview(b.reviewId))!.outcome as "accept" | "hold" | "reject";
   const decision = outcome === "hold" ? "reject" : "hold";
-  const signed = await signOff(b.reviewId, { reviewer: "Ada Vintner", decision, comment: "probe the pallet, then decide" });
+  const signed = await signOff(b.reviewId, { reviewer: "Ada Vintner", decision, comment: "probe the pallet, then decide" }, ADA);
   if (!signed.ok) throw new Error(signed.message);
   ids = { traceId, otherTraceId, productId: p.id, limitsId: l.id, reviewId: a.reviewId, signedId: b.reviewId };
 });
@@ -62,7 +67,7 @@ describe("audit log queries", () => {
   it("queryAudit filters by kind, action, object and date, and searches names, hashes and people", async () => {
     const { queryAudit } = await import("@/lib/db/auditQueries");
     expect((await queryAudit({ entity: "definition" })).rows.map((e) => e.seq)).toEqual([5, 4]);
-    expect((await queryAudit({ action: "sign" })).rows.map((e) => e.actor)).toEqual(["Ada Vintner"]);
+    expect((await queryAudit({ action: "sign" })).rows.map((e) => e.actor)).toEqual(["Ada Vintner <ada@example.com>"]);
     expect((await queryAudit({ object: ids.signedId })).rows.map((e) => e.action)).toEqual(["sign", "run"]);
     const now = Date.now();
     expect((await queryAudit({ from: new Date(now - 3600_000), to: new Date(now + 3600_000) })).total).toBe(8);
@@ -131,7 +136,7 @@ describe("re-check a review", () => {
   it("recheckReview reproduces a stored review and records the result in the audit log", async () => {
     const { recheckReview } = await import("@/lib/services/recheck");
     const { lastAuditEntry } = await import("@/lib/db/auditQueries");
-    const out = await recheckReview(ids.signedId, "web");
+    const out = await recheckReview(ids.signedId, TEST_ACTOR);
     expect(out).toMatchObject({ ok: true, check: { reproduced: true, problems: [] } });
     const entry = (await lastAuditEntry(ids.signedId, "verify"))!;
     expect(entry).toMatchObject({ action: "verify", entity: "review", entityId: ids.signedId, details: { reproduced: true, problems: [] } });
@@ -147,20 +152,20 @@ describe("re-check a review", () => {
     const otherBytes = readFileSync(path.join(DEMO, "probe-test.csv"));
     // tamper with the probe-test trace's bytes behind the application's back, review it first
     const { runAndStoreReview } = await import("@/lib/services/reviews");
-    const r = await runAndStoreReview({ title: "Probe trace review", traceId: ids.otherTraceId, productId: ids.productId, limitsId: ids.limitsId });
+    const r = await runAndStoreReview({ title: "Probe trace review", traceId: ids.otherTraceId, productId: ids.productId, limitsId: ids.limitsId }, TEST_ACTOR);
     if (!r.ok) throw new Error(r.message);
     const changed = Buffer.from(otherBytes);
     changed[changed.length - 3] = changed[changed.length - 3] === 0x31 ? 0x32 : 0x31;
     // behind the application's back: drop the trigger that refuses changes to a trace, as a raw SQL client could
     await db.$executeRawUnsafe(dropTriggerSql("Trace_no_update", "Trace"));
     await db.trace.update({ where: { id: ids.otherTraceId }, data: { original: new Uint8Array(changed) } });
-    const out = await recheckReview(r.reviewId, "web");
+    const out = await recheckReview(r.reviewId, TEST_ACTOR);
     expect(out.ok && out.check.reproduced).toBe(false);
     expect(out.ok && out.check.problems).toContain("the trace's original bytes no longer match their SHA-256");
     expect((await queryAudit({ action: "verify", object: r.reviewId })).rows[0]!.details).toMatchObject({ reproduced: false });
     // the chain itself is intact: the change is in the trace row, which the re-check names
     expect(verifyAuditChain(await listAudit()).ok).toBe(true);
-    expect(await recheckReview("no-such-review")).toEqual({ ok: false, message: "that review does not exist" });
+    expect(await recheckReview("no-such-review", TEST_ACTOR)).toEqual({ ok: false, message: "that review does not exist" });
   });
 });
 
@@ -169,7 +174,7 @@ describe("exports and lists", () => {
     const { exportReview } = await import("@/lib/services/exports");
     const { getReview } = await import("@/lib/db/reviews");
     const signed = (await getReview(ids.signedId))!;
-    const out = await exportReview(ids.signedId, "findings.csv");
+    const out = await exportReview(ids.signedId, "findings.csv", TEST_ACTOR);
     if (!out.ok) throw new Error(out.message);
     const lines = out.body.split("\r\n");
     expect(lines).toContain("status,signed");
@@ -181,7 +186,7 @@ describe("exports and lists", () => {
     expect(lines.filter((l) => l.startsWith("signature_meaning,"))).toHaveLength(1);
     expect(lines.find((l) => l.startsWith("signature_meaning,"))!.length).toBeGreaterThan("signature_meaning,".length);
     expect(lines).toContain(`suggested_outcome,${signed.outcome}`);
-    const open = await exportReview(ids.reviewId, "findings.csv");
+    const open = await exportReview(ids.reviewId, "findings.csv", TEST_ACTOR);
     if (!open.ok) throw new Error(open.message);
     expect(open.body.split("\r\n")).toEqual(expect.arrayContaining(["status,open", "decision,not signed off", "decision_comment,", "signed_by,", "signed_at_utc,"]));
   });
@@ -219,7 +224,7 @@ describe("exports and lists", () => {
     const { importCsv } = await import("@/lib/trace");
     const dbm = await import("@/lib/db");
     const bytes = readFileSync(path.join(DEMO, "route7-tote3-0609.csv"));
-    const id = await dbm.createTrace({ name: "Never looked at", fileName: "route7-tote3-0609.csv", bytes, imported: importCsv(bytes) });
+    const id = await dbm.createTrace({ name: "Never looked at", fileName: "route7-tote3-0609.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
     expect(await unreviewedTraces()).toMatchObject({ total: 1, rows: [{ id, name: "Never looked at" }] });
   });
 });

@@ -4,6 +4,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { newPgDatabaseUrl, testDatabaseKind, testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // `corelag backup` while writes go on, `corelag restore` into an empty database, and `corelag verify` on the
 // restored copy (issue 14), through the bundled CLI, on SQLite and (npm run test:pg) PostgreSQL.
@@ -32,7 +33,7 @@ beforeAll(async () => {
   const { createTrace } = await import("@/lib/db/traces");
   const { importCsv } = await import("@/lib/trace");
   const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
-  await createTrace({ name: "before the backup", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
+  await createTrace({ name: "before the backup", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
 }, 180_000);
 
 afterAll(async () => {
@@ -49,7 +50,7 @@ describe(`backup and restore on ${kind}`, () => {
     let written = 0;
     const writer = (async () => {
       while (writing) {
-        await createDefinition("limits", { ...limits, name: `written during the backup ${written++}` });
+        await createDefinition("limits", { ...limits, name: `written during the backup ${written++}` }, TEST_ACTOR);
         // SQLite's driver is synchronous: yield to timers and the CLI's output between writes
         await new Promise((r) => setImmediate(r));
       }

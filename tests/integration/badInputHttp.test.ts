@@ -6,6 +6,7 @@ import { createRequire } from "node:module";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type RunningServer } from "../helpers/server";
 import { utf16 } from "../helpers/encode";
+import { seedAccounts, signInCookie } from "../helpers/accounts";
 
 // Hostile uploads against `next start` (issue #9): each was an HTTP 500 with an empty body; each must
 // be a 4xx whose message names what is wrong, with nothing stored.
@@ -16,6 +17,8 @@ const Database = createRequire(__filename)("better-sqlite3") as new (file: strin
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-badhttp-"));
 const dbFile = path.join(dir, "bad.db");
 let server: RunningServer;
+let cookie = "";
+let storedAccountEntries = 0;
 
 const CSV = "Time,Air\n2026-03-02T06:00:00Z,3.1\n2026-03-02T06:05:00Z,3.2\n";
 
@@ -24,14 +27,14 @@ async function upload(bytes: Uint8Array, fileName: string, options: unknown = {}
   form.append("file", new File([new Uint8Array(bytes)], fileName));
   form.append("name", "");
   form.append("options", JSON.stringify(options));
-  const res = await fetch(`${server.url}/api/traces`, { method: "POST", body: form });
+  const res = await fetch(`${server.url}/api/traces`, { method: "POST", body: form, headers: { cookie, origin: server.url } });
   return { status: res.status, body: (await res.json()) as { error?: string } };
 }
 
-const storedRows = (table: "Trace" | "AuditEntry") => {
+const storedRows = (table: "Trace" | "AuditEntry", where = "1") => {
   const db = new Database(dbFile, { readonly: true });
   try {
-    return (db.prepare(`SELECT COUNT(*) AS n FROM "${table}"`).get() as { n: number }).n;
+    return (db.prepare(`SELECT COUNT(*) AS n FROM "${table}" WHERE ${where}`).get() as { n: number }).n;
   } finally {
     db.close();
   }
@@ -41,7 +44,10 @@ beforeAll(async () => {
   const env = { ...process.env, DATABASE_URL: `file:${dbFile}` };
   const migrate = spawnSync(process.execPath, [path.join(ROOT, "node_modules", "prisma", "build", "index.js"), "migrate", "deploy"], { cwd: ROOT, env, encoding: "utf8" });
   expect(migrate.status, migrate.stderr).toBe(0);
+  seedAccounts(`file:${dbFile}`);
   server = await startServer({ DATABASE_URL: `file:${dbFile}` });
+  cookie = await signInCookie(server.url, "reviewer");
+  storedAccountEntries = storedRows("AuditEntry", `entity IN ('user', 'key')`);
 }, 120_000);
 
 afterAll(async () => {
@@ -111,7 +117,7 @@ describe("bad input over HTTP is a 4xx naming what is wrong, never a 500", () =>
     });
     const res = await fetch(`${server.url}/api/traces`, {
       method: "POST",
-      headers: { "content-type": "multipart/form-data; boundary=x" },
+      headers: { "content-type": "multipart/form-data; boundary=x", cookie, origin: server.url },
       body,
       duplex: "half",
     } as RequestInit & { duplex: "half" });
@@ -121,7 +127,8 @@ describe("bad input over HTTP is a 4xx naming what is wrong, never a 500", () =>
 
   it("nothing was stored by any of the refused requests", () => {
     expect(storedRows("Trace")).toBe(0);
-    expect(storedRows("AuditEntry")).toBe(0);
+    // the only entries: the test accounts' creation and sign-in (and the signing key's)
+    expect(storedRows("AuditEntry")).toBe(storedAccountEntries);
   });
 
   it("a good upload still works afterwards (201)", async () => {

@@ -3,6 +3,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // The server's calibration fit runs in the engine's worker pool and gives exactly the in-process fit.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-calpool-"));
@@ -27,9 +28,9 @@ describe("runCalibration in the worker pool", () => {
     const { createDefinition } = await import("@/lib/db/definitions");
     const bytes = readFileSync(path.join(DEMO, "probe-test.csv"));
     const imported = importCsv(bytes);
-    const traceId = await createTrace({ name: "probe", fileName: "probe-test.csv", bytes, imported });
+    const traceId = await createTrace({ name: "probe", fileName: "probe-test.csv", bytes, imported, actor: TEST_ACTOR });
     const product = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8"));
-    const productId = (await createDefinition("product", product)).id;
+    const productId = (await createDefinition("product", product, TEST_ACTOR)).id;
 
     const { runCalibration } = await import("@/lib/services/calibration");
     const out = await runCalibration({ traceId, productId });

@@ -4,6 +4,10 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type RunningServer } from "../helpers/server";
 import { testDatabaseKind, testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR, seedAccounts, signedInFetch } from "../helpers/accounts";
+
+/** Every request as the signed-in test reviewer (issue 13: pages and routes need a session). */
+const fetch = signedInFetch("reviewer");
 
 // Many writers at once through the HTTP API (issue 14), on SQLite and (npm run test:pg) on PostgreSQL:
 // 20 uploads and 50 review runs in parallel, then every one stored exactly once, the audit chain one
@@ -22,9 +26,10 @@ const ids = { traceId: "", productId: "", limitsId: "" };
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  seedAccounts(url);
   const { createDefinition } = await import("@/lib/db/definitions");
-  ids.productId = (await createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")))).id;
-  ids.limitsId = (await createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")))).id;
+  ids.productId = (await createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), TEST_ACTOR)).id;
+  ids.limitsId = (await createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")), TEST_ACTOR)).id;
   server = await startServer({ DATABASE_URL: url });
 }, 180_000);
 
@@ -79,14 +84,16 @@ describe(`concurrent writers on ${kind}`, () => {
     // exactly once each: the names are all there and none twice
     expect(traces.map((t) => t.name).sort()).toEqual(Array.from({ length: 20 }, (_, i) => `parallel upload ${i}`).sort());
     expect(reviews.map((r) => r.title).sort()).toEqual(Array.from({ length: 50 }, (_, i) => `parallel run ${i}`).sort());
-    // the chain: the key, 2 definitions, 20 imports, 50 runs (counted from the writes above), numbered 1…73 without a gap
-    const entries = await db.auditEntry.findMany({ select: { seq: true, action: true }, orderBy: { seq: "asc" } });
-    expect(entries.map((e) => e.seq)).toEqual(Array.from({ length: 73 }, (_, i) => i + 1));
+    // the chain: the key, 2 definitions, 20 imports, 50 runs (counted from the writes above), and the test
+    // accounts' entries (4 created, 1 sign-in), numbered without a gap
+    const entries = await db.auditEntry.findMany({ select: { seq: true, action: true, entity: true }, orderBy: { seq: "asc" } });
+    expect(entries.filter((e) => e.entity === "user")).toHaveLength(5);
+    expect(entries.map((e) => e.seq)).toEqual(Array.from({ length: 78 }, (_, i) => i + 1));
     expect(entries.filter((e) => e.action === "import")).toHaveLength(20);
     expect(entries.filter((e) => e.action === "run")).toHaveLength(50);
     const report = await chainReport();
     expect(report.findings).toEqual([]);
-    expect(report.head?.seq).toBe(73);
+    expect(report.head?.seq).toBe(78);
     expect(server.output()).not.toMatch(/SQLITE_BUSY|Unique constraint|unique constraint/);
   }, 600_000);
 
@@ -110,10 +117,10 @@ describe(`concurrent writers on ${kind}`, () => {
         const review = await fetch(`${other}/reviews/${runs[i]!.final!.reviewId}`);
         expect(review.status).toBe(200);
       }
-      expect(await db.auditEntry.count()).toBe(before + 24);
+      expect(await db.auditEntry.count()).toBe(before + 24 + 1); // 12 imports, 12 runs, and the test reviewer signing in on the second instance
       const report = await chainReport();
       expect(report.findings).toEqual([]);
-      expect(report.head?.seq).toBe(before + 24);
+      expect(report.head?.seq).toBe(before + 25);
     } finally {
       await second.stop();
     }

@@ -5,6 +5,7 @@ import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { mergedEnv, parseConfig } from "@/lib/config";
 import { startServer } from "../helpers/server";
+import { seedAccounts, signInCookie } from "../helpers/accounts";
 
 const ROOT = path.resolve(__dirname, "..", "..");
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-env-"));
@@ -43,7 +44,7 @@ describe("configuration", () => {
       [path.join(ROOT, "node_modules", "tsx", "dist", "cli.mjs"), "-e",
         `import { importAndStoreTrace } from "./lib/services/traces";
          const csv = new TextEncoder().encode("time,air_C\\n2026-06-16T00:00:00Z,4\\n2026-06-16T00:10:00Z,5\\n2026-06-16T00:20:00Z,6\\n");
-         importAndStoreTrace(csv, { fileName: "dotenv-probe.csv", name: "Trace kept in the .env database", options: {} }, "test")
+         importAndStoreTrace(csv, { fileName: "dotenv-probe.csv", name: "Trace kept in the .env database", options: {} }, { kind: "system", what: "test" })
            .then((r) => { console.log(JSON.stringify(r)); process.exit(r.ok ? 0 : 1); });`],
       { cwd: ROOT, env, encoding: "utf8" },
     );
@@ -55,9 +56,10 @@ describe("configuration", () => {
     expect(JSON.parse(verify.stdout).chain.entries).toBe(2);
 
     // 4. The server lists it.
+    seedAccounts(`file:${dbFile}`);
     const server = await startServer({ ...env, DATABASE_URL: undefined });
     try {
-      const page = await (await fetch(server.url + "/traces")).text();
+      const page = await (await fetch(server.url + "/traces", { headers: { cookie: await signInCookie(server.url, "auditor") } })).text();
       expect(page).toContain("Trace kept in the .env database");
     } finally {
       await server.stop();

@@ -2,6 +2,7 @@ import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // Reviews stored by engine 0.4.0 (before growth and shelf life) still verify bit for bit under 0.5.0; a review of
 // an engine whose results are not reproducible is reported as such. A real SQLite file, the real services.
@@ -18,9 +19,9 @@ beforeAll(async () => {
   const { importCsv } = await import("@/lib/trace");
   const dbm = await import("@/lib/db");
   const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
-  const traceId = await dbm.createTrace({ name: "cons", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
-  const p = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
-  const l = await dbm.createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
+  const traceId = await dbm.createTrace({ name: "cons", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
+  const p = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), TEST_ACTOR);
+  const l = await dbm.createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")), TEST_ACTOR);
   ids = { traceId, productId: p.id, limitsId: l.id };
 });
 
@@ -38,7 +39,7 @@ async function storeAs(version: string): Promise<string> {
   const prep = await prepareReview({ title: `as ${version}`, ...ids });
   if (!prep.ok) throw new Error(prep.message);
   const comp = runReview({ ...prep.prepared.input, engineVersion: version });
-  return createReview({ title: `as ${version}`, ...ids, options: prep.prepared.input.options as unknown as Record<string, unknown>, engineVersion: version, computation: comp, resultSha256: resultHash(comp.result, comp.core_C) });
+  return createReview({ title: `as ${version}`, ...ids, options: prep.prepared.input.options as unknown as Record<string, unknown>, engineVersion: version, computation: comp, resultSha256: resultHash(comp.result, comp.core_C), actor: TEST_ACTOR });
 }
 
 describe("stored reviews across the 0.5.0 engine change", () => {
@@ -62,17 +63,17 @@ describe("stored reviews across the 0.5.0 engine change", () => {
     const { runAndStoreReview, verifyStoredReview } = await import("@/lib/services/reviews");
     const { getReview } = await import("@/lib/db/reviews");
     const product = { ...JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), consequences: [{ id: "lm", kind: "growth", organism: "o", b_per_C_sqrt_h: 0.02, tmin_C: -1.5, q0: 0.1, source: "invented for the test" }] };
-    const p = await dbm.createDefinition("product", product);
-    const l = await dbm.createDefinition("limits", { name: "g", rules: [{ id: "g", kind: "growth", model: "lm", max_log10_increase: 1 }] });
-    const res = await runAndStoreReview({ title: "growth", traceId: ids.traceId, productId: p.id, limitsId: l.id });
+    const p = await dbm.createDefinition("product", product, TEST_ACTOR);
+    const l = await dbm.createDefinition("limits", { name: "g", rules: [{ id: "g", kind: "growth", model: "lm", max_log10_increase: 1 }] }, TEST_ACTOR);
+    const res = await runAndStoreReview({ title: "growth", traceId: ids.traceId, productId: p.id, limitsId: l.id }, TEST_ACTOR);
     if (!res.ok) throw new Error(res.message);
     const stored = await getReview(res.reviewId);
     expect(stored!.result.consequences![0]!.id).toBe("lm@core");
     expect(stored!.result.consequence_rules![0]!.status).toMatch(/pass|inconclusive|fail/);
     expect(await verifyStoredReview(res.reviewId)).toMatchObject({ reproduced: true });
     // a limit set whose growth rule names a model the product lacks is refused by field, nothing stored
-    const plain = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
-    expect(await runAndStoreReview({ title: "x", traceId: ids.traceId, productId: plain.id, limitsId: l.id })).toEqual({
+    const plain = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), TEST_ACTOR);
+    expect(await runAndStoreReview({ title: "x", traceId: ids.traceId, productId: plain.id, limitsId: l.id }, TEST_ACTOR)).toEqual({
       ok: false,
       field: "limitsId",
       message: "rule 'g' names the growth model 'lm', which the product does not have: choose a product that has it, or add it to this product",

@@ -4,6 +4,10 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type RunningServer } from "../helpers/server";
 import { testDatabaseKind, testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR, seedAccounts, signedInFetch } from "../helpers/accounts";
+
+/** Every request as the signed-in test reviewer (issue 13: pages and routes need a session). */
+const fetch = signedInFetch("reviewer");
 
 // SIGKILL of the server in the middle of a large upload and of a review run (issue 14), on SQLite and (npm run
 // test:pg) PostgreSQL: after a restart there is no partial trace, review or audit entry (every row has its
@@ -25,13 +29,14 @@ const ids = { traceId: "", productId: "", limitsId: "" };
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  seedAccounts(url);
   const { createTrace } = await import("@/lib/db/traces");
   const { createDefinition } = await import("@/lib/db/definitions");
   const { importCsv } = await import("@/lib/trace");
   const small = bigCsv.slice(0, bigCsv.indexOf(10, 600_000) + 1); // the first ~20,000 readings
-  ids.traceId = await createTrace({ name: "crash base", fileName: "base.csv", bytes: small, imported: importCsv(small) });
-  ids.productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 })).id;
-  ids.limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] })).id;
+  ids.traceId = await createTrace({ name: "crash base", fileName: "base.csv", bytes: small, imported: importCsv(small), actor: TEST_ACTOR });
+  ids.productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 }, TEST_ACTOR)).id;
+  ids.limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] }, TEST_ACTOR)).id;
 }, 180_000);
 
 afterAll(async () => {
@@ -46,7 +51,8 @@ async function afterRestartAllIsWhole(): Promise<{ traces: number; reviews: numb
   expect(report.findings).toEqual([]);
   const { db } = await import("@/lib/db/client");
   if (kind === "sqlite") expect(await db.$queryRawUnsafe("PRAGMA integrity_check")).toEqual([{ integrity_check: "ok" }]);
-  const [traces, reviews, entries] = await Promise.all([db.trace.count(), db.review.count(), db.auditEntry.count()]);
+  const [traces, reviews, entries] = await Promise.all([db.trace.count(), db.review.count(), db.auditEntry.count({ where: { entity: { not: "user" } } })]);
+  // entries of records (the test accounts' sign-ins on each restarted server are not what is counted)
   return { traces, reviews, entries };
 }
 

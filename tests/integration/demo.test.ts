@@ -4,6 +4,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { spawnSync } from "node:child_process";
 import { testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // The demo scenario loaded into a fresh SQLite file, as `npm start` does on first run.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-demo-"));
@@ -43,7 +44,7 @@ describe("demo loader", () => {
     const { recheckReview } = await import("@/lib/services/recheck");
     const { unreviewedTraces } = await import("@/lib/db/traces");
     const signed = (await listReviews({ status: "signed" }))[0]!;
-    expect(await recheckReview(signed.id)).toMatchObject({ ok: true, check: { reproduced: true } });
+    expect(await recheckReview(signed.id, TEST_ACTOR)).toMatchObject({ ok: true, check: { reproduced: true } });
     expect((await unreviewedTraces()).rows.map((t) => t.name)).toEqual(["Probe test, tray with simulant (demo)"]);
   });
 

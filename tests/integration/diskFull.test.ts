@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // A full disk during an upload (SQLITE_FULL), on a real SQLite file whose size is capped with
 // PRAGMA max_page_count (a per-connection limit: it acts on the app's one connection). Issue #9: after
@@ -46,14 +47,14 @@ describe("a full disk leaves the storage usable", () => {
     await capPages(2);
     await expect(db.$transaction(async (tx) => tx.$executeRawUnsafe("INSERT INTO scratch VALUES (zeroblob(200000))"))).rejects.toMatchObject({ code: "SQLITE_FULL" });
     await capPages(null); // space freed
-    const res = await within(10_000, importAndStoreTrace(csv(50), { fileName: "after.csv", options: {} }));
+    const res = await within(10_000, importAndStoreTrace(csv(50), { fileName: "after.csv", options: {} }, TEST_ACTOR));
     expect(res.ok).toBe(true);
   });
 
   it("an upload that fills the disk is refused as such, stores nothing, and the next one is stored", async () => {
     const traces = await db.trace.count(), entries = await db.auditEntry.count();
     await capPages(2);
-    const res = await within(10_000, importAndStoreTrace(csv(20_000), { fileName: "big.csv", options: {} }));
+    const res = await within(10_000, importAndStoreTrace(csv(20_000), { fileName: "big.csv", options: {} }, TEST_ACTOR));
     expect(res).toEqual({
       ok: false,
       diskFull: true,
@@ -62,7 +63,7 @@ describe("a full disk leaves the storage usable", () => {
     expect(await db.trace.count()).toBe(traces);
     expect(await db.auditEntry.count()).toBe(entries);
     await capPages(null);
-    const again = await within(10_000, importAndStoreTrace(csv(20_000), { fileName: "big.csv", options: {} }));
+    const again = await within(10_000, importAndStoreTrace(csv(20_000), { fileName: "big.csv", options: {} }, TEST_ACTOR));
     expect(again.ok).toBe(true);
     expect(await db.trace.count()).toBe(traces + 1);
   });

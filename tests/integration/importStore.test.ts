@@ -3,6 +3,7 @@ import { mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // Every refused file of the corpus goes through the storing path: nothing may be written.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-imp-"));
@@ -29,7 +30,7 @@ describe("importAndStoreTrace", () => {
     const refused = readdirSync(path.join(CORPUS, "bad")).filter((f) => expected[`bad/${f}`]?.refused);
     expect(refused.length).toBeGreaterThanOrEqual(30);
     for (const f of refused) {
-      const res = await importAndStoreTrace(readFileSync(path.join(CORPUS, "bad", f)), { fileName: f, options: {} });
+      const res = await importAndStoreTrace(readFileSync(path.join(CORPUS, "bad", f)), { fileName: f, options: {} }, TEST_ACTOR);
       expect(res).toEqual({ ok: false, message: `${f}: ${expected[`bad/${f}`]!.refused}. Nothing was stored.` });
     }
     expect(await db.trace.count()).toBe(0);
@@ -41,7 +42,7 @@ describe("importAndStoreTrace", () => {
     const { getTrace, getTraceOriginal } = await import("@/lib/db/traces");
     const { importCsv, optionsFromSettings } = await import("@/lib/trace");
     const bytes = readFileSync(path.join(CORPUS, "good", "12-three-channels.csv"));
-    const res = await importAndStoreTrace(bytes, { fileName: "12-three-channels.csv", options: {} });
+    const res = await importAndStoreTrace(bytes, { fileName: "12-three-channels.csv", options: {} }, TEST_ACTOR);
     expect(res.ok).toBe(true);
     const t = (await getTrace((res as { traceId: string }).traceId))!;
     expect(t.meta.hasProbe).toBe(true);
@@ -55,7 +56,7 @@ describe("importAndStoreTrace", () => {
     const { getTrace, getTraceOriginal } = await import("@/lib/db/traces");
     const { importTraceFile, optionsFromSettings, sha256Hex } = await import("@/lib/trace");
     const bytes = readFileSync(path.join(CORPUS, "good", "20-workbook-date-cells.xlsx"));
-    const res = await importAndStoreTrace(bytes, { fileName: "20-workbook-date-cells.xlsx", options: {} });
+    const res = await importAndStoreTrace(bytes, { fileName: "20-workbook-date-cells.xlsx", options: {} }, TEST_ACTOR);
     const t = (await getTrace((res as { traceId: string }).traceId))!;
     expect(t.meta.sha256).toBe(sha256Hex(bytes));
     expect(t.meta.importSettings).toMatchObject({ source: "xlsx", sheet: "Sheet1" });

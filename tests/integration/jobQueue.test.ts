@@ -4,6 +4,10 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type RunningServer } from "../helpers/server";
 import { testDatabaseKind, testDatabaseUrl } from "../helpers/database";
+import { seedAccounts, signedInFetch, TEST_ACTOR } from "../helpers/accounts";
+
+/** Every request as the signed-in test reviewer (issue 13: pages and routes need a session). */
+const fetch = signedInFetch("reviewer");
 
 // On PostgreSQL, review runs go through the job queue in the database (pg-boss): any instance can report a
 // run another instance accepted, and a run whose instance was killed is taken up again by another one and
@@ -21,6 +25,7 @@ beforeAll(async () => {
   if (kind !== "postgres") return;
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  seedAccounts(url);
   const { createTrace } = await import("@/lib/db/traces");
   const { createDefinition } = await import("@/lib/db/definitions");
   const { importCsv } = await import("@/lib/trace");
@@ -29,9 +34,9 @@ beforeAll(async () => {
   const start = Date.UTC(2026, 5, 1);
   for (let i = 0; i < 28_800; i++) csv += `${new Date(start + i * 60_000).toISOString()},${(4 + 3 * Math.sin((2 * Math.PI * i) / 1440)).toFixed(2)}\n`;
   const bytes = new TextEncoder().encode(csv);
-  ids.traceId = await createTrace({ name: "twenty days", fileName: "twenty-days.csv", bytes, imported: importCsv(bytes) });
-  ids.productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 })).id;
-  ids.limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] })).id;
+  ids.traceId = await createTrace({ name: "twenty days", fileName: "twenty-days.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
+  ids.productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 }, TEST_ACTOR)).id;
+  ids.limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] }, TEST_ACTOR)).id;
 }, 180_000);
 
 afterAll(async () => {

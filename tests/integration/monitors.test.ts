@@ -6,6 +6,7 @@ import { createHmac } from "node:crypto";
 import { createServer, type Server } from "node:http";
 import { createServer as createTcpServer, type Server as TcpServer } from "node:net";
 import { testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // A real database (SQLite here, PostgreSQL under npm run test:pg), the real services, and a real HTTP receiver for the webhooks on a local port (3600–3699
 // are this suite's). Retries are made fast through the configuration (30 s in production).
@@ -80,7 +81,7 @@ beforeAll(async () => {
   const dbm = await import("@/lib/db");
   const product = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8"));
   const limits = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8"));
-  defs = { productId: (await dbm.createDefinition("product", product)).id, limitsId: (await dbm.createDefinition("limits", limits)).id };
+  defs = { productId: (await dbm.createDefinition("product", product, TEST_ACTOR)).id, limitsId: (await dbm.createDefinition("limits", limits, TEST_ACTOR)).id };
   receiver = createServer((req, res) => {
     let body = "";
     req.on("data", (d) => (body += d));
@@ -111,7 +112,7 @@ const iso = (t_s: number) => new Date(t_s * 1000).toISOString();
 const json = (readings: unknown[]) => new TextEncoder().encode(JSON.stringify({ readings }));
 
 async function newMonitor(extra: Record<string, unknown> = {}) {
-  const out = await svc.createMonitorService({ name: "Route 7 tote 3", product_id: defs.productId, limits_id: defs.limitsId, serial: "HX-0001", alert: { lead_min: 120, webhooks: [`http://127.0.0.1:${RECEIVER_PORT}/hook`] }, ...extra }, "test");
+  const out = await svc.createMonitorService({ name: "Route 7 tote 3", product_id: defs.productId, limits_id: defs.limitsId, serial: "HX-0001", alert: { lead_min: 120, webhooks: [`http://127.0.0.1:${RECEIVER_PORT}/hook`] }, ...extra }, TEST_ACTOR);
   if (!out.ok) throw new Error(out.message);
   return out;
 }
@@ -120,7 +121,7 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
   it("refuses bad readings by index and stores nothing, unless partial acceptance is asked", async () => {
     const m = await newMonitor({ alert: { lead_min: 60 } });
     const body = json([{ t: iso(T0), air_C: 3 }, { t: "2026-06-09 06:05", air_C: 3 }, { t: iso(T0 + 600), air_C: "warm" }, { t: iso(T0 + 900), air_C: 3.2 }, { t: "2099-01-01T00:00:00Z", air_C: 3 }, { t: "1970-01-01T00:00:00Z", air_C: 3 }]);
-    const refused = await svc.postReadings(m.id, body, "application/json", false, "test");
+    const refused = await svc.postReadings(m.id, body, "application/json", false, TEST_ACTOR);
     expect(refused.ok).toBe(false);
     if (refused.ok) return;
     expect(refused.status).toBe(422);
@@ -131,17 +132,17 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
     expect(refused.refused![1]!.reason).toMatch(/^air_C must be a number/);
     const { monitorReadings } = await import("@/lib/db/monitors");
     expect(await monitorReadings(m.id)).toEqual([]);
-    const partial = await svc.postReadings(m.id, body, "application/json", true, "test");
+    const partial = await svc.postReadings(m.id, body, "application/json", true, TEST_ACTOR);
     expect(partial.ok && partial.body.accepted).toBe(2);
     expect((await monitorReadings(m.id)).map((r) => r.t_s)).toEqual([T0, T0 + 900]);
   });
 
   it("ignores an equal repeat, reports a different one, takes CSV, and records each batch's SHA-256 in the audit log", async () => {
     const m = await newMonitor({ alert: { lead_min: 60 } });
-    const first = await svc.postReadings(m.id, json([{ t: iso(T0), air_C: 3 }, { t: "2026-06-09T08:10:00+02:00", air_C: 3.1 }]), "application/json", false, "test");
+    const first = await svc.postReadings(m.id, json([{ t: iso(T0), air_C: 3 }, { t: "2026-06-09T08:10:00+02:00", air_C: 3.1 }]), "application/json", false, TEST_ACTOR);
     expect(first.ok && first.body.accepted).toBe(2);
     const csv = new TextEncoder().encode(`t,air_C\n${iso(T0)},3\n${iso(T0 + 600)},3.5\n${iso(T0 + 1200)},3.4\n`);
-    const again = await svc.postReadings(m.id, csv, "text/csv", false, "test");
+    const again = await svc.postReadings(m.id, csv, "text/csv", false, TEST_ACTOR);
     expect(again.ok).toBe(true);
     if (!again.ok) return;
     expect(again.body).toMatchObject({ accepted: 1, duplicates: 1, conflicts: [{ index: 1, t: iso(T0 + 600) }] });
@@ -162,7 +163,7 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
     // an hour at 3 °C, then the air at 14 °C: the lumped core (tau of the bare tray, ~3 h) is forecast to
     // reach 5 °C well inside the 120 min lead
     const rs = Array.from({ length: 13 }, (_, i) => ({ t: iso(T0 + i * 300), air_C: i < 12 ? 3 : 14 }));
-    const out = await svc.postReadings(m.id, json(rs), "application/json", false, "test");
+    const out = await svc.postReadings(m.id, json(rs), "application/json", false, TEST_ACTOR);
     expect(out.ok).toBe(true);
     const view = (await svc.monitorView(m.id))!;
     const state = svc.stateJson(view);
@@ -171,7 +172,7 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
     expect(state.forecast!.minutes_to_limit).toBeLessThan(120);
     expect(Object.keys(state).sort()).toEqual(["core_C", "forecast", "id", "last_reading", "rules", "stale"]);
     // the same condition on the next reading: no second alert
-    await svc.postReadings(m.id, json([{ t: iso(T0 + 13 * 300), air_C: 14 }]), "application/json", false, "test");
+    await svc.postReadings(m.id, json([{ t: iso(T0 + 13 * 300), air_C: 14 }]), "application/json", false, TEST_ACTOR);
     const { deliveriesSettled } = await import("@/lib/services/alertDelivery");
     await deliveriesSettled();
     const { alertHistory } = await import("@/lib/db/monitors");
@@ -188,7 +189,7 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
     for (const r of mine) expect(r.signature).toBe(`sha256=${createHmac("sha256", secret).update(r.body).digest("hex")}`);
     expect(JSON.parse(mine[0]!.body)).toMatchObject({ event: "alert.raised", monitor: { id: m.id, serial: "HX-0001" }, alert: { kind: "forecast", rule: "core-above-5C", cleared_at: null } });
     // the air back at 2 °C: the forecast no longer reaches the limit, the alert clears (and that is delivered too)
-    await svc.postReadings(m.id, json([{ t: iso(T0 + 14 * 300), air_C: 2 }]), "application/json", false, "test");
+    await svc.postReadings(m.id, json([{ t: iso(T0 + 14 * 300), air_C: 2 }]), "application/json", false, TEST_ACTOR);
     await deliveriesSettled();
     const after = await alertHistory(m.id);
     expect(after[0]!.clearedAt).not.toBeNull();
@@ -203,7 +204,7 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
   it("e-mails an alert through the configured SMTP server (nodemailer), with the caution, and logs the attempt", async () => {
     const m = await newMonitor({ name: "Route 9 tote 1", alert: { lead_min: 120, emails: ["qa@example.org"] } });
     const rs = Array.from({ length: 13 }, (_, i) => ({ t: iso(T0 + i * 300), air_C: i < 12 ? 3 : 14 }));
-    expect((await svc.postReadings(m.id, json(rs), "application/json", false, "test")).ok).toBe(true);
+    expect((await svc.postReadings(m.id, json(rs), "application/json", false, TEST_ACTOR)).ok).toBe(true);
     const { deliveriesSettled } = await import("@/lib/services/alertDelivery");
     await deliveriesSettled();
     const mail = mails.find((x) => x.data.includes("Route 9 tote 1"))!;
@@ -219,7 +220,7 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
   it("raises a stale alert on the injected clock, and clears it when readings come back", async () => {
     const m = await newMonitor({ alert: { lead_min: 0 } });
     const { liveEntry } = await import("@/lib/services/liveRegistry");
-    for (let i = 0; i < 3; i++) await svc.postReadings(m.id, json([{ t: iso(T0 + i * 300), air_C: 3 }]), "application/json", false, "test");
+    for (let i = 0; i < 3; i++) await svc.postReadings(m.id, json([{ t: iso(T0 + i * 300), air_C: 3 }]), "application/json", false, TEST_ACTOR);
     const entry = await liveEntry(m.id);
     // arrivals are the batches' receipt times; pretend they came 60 s apart, the last one now
     const now = Date.now() / 1000;
@@ -238,9 +239,9 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
       const [ts, air] = l.split(",");
       return { t: new Date(ts!).toISOString(), air_C: Number(air) };
     });
-    for (let i = 0; i < rs.length; i += 20) expect((await svc.postReadings(m.id, json(rs.slice(i, i + 20)), "application/json", false, "test")).ok).toBe(true);
+    for (let i = 0; i < rs.length; i += 20) expect((await svc.postReadings(m.id, json(rs.slice(i, i + 20)), "application/json", false, TEST_ACTOR)).ok).toBe(true);
     const live = (await svc.monitorView(m.id))!.entry.live;
-    const closed = await svc.closeMonitor(m.id, "test");
+    const closed = await svc.closeMonitor(m.id, TEST_ACTOR);
     expect(closed.ok).toBe(true);
     if (!closed.ok) return;
     const { getReview } = await import("@/lib/db/reviews");
@@ -249,10 +250,10 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
     const { importAndStoreTrace } = await import("@/lib/services/traces");
     const { runAndStoreReview } = await import("@/lib/services/reviews");
     const file = "t,air_C\n" + rs.map((r) => `${r.t},${r.air_C}`).join("\n") + "\n";
-    const up = await importAndStoreTrace(new TextEncoder().encode(file), { fileName: "by-hand.csv", options: svc.readingsImportOptions(false) }, "test");
+    const up = await importAndStoreTrace(new TextEncoder().encode(file), { fileName: "by-hand.csv", options: svc.readingsImportOptions(false) }, TEST_ACTOR);
     expect(up.ok).toBe(true);
     if (!up.ok) return;
-    const rv = await runAndStoreReview({ title: "by hand", traceId: up.traceId, productId: defs.productId, limitsId: defs.limitsId }, "test");
+    const rv = await runAndStoreReview({ title: "by hand", traceId: up.traceId, productId: defs.productId, limitsId: defs.limitsId }, TEST_ACTOR);
     expect(rv.ok).toBe(true);
     if (!rv.ok) return;
     const byHand = (await getReview(rv.reviewId))!;
@@ -260,7 +261,7 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
     expect(Buffer.from(fromMonitor.core_C.buffer).equals(Buffer.from(byHand.core_C.buffer))).toBe(true);
     // and the live state, stepped reading by reading, equals the stored review's core (exact lumped update)
     for (let k = 0; k < live.length; k++) expect(Math.abs(live.core_C[k]! - fromMonitor.core_C[k]!)).toBeLessThanOrEqual(1e-9);
-    const again = await svc.postReadings(m.id, json([{ t: iso(T0), air_C: 3 }]), "application/json", false, "test");
+    const again = await svc.postReadings(m.id, json([{ t: iso(T0), air_C: 3 }]), "application/json", false, TEST_ACTOR);
     expect(again.ok ? 0 : again.status).toBe(409);
   });
 });

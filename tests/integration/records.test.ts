@@ -5,6 +5,7 @@ import path from "node:path";
 import { spawnSync } from "node:child_process";
 import { ENGINE_VERSION } from "@/lib/review/runReview";
 import { dropTriggerSql, testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // Review records on a real SQLite file: sign-off, immutability, the audit chain and reproduction.
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-rec-"));
@@ -22,12 +23,12 @@ beforeAll(async () => {
   const { importCsv } = await import("@/lib/trace");
   const dbm = await import("@/lib/db");
   const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
-  const traceId = await dbm.createTrace({ name: "rec", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
-  const p = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
-  const l = await dbm.createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
+  const traceId = await dbm.createTrace({ name: "rec", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
+  const p = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), TEST_ACTOR);
+  const l = await dbm.createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")), TEST_ACTOR);
   ids = { traceId, productId: p.id, limitsId: l.id };
   const { runAndStoreReview } = await import("@/lib/services/reviews");
-  const res = await runAndStoreReview({ title: "records", ...ids });
+  const res = await runAndStoreReview({ title: "records", ...ids }, TEST_ACTOR);
   if (!res.ok) throw new Error(res.message);
   reviewId = res.reviewId;
 });
@@ -69,8 +70,8 @@ describe("review records", () => {
     const other = stored === "accept" ? "reject" : "accept";
     // what a forged form posts: the decision, and a "suggested" that agrees with it (ignored by the schema)
     const forged = { reviewer: "Dana Ruiz", decision: other, suggested: other } as Parameters<typeof signOff>[1];
-    expect(await signOff(reviewId, forged)).toEqual({ ok: false, reason: "comment-required", message: "a decision that differs from the suggested outcome needs a comment saying why" });
-    expect(await signOff(reviewId, { reviewer: "Dana Ruiz", decision: other, comment: "ok" })).toMatchObject({ ok: false, reason: "comment-required" });
+    expect(await signOff(reviewId, forged, TEST_ACTOR)).toEqual({ ok: false, reason: "comment-required", message: "a decision that differs from the suggested outcome needs a comment saying why" });
+    expect(await signOff(reviewId, { reviewer: "Dana Ruiz", decision: other, comment: "ok" }, TEST_ACTOR)).toMatchObject({ ok: false, reason: "comment-required" });
     const after = (await getReview(reviewId))!;
     expect(after.status).toBe("open");
     expect(after.decision).toBeNull();
@@ -80,9 +81,9 @@ describe("review records", () => {
     const { signOff } = await import("@/lib/services/reviews");
     const { renameReview } = await import("@/lib/db/reviews");
     const { db } = await import("@/lib/db/client");
-    expect(await signOff(reviewId, { reviewer: "Dana Ruiz", decision: "hold", comment: "core estimate near the limit; probe the pallet" })).toEqual({ ok: true });
-    expect(await renameReview(reviewId, "changed")).toMatchObject({ ok: false, reason: "signed" });
-    expect(await signOff(reviewId, { reviewer: "Someone Else", decision: "accept" })).toMatchObject({ ok: false, reason: "signed" });
+    expect(await signOff(reviewId, { reviewer: "Dana Ruiz", decision: "hold", comment: "core estimate near the limit; probe the pallet" }, TEST_ACTOR)).toEqual({ ok: true });
+    expect(await renameReview(reviewId, "changed", TEST_ACTOR)).toMatchObject({ ok: false, reason: "signed" });
+    expect(await signOff(reviewId, { reviewer: "Someone Else", decision: "accept" }, TEST_ACTOR)).toMatchObject({ ok: false, reason: "signed" });
     // The triggers abort the statement (the driver adapter reports a trigger abort as a constraint violation).
     await expect(db.review.update({ where: { id: reviewId }, data: { title: "sneaky" } })).rejects.toThrow();
     await expect(db.review.delete({ where: { id: reviewId } })).rejects.toThrow();
@@ -95,7 +96,7 @@ describe("review records", () => {
     const { keyFingerprint } = await import("@/lib/review/signature");
     const { createPrivateKey } = await import("node:crypto");
     const entries = await listAudit();
-    const out = await exportReview(reviewId, "review.json");
+    const out = await exportReview(reviewId, "review.json", TEST_ACTOR);
     if (!out.ok) throw new Error(out.message);
     const json = JSON.parse(out.body) as { sign_off: { meaning: string }; record_check: Record<string, unknown> };
     expect(json.sign_off.meaning).toBe("I reviewed this record; the decision above is mine");
@@ -111,7 +112,7 @@ describe("review records", () => {
   it("a correction is a new review that points back at the signed one", async () => {
     const { runAndStoreReview } = await import("@/lib/services/reviews");
     const { getReview } = await import("@/lib/db/reviews");
-    const res = await runAndStoreReview({ title: "records (correction)", ...ids, model: "lumped", correctsId: reviewId });
+    const res = await runAndStoreReview({ title: "records (correction)", ...ids, model: "lumped", correctsId: reviewId }, TEST_ACTOR);
     expect(res.ok).toBe(true);
     const original = await getReview(reviewId);
     expect(original!.correctedBy.map((c) => c.title)).toEqual(["records (correction)"]);
@@ -124,7 +125,7 @@ describe("review records", () => {
     const { sha256Hex } = await import("@/lib/trace/hash");
     // 0.1 + 0.2 = 0.30000000000000004 in IEEE 754 doubles; the other is a fitted value with 20 significant digits
     const body = { name: "full precision", a: 0.1 + 0.2, b: 0.0069124423963133645 };
-    const d = await dbm.createDefinition("profile", body);
+    const d = await dbm.createDefinition("profile", body, TEST_ACTOR);
     const back = (await dbm.getDefinition<typeof body>(d.id))!;
     expect(back.body.a).toBe(0.30000000000000004);
     expect(back.body.b).toBe(0.0069124423963133645);
@@ -147,7 +148,7 @@ describe("review records", () => {
     const { db } = await import("@/lib/db/client");
     const rid = { reviewId, ...ids };
     // the audit page's full check, recorded in the log: it vouches for the chain up to the entry before it
-    const { report, seq } = await recordChainCheck("test");
+    const { report, seq } = await recordChainCheck(TEST_ACTOR);
     expect(report.findings).toEqual([]);
     expect(await lastChainCheck()).toMatchObject({ seq, ok: true, head_seq: seq - 1, actor: "test" });
     const light = await checkRecordsLight();
@@ -177,7 +178,7 @@ describe("review records", () => {
     const { db } = await import("@/lib/db/client");
     await expect(db.auditEntry.update({ where: { seq: 1 }, data: { actor: "x" } })).rejects.toThrow();
     await expect(db.auditEntry.delete({ where: { seq: 1 } })).rejects.toThrow();
-    expect((await db.auditEntry.findUnique({ where: { seq: 2 } }))!.actor).toBe("web");
+    expect((await db.auditEntry.findUnique({ where: { seq: 2 } }))!.actor).toBe("system:test");
   });
 
   it("verify detects an audit entry changed behind the database's back", async () => {

@@ -4,6 +4,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { createHash } from "node:crypto";
 import { testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // A real SQLite file in a temporary folder, migrated with the committed migrations. The database
 // modules read DATABASE_URL when first imported, so they are imported after it is set.
@@ -35,7 +36,7 @@ describe("upload → store → review → read back (SQLite)", () => {
   it("stores the original bytes unchanged, and they re-hash to the stored SHA-256", async () => {
     const { importCsv, optionsFromSettings } = await import("@/lib/trace");
     const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
-    const id = await dbm.createTrace({ name: "it", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
+    const id = await dbm.createTrace({ name: "it", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
     const stored = await dbm.getTrace(id);
     expect(stored).not.toBeNull();
     // a page view loads the series, never the original bytes; those come only for download and verify
@@ -55,12 +56,12 @@ describe("upload → store → review → read back (SQLite)", () => {
     const { importCsv } = await import("@/lib/trace");
     const { db } = await import("@/lib/db/client");
     const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
-    const traceId = await dbm.createTrace({ name: "old", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
+    const traceId = await dbm.createTrace({ name: "old", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
     const product = { ...JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), name: "legacy tray", mass_kg: 1e308 };
-    const p = await dbm.createDefinition("product", product);
-    const l = await dbm.createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
+    const p = await dbm.createDefinition("product", product, TEST_ACTOR);
+    const l = await dbm.createDefinition("limits", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")), TEST_ACTOR);
     const before = await db.review.count();
-    const res = await services.runAndStoreReview({ title: "old", traceId, productId: p.id, limitsId: l.id });
+    const res = await services.runAndStoreReview({ title: "old", traceId, productId: p.id, limitsId: l.id }, TEST_ACTOR);
     expect(res).toEqual({
       ok: false,
       field: "productId",
@@ -73,12 +74,12 @@ describe("upload → store → review → read back (SQLite)", () => {
     const { importCsv } = await import("@/lib/trace");
     const { runReview, resultHash } = await import("@/lib/review");
     const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
-    const traceId = await dbm.createTrace({ name: "flow", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes) });
+    const traceId = await dbm.createTrace({ name: "flow", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
     const product = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8"));
     const limits = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8"));
-    const p = await dbm.createDefinition("product", product);
-    const l = await dbm.createDefinition("limits", limits);
-    const res = await services.runAndStoreReview({ title: "flow", traceId, productId: p.id, limitsId: l.id });
+    const p = await dbm.createDefinition("product", product, TEST_ACTOR);
+    const l = await dbm.createDefinition("limits", limits, TEST_ACTOR);
+    const res = await services.runAndStoreReview({ title: "flow", traceId, productId: p.id, limitsId: l.id }, TEST_ACTOR);
     expect(res.ok).toBe(true);
     const review = await dbm.getReview((res as { reviewId: string }).reviewId);
     expect(review!.product.id).toBe(p.id);
@@ -96,8 +97,8 @@ describe("upload → store → review → read back (SQLite)", () => {
 
   it("editing a definition adds a version and leaves the old one for the reviews that used it", async () => {
     const product = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8"));
-    const v1 = await dbm.createDefinition("product", product);
-    const v2 = await dbm.reviseDefinition(v1.lineage, { ...product, mass_kg: 0.5 });
+    const v1 = await dbm.createDefinition("product", product, TEST_ACTOR);
+    const v2 = await dbm.reviseDefinition(v1.lineage, { ...product, mass_kg: 0.5 }, TEST_ACTOR);
     expect(v2.version).toBe(2);
     expect((await dbm.getDefinition<{ mass_kg: number }>(v1.id))!.body.mass_kg).toBe(0.45);
     const latest = await dbm.listLatestDefinitions("product");
@@ -107,10 +108,10 @@ describe("upload → store → review → read back (SQLite)", () => {
   it("refuses a review whose limit set needs a channel the model does not produce, storing nothing", async () => {
     const before = await (await import("@/lib/db/client")).db.review.count();
     const product = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8"));
-    const p = await dbm.createDefinition("product", product);
-    const l = await dbm.createDefinition("limits", { name: "probe", rules: [{ id: "probe-5", channel: "probe", above_C: 5 }] });
+    const p = await dbm.createDefinition("product", product, TEST_ACTOR);
+    const l = await dbm.createDefinition("limits", { name: "probe", rules: [{ id: "probe-5", channel: "probe", above_C: 5 }] }, TEST_ACTOR);
     const traces = await dbm.listTraces();
-    const res = await services.runAndStoreReview({ title: "x", traceId: traces[0]!.id, productId: p.id, limitsId: l.id });
+    const res = await services.runAndStoreReview({ title: "x", traceId: traces[0]!.id, productId: p.id, limitsId: l.id }, TEST_ACTOR);
     expect(res).toEqual({ ok: false, field: "limitsId", message: "rule 'probe-5' is on the 'probe' channel, but this trace has no product-probe column" });
     expect(await (await import("@/lib/db/client")).db.review.count()).toBe(before);
   });

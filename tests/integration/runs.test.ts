@@ -4,6 +4,7 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type RunningServer } from "../helpers/server";
 import { testDatabaseKind, testDatabaseUrl } from "../helpers/database";
+import { seedAccounts, signInCookie, TEST_ACTOR } from "../helpers/accounts";
 
 // Review runs from the web go to the worker pool: the server keeps answering while one runs, a run can be
 // cancelled (nothing stored, an audit entry says so), and a request over the work cap is refused by name.
@@ -25,10 +26,12 @@ beforeAll(async () => {
   const start = Date.UTC(2026, 5, 1);
   for (let i = 0; i < 43_200; i++) csv += `${new Date(start + i * 60_000).toISOString()},${(4 + 3 * Math.sin((2 * Math.PI * i) / 1440)).toFixed(2)}\n`;
   const bytes = new TextEncoder().encode(csv);
-  ids.traceId = await createTrace({ name: "thirty days", fileName: "thirty-days.csv", bytes, imported: importCsv(bytes) });
-  ids.productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 })).id;
-  ids.limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] })).id;
+  ids.traceId = await createTrace({ name: "thirty days", fileName: "thirty-days.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
+  ids.productId = (await createDefinition("product", { name: "tray", mass_kg: 0.45, properties: { cp_J_kgK: 3600 }, area_m2: 0.062, h_W_m2K: 2.5, initial_C: 3 }, TEST_ACTOR)).id;
+  ids.limitsId = (await createDefinition("limits", { name: "chilled", sensor_accuracy_K: 0.5, rules: [{ id: "core-above-5C", channel: "core", above_C: 5, max_cumulative_min: 120 }] }, TEST_ACTOR)).id;
+  seedAccounts(url);
   server = await startServer({ DATABASE_URL: url });
+  cookie = await signInCookie(server.url, "reviewer");
 });
 
 afterAll(async () => {
@@ -38,7 +41,10 @@ afterAll(async () => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-const post = (p: string, body?: unknown) => fetch(server.url + p, { method: "POST", headers: { "content-type": "application/json" }, body: body === undefined ? undefined : JSON.stringify(body) });
+let cookie = "";
+/** GET as the signed-in reviewer. */
+const get = (p: string) => fetch(server.url + p, { headers: { cookie } });
+const post = (p: string, body?: unknown) => fetch(server.url + p, { method: "POST", headers: { "content-type": "application/json", cookie, origin: server.url }, body: body === undefined ? undefined : JSON.stringify(body) });
 const monteCarlo = (samples: number) => ({ inputs: [{ path: "product.mass_kg", plusminus: 10, percent: true, distribution: "normal" }], samples, seed: 1 });
 
 describe("review runs in the worker pool", () => {
@@ -49,7 +55,7 @@ describe("review runs in the worker pool", () => {
     let state: { status: string; reviewId?: string } = run;
     for (let i = 0; i < 200 && state.status === "running"; i++) {
       await new Promise((r) => setTimeout(r, 100));
-      state = await (await fetch(`${server.url}/api/runs/${run.id}`)).json();
+      state = await (await get(`/api/runs/${run.id}`)).json();
     }
     expect(state.status).toBe("done");
     const { getReview } = await import("@/lib/db/reviews");
@@ -63,8 +69,8 @@ describe("review runs in the worker pool", () => {
     expect(res.status).toBe(202);
     const { id } = (await res.json()) as { id: string };
     // Pages are served meanwhile, and the run is still going after they came back.
-    for (let i = 0; i < 3; i++) expect((await fetch(server.url + "/traces")).status).toBe(200);
-    const during = await (await fetch(`${server.url}/api/runs/${id}`)).json();
+    for (let i = 0; i < 3; i++) expect((await get("/traces")).status).toBe(200);
+    const during = await (await get(`/api/runs/${id}`)).json();
     expect(during.status).toBe("running");
     const cancelled = await post(`/api/runs/${id}/cancel`);
     expect(cancelled.status).toBe(200);
@@ -89,7 +95,7 @@ describe("review runs in the worker pool", () => {
     const { db } = await import("@/lib/db/client");
     const reviewsBefore = await db.review.count();
     const other = await startServer({ DATABASE_URL: url });
-    const res = await fetch(other.url + "/api/runs", { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ title: "interrupted", ...ids, model: "lumped", uncertainty: monteCarlo(2_000) }) });
+    const res = await fetch(other.url + "/api/runs", { method: "POST", headers: { "content-type": "application/json", cookie: await signInCookie(other.url, "reviewer"), origin: other.url }, body: JSON.stringify({ title: "interrupted", ...ids, model: "lumped", uncertainty: monteCarlo(2_000) }) });
     expect(res.status).toBe(202);
     const t0 = Date.now();
     await other.stop();
@@ -100,6 +106,6 @@ describe("review runs in the worker pool", () => {
   });
 
   it("an unknown run is a 404", async () => {
-    expect((await fetch(`${server.url}/api/runs/not-a-run`)).status).toBe(404);
+    expect((await get(`/api/runs/not-a-run`)).status).toBe(404);
   });
 });

@@ -7,6 +7,10 @@ import { zipSync } from "fflate";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type RunningServer } from "../helpers/server";
 import { loggerCsv, LIMITS, TRAY } from "../fixtures/shipment";
+import { TEST_ACTOR, seedAccounts, signedInFetch } from "../helpers/accounts";
+
+/** Every request as the signed-in test reviewer (issue 13: pages and routes need a session). */
+const fetch = signedInFetch("reviewer");
 
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-batch-http-"));
 const url = `file:${path.join(dir, "batch.db")}`;
@@ -18,15 +22,16 @@ let entries: string[] = [];
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  seedAccounts(url);
   const { createDefinition } = await import("@/lib/db/definitions");
   const { createShipmentFromForm } = await import("@/lib/services/shipments");
   const { getShipment } = await import("@/lib/db/shipments");
-  const limitsId = (await createDefinition("limits", LIMITS)).id;
-  const productId = (await createDefinition("product", TRAY)).id;
+  const limitsId = (await createDefinition("limits", LIMITS, TEST_ACTOR)).id;
+  const productId = (await createDefinition("product", TRAY, TEST_ACTOR)).id;
   const r = await createShipmentFromForm({ reference: "HTTP-1", limitsId }, [
     { position: "front", serial: "SN-1001", products: [{ productId }] },
     { position: "rear", fileNamePattern: "rear*.csv", products: [{ productId }] },
-  ], "test");
+  ], TEST_ACTOR);
   if (!r.ok) throw new Error(r.message);
   shipmentId = r.shipmentId;
   entries = (await getShipment(shipmentId))!.loggers.map((l) => l.id);

@@ -9,6 +9,7 @@ import { zipSync } from "fflate";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { loggerCsv, LIMITS, TRAY, CUP } from "../fixtures/shipment";
 import { testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-ship-int-"));
 const url = testDatabaseUrl(dir, "ship.db");
@@ -20,9 +21,9 @@ beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
   const { createDefinition } = await import("@/lib/db/definitions");
-  ids.limits = (await createDefinition("limits", LIMITS)).id;
-  ids.tray = (await createDefinition("product", TRAY)).id;
-  ids.cup = (await createDefinition("product", CUP)).id;
+  ids.limits = (await createDefinition("limits", LIMITS, TEST_ACTOR)).id;
+  ids.tray = (await createDefinition("product", TRAY, TEST_ACTOR)).id;
+  ids.cup = (await createDefinition("product", CUP, TEST_ACTOR)).id;
 });
 
 afterAll(async () => {
@@ -55,7 +56,7 @@ async function newShipment(reference: string): Promise<string> {
       { position: "middle top", fileNamePattern: "*middle-top*.csv", products: [{ productId: ids.tray }] },
       { position: "rear top", fileNamePattern: "rear-*.csv", products: [{ productId: ids.tray }] },
     ],
-    "test",
+    TEST_ACTOR,
   );
   if (!r.ok) throw new Error(r.message);
   return r.shipmentId;
@@ -91,7 +92,7 @@ describe("batch import onto a shipment", () => {
     const stored = await storeBatch(shipmentId, files, {
       matches: preview.rows.map((r) => ({ file: r.file, shipmentLoggerId: r.match.target })),
       register: [{ serial: "SN-1001", accuracyK: 0.2 }, { serial: "SN-1002", accuracyK: 0.2 }, { serial: "SN-9999", accuracyK: 0.5 }],
-    }, "test");
+    }, TEST_ACTOR);
     if (!stored.ok) throw new Error(stored.message);
     expect(stored.result.stored.map((s) => s.file).sort()).toEqual(["a.csv", "b.csv", "truck-middle-top.csv"]);
     expect(stored.result.refused).toEqual([expect.objectContaining({ file: "rear-top.csv", row: 6, column: "Air (°C)" })]);
@@ -128,7 +129,7 @@ describe("batch import onto a shipment", () => {
     expect(preview.rows.find((r) => r.file === "rear-2.csv")).toMatchObject({ ok: true, serial: "SN-1005", unregistered: true, match: { by: "file-name" } });
     const before = await db.trace.count();
     // without the accuracy of the new serial, its file is refused (asked once), the others are stored
-    const first = await storeBatch(shipmentId, files, { matches: preview.rows.map((r) => ({ file: r.file, shipmentLoggerId: r.match.target })) }, "test");
+    const first = await storeBatch(shipmentId, files, { matches: preview.rows.map((r) => ({ file: r.file, shipmentLoggerId: r.match.target })) }, TEST_ACTOR);
     if (!first.ok) throw new Error(first.message);
     expect(first.result.refused.map((r) => r.file).sort()).toEqual(["rear-2.csv", "truck-middle-top.csv"]);
     expect(first.result.refused.find((r) => r.file === "rear-2.csv")!.message).toMatch(/SN-1005 is not in the logger register/);
@@ -171,20 +172,20 @@ describe("logger register in a shipment review", () => {
     const { getShipment } = await import("@/lib/db/shipments");
     const { getReview } = await import("@/lib/db/reviews");
     // logger 6: 30 min at 6 °C, far inside every limit: accept, unless the calibration is overdue
-    expect((await registerLogger({ serial: "SN-1006", description: "rear bottom", accuracyK: 0.4, lastCalibrationAt: "2025-05-01T00:00Z", nextCalibrationAt: "2026-06-01T00:00Z" }, "test")).ok).toBe(true);
-    expect((await registerLogger({ serial: "SN-1007", description: "tote 7", accuracyK: 0.3, nextCalibrationAt: "2027-01-01T00:00Z" }, "test")).ok).toBe(true);
+    expect((await registerLogger({ serial: "SN-1006", description: "rear bottom", accuracyK: 0.4, lastCalibrationAt: "2025-05-01T00:00Z", nextCalibrationAt: "2026-06-01T00:00Z" }, TEST_ACTOR)).ok).toBe(true);
+    expect((await registerLogger({ serial: "SN-1007", description: "tote 7", accuracyK: 0.3, nextCalibrationAt: "2027-01-01T00:00Z" }, TEST_ACTOR)).ok).toBe(true);
     const made = await createShipmentFromForm({ reference: "REG-1", limitsId: ids.limits, actualDepartureAt: "2026-06-16T04:00Z" }, [
       { position: "rear bottom", serial: "SN-1006", products: [{ productId: ids.tray }] },
       { position: "tote 7", serial: "SN-1007", products: [{ productId: ids.tray }] },
-    ], "test");
+    ], TEST_ACTOR);
     if (!made.ok) throw new Error(made.message);
     const s = (await getShipment(made.shipmentId))!;
     const stored = await storeBatch(made.shipmentId, [{ name: "l6.csv", bytes: new TextEncoder().encode(loggerCsv(6)) }, { name: "l7.csv", bytes: new TextEncoder().encode(loggerCsv(7)) }], {
       matches: [{ file: "l6.csv", shipmentLoggerId: s.loggers[0]!.id }, { file: "l7.csv", shipmentLoggerId: s.loggers[1]!.id }],
-    }, "test");
+    }, TEST_ACTOR);
     expect(stored.ok && stored.result.stored.length).toBe(2);
 
-    const started = await startShipmentReview(made.shipmentId, "test");
+    const started = await startShipmentReview(made.shipmentId, TEST_ACTOR);
     if (!started.ok) throw new Error(started.message);
     const run = await waitRun(started.run.id);
     expect(run).toMatchObject({ done: 2, total: 2, progress: 1, kind: "shipment" });
@@ -203,8 +204,8 @@ describe("logger register in a shipment review", () => {
     expect(after.outcome).toBe("hold");
 
     // a decision other than the suggestion needs a comment; then one sign-off signs the shipment and both reviews
-    expect(await signOffShipment(made.shipmentId, { reviewer: "Test Reviewer", decision: "accept" })).toMatchObject({ ok: false, reason: "comment-required" });
-    expect(await signOffShipment(made.shipmentId, { reviewer: "Test Reviewer", decision: "hold", comment: "recalibrate SN-1006" })).toEqual({ ok: true });
+    expect(await signOffShipment(made.shipmentId, { reviewer: "Test Reviewer", decision: "accept" }, TEST_ACTOR)).toMatchObject({ ok: false, reason: "comment-required" });
+    expect(await signOffShipment(made.shipmentId, { reviewer: "Test Reviewer", decision: "hold", comment: "recalibrate SN-1006" }, TEST_ACTOR)).toEqual({ ok: true });
     const signed = (await getShipment(made.shipmentId))!;
     expect(signed).toMatchObject({ status: "signed", decision: "hold", signedBy: "Test Reviewer" });
     for (const l of signed.reviews) expect(l.review).toMatchObject({ status: "signed", decision: "hold" });

@@ -13,6 +13,7 @@ import { resultHash } from "@/lib/review/canonical";
 import { runReview } from "@/lib/review";
 import { importCsv } from "@/lib/trace";
 import { sha256Hex } from "@/lib/trace/hash";
+import { TEST_ACTOR } from "../helpers/accounts";
 
 // The tamper suite (issue 12): each manipulation is made with raw SQL on a copy of a real SQLite file
 // holding the demo data (plus one signed review and a second, open one), the way someone with the file
@@ -36,9 +37,9 @@ beforeAll(async () => {
   // the demo's open review (16 June, suggests reject) is signed here; the demo's own signed review stays as it is
   const first = (await db.review.findFirst({ where: { status: "open" }, orderBy: { createdAt: "asc" } }))!;
   const { signOff, runAndStoreReview } = await import("@/lib/services/reviews");
-  const signed = await signOff(first.id, { reviewer: "Dana Ruiz", decision: "reject", comment: "core above 5 °C for too long" });
+  const signed = await signOff(first.id, { reviewer: "Dana Ruiz", decision: "reject", comment: "core above 5 °C for too long" }, TEST_ACTOR);
   if (!signed.ok) throw new Error(signed.message);
-  const second = await runAndStoreReview({ title: "Route 7, lumped check", traceId: first.traceId, productId: first.productId, limitsId: first.limitsId, model: "lumped" });
+  const second = await runAndStoreReview({ title: "Route 7, lumped check", traceId: first.traceId, productId: first.productId, limitsId: first.limitsId, model: "lumped" }, TEST_ACTOR);
   if (!second.ok) throw new Error(second.message);
   const profile = (await db.definition.findFirst({ where: { kind: "profile" }, orderBy: { createdAt: "desc" } }))!;
   ids = { signedReview: first.id, openReview: second.reviewId, demoTrace: first.traceId, product: first.productId, limits: first.limitsId, profile: profile.id };
@@ -448,7 +449,7 @@ describe("signed chain", () => {
     const atRotation = JSON.parse((await corelag(file, "anchor")).out) as { key_fingerprint: string; seq: number };
     expect(atRotation).toMatchObject({ key_fingerprint: out.from_key_fingerprint, seq: out.entry });
     // …and the next write by the new one
-    await run(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), "-e", `require("./lib/db/definitions").createDefinition("product", { name: "after rotation" }).then(() => process.exit(0))`], { cwd: ROOT, env: { ...process.env, DATABASE_URL: `file:${file}` } });
+    await run(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), "-e", `require("./lib/db/definitions").createDefinition("product", { name: "after rotation" }, { kind: "system", what: "test" }).then(() => process.exit(0))`], { cwd: ROOT, env: { ...process.env, DATABASE_URL: `file:${file}` } });
     const afterWrite = JSON.parse((await corelag(file, "anchor")).out) as { key_fingerprint: string; seq: number };
     expect(afterWrite).toMatchObject({ key_fingerprint: out.key_fingerprint, seq: out.entry + 1 });
     const entry = sql(file, (d) => d.prepare(`SELECT * FROM "AuditEntry" WHERE "seq" = ?`).get(out.entry)) as RawEntry;

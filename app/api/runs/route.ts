@@ -1,5 +1,6 @@
 import { runReviewRequestSchema } from "@/lib/services/reviews";
 import { startReviewRun } from "@/lib/services/runs";
+import { guardRoute } from "@/app/guard";
 
 export const dynamic = "force-dynamic";
 
@@ -7,7 +8,7 @@ export const dynamic = "force-dynamic";
  * Starts a review run in the background: the body is the review request (as the review form sends it,
  * in JSON). 202 with the run's state and where to follow it; 422 naming the field at fault.
  */
-export async function POST(req: Request) {
+export const POST = guardRoute("review:run", async (req: Request, _ctx: unknown, actor) => {
   let body: unknown;
   try {
     body = await req.json();
@@ -19,7 +20,7 @@ export async function POST(req: Request) {
     const issue = parsed.error.issues[0]!;
     return Response.json({ error: `${issue.path.join(".") || "body"}: ${issue.message}`, field: issue.path.join(".") }, { status: 422 });
   }
-  const started = await startReviewRun(parsed.data, "web");
+  const started = await startReviewRun(parsed.data, actor);
   if (!started.ok) return Response.json({ error: started.message, field: started.field }, { status: 422 });
   return Response.json({ ...started.run, status_url: `/api/runs/${started.run.id}` }, { status: 202 });
-}
+});

@@ -1,5 +1,6 @@
 import { importAndStoreTrace } from "@/lib/services/traces";
 import { importOptionsSchema } from "@/lib/trace/settings";
+import { guardRoute } from "@/app/guard";
 
 export const dynamic = "force-dynamic";
 
@@ -41,7 +42,7 @@ async function boundedBody(req: Request): Promise<Uint8Array<ArrayBuffer> | null
  * the authority. 201 with the trace id, 422 with the message naming the first problem, or 507 when
  * the server's disk is full (nothing stored).
  */
-export async function POST(req: Request) {
+export const POST = guardRoute("trace:import", async (req: Request, _ctx: unknown, actor) => {
   const body = await boundedBody(req);
   if (!body) return Response.json({ error: `the upload is over ${MAX_BODY_BYTES / 1048576} MB; at most ${MAX_BODY_BYTES / 1048576} MB can be sent. Nothing was stored.` }, { status: 413 });
   let form: FormData;
@@ -67,7 +68,7 @@ export async function POST(req: Request) {
   }
   const name = form.get("name");
   const bytes = new Uint8Array(await file.arrayBuffer());
-  const res = await importAndStoreTrace(bytes, { name: typeof name === "string" ? name : undefined, fileName: file.name, options: options.data });
+  const res = await importAndStoreTrace(bytes, { name: typeof name === "string" ? name : undefined, fileName: file.name, options: options.data }, actor);
   if (!res.ok) return Response.json({ error: res.message, ...(res.field ? { field: res.field } : {}) }, { status: res.diskFull ? 507 : res.busy ? 503 : 422, ...(res.busy ? { headers: { "retry-after": "2" } } : {}) });
   return Response.json({ id: res.traceId }, { status: 201 });
-}
+});

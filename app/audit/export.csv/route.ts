@@ -2,6 +2,7 @@ import { auditBatches } from "@/lib/db/auditQueries";
 import { auditCsvHeader, auditCsvRow } from "@/lib/review/auditCsv";
 import { auditFilter, parseAuditParams } from "../filters";
 import { displayZone } from "@/app/displayZone";
+import { guardRoute } from "@/app/guard";
 
 export const dynamic = "force-dynamic";
 
@@ -9,7 +10,7 @@ export const dynamic = "force-dynamic";
  * The audit log (or the entries matching the page's filters) as CSV, streamed in batches so that a
  * long log is never held in memory at once.
  */
-export async function GET(req: Request) {
+export const GET = guardRoute("read", async (req: Request) => {
   const url = new URL(req.url);
   const p = parseAuditParams(Object.fromEntries(url.searchParams));
   // Links in the file use the host the browser asked for (Next's req.url names its own bind address).
@@ -30,4 +31,4 @@ export async function GET(req: Request) {
   });
   const stamp = new Date().toISOString().slice(0, 19).replace(/[-:]/g, "").replace("T", "-");
   return new Response(stream, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="corelag-audit-${stamp}.csv"` } });
-}
+});

@@ -10,6 +10,7 @@ import { EXAMPLE_PROFILES } from "../../../lib/design/profile";
 import { importCsv } from "../../../lib/trace";
 import { createDefinition, listLatestDefinitions } from "../../../lib/db/definitions";
 import { createTrace } from "../../../lib/db/traces";
+import { TEST_ACTOR } from "../../helpers/accounts";
 
 const DEMO = path.join(__dirname, "../../../public/demo");
 const SUFFIX = " (design e2e)";
@@ -18,14 +19,14 @@ const named = <T extends { name: string }>(x: T): T => ({ ...x, name: x.name + S
 
 async function main() {
   if ((await listLatestDefinitions("product")).some((d) => d.name.endsWith(SUFFIX))) return;
-  await createDefinition("product", named(productSchema.parse(json("ready-meal-shaped.product.json"))));
-  await createDefinition("product", named(productSchema.parse(json("ready-meal.product.json"))));
-  await createDefinition("pack", named(packSchema.parse(json("tote.pack.json"))));
-  await createDefinition("limits", named(limitSetSchema.parse(json("tote-design.limits.json"))));
-  await createDefinition("limits", named(limitSetSchema.parse(json("ready-meal.limits.json"))));
-  await createDefinition("profile", named(EXAMPLE_PROFILES[0]!));
+  await createDefinition("product", named(productSchema.parse(json("ready-meal-shaped.product.json"))), TEST_ACTOR);
+  await createDefinition("product", named(productSchema.parse(json("ready-meal.product.json"))), TEST_ACTOR);
+  await createDefinition("pack", named(packSchema.parse(json("tote.pack.json"))), TEST_ACTOR);
+  await createDefinition("limits", named(limitSetSchema.parse(json("tote-design.limits.json"))), TEST_ACTOR);
+  await createDefinition("limits", named(limitSetSchema.parse(json("ready-meal.limits.json"))), TEST_ACTOR);
+  await createDefinition("profile", named(EXAMPLE_PROFILES[0]!), TEST_ACTOR);
   const bytes = readFileSync(path.join(DEMO, "probe-test.csv"));
-  await createTrace({ name: "Probe test" + SUFFIX, fileName: "probe-test.csv", bytes, imported: importCsv(bytes) });
+  await createTrace({ name: "Probe test" + SUFFIX, fileName: "probe-test.csv", bytes, imported: importCsv(bytes), actor: TEST_ACTOR });
 }
 
 main().then(

@@ -11,17 +11,18 @@ import { createDefinition, listLatestDefinitions } from "../../../lib/db/definit
 
 const DEMO = path.join(__dirname, "../../../public/demo");
 import { GROWTH_LIMITS, GROWTH_MODEL, GROWTH_SUFFIX as SUFFIX } from "./growthInputs";
+import { TEST_ACTOR } from "../../helpers/accounts";
 
 const json = (f: string) => JSON.parse(readFileSync(path.join(DEMO, f), "utf8"));
 
 async function main() {
   if ((await listLatestDefinitions("product")).some((d) => d.name.endsWith(SUFFIX))) return;
   const tray = json("ready-meal-shaped.product.json");
-  await createDefinition("product", productSchema.parse({ ...tray, name: tray.name + SUFFIX, consequences: [GROWTH_MODEL] }));
+  await createDefinition("product", productSchema.parse({ ...tray, name: tray.name + SUFFIX, consequences: [GROWTH_MODEL] }), TEST_ACTOR);
   const tote = json("tote.pack.json");
-  await createDefinition("pack", packSchema.parse({ ...tote, name: tote.name + SUFFIX }));
-  await createDefinition("limits", limitSetSchema.parse(GROWTH_LIMITS));
-  await createDefinition("profile", { ...EXAMPLE_PROFILES[0]!, name: EXAMPLE_PROFILES[0]!.name + SUFFIX });
+  await createDefinition("pack", packSchema.parse({ ...tote, name: tote.name + SUFFIX }), TEST_ACTOR);
+  await createDefinition("limits", limitSetSchema.parse(GROWTH_LIMITS), TEST_ACTOR);
+  await createDefinition("profile", { ...EXAMPLE_PROFILES[0]!, name: EXAMPLE_PROFILES[0]!.name + SUFFIX }, TEST_ACTOR);
 }
 
 main().then(

@@ -1,6 +1,7 @@
 import { livePayload } from "@/lib/services/monitorPage";
 import { onMonitorChange } from "@/lib/services/liveRegistry";
 import { ensureSweeper } from "@/lib/services/monitors";
+import { guardRoute } from "@/app/guard";
 
 export const dynamic = "force-dynamic";
 
@@ -11,7 +12,7 @@ const HEARTBEAT_MS = 15_000;
  * Server-Sent Events for the live page: a "state" event with the whole page payload on connect and after
  * every change (new readings, alerts raised or cleared), at most one per 250 ms.
  */
-export async function GET(req: Request, ctx: { params: Promise<{ id: string }> }) {
+export const GET = guardRoute("read", async (req: Request, ctx: { params: Promise<{ id: string }> }) => {
   const { id } = await ctx.params;
   const first = await livePayload(id);
   if (!first) return new Response("no such monitor", { status: 404 });
@@ -58,4 +59,4 @@ export async function GET(req: Request, ctx: { params: Promise<{ id: string }> }
     },
   });
   return new Response(stream, { headers: { "Content-Type": "text/event-stream; charset=utf-8", "Cache-Control": "no-cache, no-transform", Connection: "keep-alive", "X-Accel-Buffering": "no" } });
-}
+});

@@ -1,6 +1,7 @@
 import { getTraceOriginal } from "@/lib/db/traces";
 import { logOriginalDownload } from "@/lib/db/audit";
 import { sha256Hex } from "@/lib/trace/hash";
+import { guardRoute } from "@/app/guard";
 
 export const dynamic = "force-dynamic";
 
@@ -15,12 +16,12 @@ function disposition(fileName: string): string {
  * recorded in the audit log; when it differs from the recorded one the file is still served (it is the
  * evidence) and the header says so.
  */
-export async function GET(_req: Request, { params }: { params: Promise<{ id: string }> }) {
+export const GET = guardRoute("read", async (_req: Request, { params }: { params: Promise<{ id: string }> }, actor) => {
   const { id } = await params;
   const original = await getTraceOriginal(id);
   if (!original) return new Response("no such trace", { status: 404 });
   const sha256 = sha256Hex(original.bytes);
-  await logOriginalDownload(id, sha256);
+  await logOriginalDownload(id, sha256, actor);
   return new Response(Buffer.from(original.bytes), {
     headers: {
       "content-type": "application/octet-stream",
@@ -31,4 +32,4 @@ export async function GET(_req: Request, { params }: { params: Promise<{ id: str
       ...(sha256 !== original.sha256 ? { "x-corelag-warning": "the stored bytes no longer match their recorded SHA-256" } : {}),
     },
   });
-}
+});

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { boundedBody } from "@/app/api/bodyLimit";
 import { batchOptionsSchema, previewBatch, storeBatch, storeBatchSchema, type UploadedFile } from "@/lib/services/batch";
+import { guardRoute } from "@/app/guard";
 
 export const dynamic = "force-dynamic";
 
@@ -14,7 +15,7 @@ const modeSchema = z.enum(["preview", "store"], { error: "mode must be preview o
  * ?mode=preview imports every file and proposes the matching, storing nothing (200 with the rows);
  * ?mode=store stores the confirmed matching (200 with stored, refused and skipped files; 422 on a bad request).
  */
-export async function POST(req: Request, ctx: { params: Promise<{ id: string }> }) {
+export const POST = guardRoute("trace:import", async (req: Request, ctx: { params: Promise<{ id: string }> }, actor) => {
   const { id } = await ctx.params;
   const mode = modeSchema.safeParse(new URL(req.url).searchParams.get("mode"));
   if (!mode.success) return Response.json({ error: mode.error.issues[0]!.message }, { status: 400 });
@@ -47,7 +48,7 @@ export async function POST(req: Request, ctx: { params: Promise<{ id: string }> 
   }
   const parsed = storeBatchSchema.safeParse(request);
   if (!parsed.success) return Response.json({ error: `${parsed.error.issues[0]!.path.join(".")}: ${parsed.error.issues[0]!.message}` }, { status: 422 });
-  const r = await storeBatch(id, files, parsed.data, "web");
+  const r = await storeBatch(id, files, parsed.data, actor);
   if (!r.ok) return Response.json({ error: r.message }, { status: 422 });
   return Response.json(r.result);
-}
+});
