@@ -150,7 +150,7 @@ describe("review records", () => {
     // the audit page's full check, recorded in the log: it vouches for the chain up to the entry before it
     const { report, seq } = await recordChainCheck(TEST_ACTOR);
     expect(report.findings).toEqual([]);
-    expect(await lastChainCheck()).toMatchObject({ seq, ok: true, head_seq: seq - 1, actor: "test" });
+    expect(await lastChainCheck()).toMatchObject({ seq, ok: true, head_seq: seq - 1, actor: "system:test" });
     const light = await checkRecordsLight();
     expect(light.findings).toEqual([]);
     expect(light.from).toMatchObject({ source: "log", entry: seq, head: { seq: seq - 1, hash: report.head!.hash } });
