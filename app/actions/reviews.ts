@@ -3,7 +3,8 @@
 import { redirect } from "next/navigation";
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
-import { runReviewRequestSchema, signOff, signOffSchema } from "@/lib/services/reviews";
+import { runReviewRequestSchema } from "@/lib/services/reviews";
+import { signReviewWithPassword, signatureSchema } from "@/lib/services/signature";
 import { startReviewRun, waitForRun } from "@/lib/services/runs";
 import { renameReview } from "@/lib/db/reviews";
 import { guardAction } from "@/app/guard";
@@ -50,17 +51,19 @@ export const startReview = guardAction("review:run", async (actor, _prev: FormSt
 });
 
 export const signOffReview = guardAction("review:sign", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
-  const values = formValues(form);
+  // never echo the password back into the form
+  const { password: _p, ...values } = formValues(form);
   const id = textField(form, "reviewId") ?? "";
-  const parsed = signOffSchema.safeParse({
-    reviewer: textField(form, "reviewer") ?? "",
+  const parsed = signatureSchema.safeParse({
     decision: textField(form, "decision") ?? "",
     comment: textField(form, "comment") || undefined,
+    password: textField(form, "password") ?? "",
   });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
-  // The service checks the decision against the stored outcome; a form field cannot waive the comment.
-  const res = await signOff(id, parsed.data, actor);
-  if (!res.ok && res.reason === "comment-required") return { fieldErrors: { comment: res.message }, values };
+  // The service checks the password, the second-person rule, that the stored inputs still reproduce the
+  // review, and the decision against the stored outcome; a form field cannot waive any of them.
+  const res = await signReviewWithPassword(id, parsed.data, actor);
+  if (!res.ok && res.field) return { fieldErrors: { [res.field]: res.message }, values };
   if (!res.ok) return { message: res.message, values };
   revalidatePath(`/reviews/${id}`);
   redirect(`/reviews/${id}`);

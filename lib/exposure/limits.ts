@@ -70,6 +70,8 @@ export const limitSetSchema = strictObject({
     rules: capped(ruleSchema, "rules", MAX_RULES).min(1, { message: "a limit set needs at least one rule" }),
     /** stated accuracy of the logger's sensor, K; widens every rule's guard band */
     sensor_accuracy_K: quantity("sensor_accuracy_K", "K", 0, 10).optional(),
+    /** second-person review: a review against this limit set must be signed by someone other than the user who ran it */
+    second_person_review: z.boolean({ error: "second_person_review must be true or false" }).optional(),
   }).refine((s) => new Set(s.rules.map((r) => r.id)).size === s.rules.length, {
     message: "rule ids must be unique",
     path: ["rules"],

@@ -1,6 +1,7 @@
 import { test, expect } from "@playwright/test";
 import path from "node:path";
 import { saveLumpedProduct, saveTemplateLimits } from "./helpers/seedDefinitions";
+import { TEST_PASSWORD } from "./helpers/auth";
 
 const DEMO = path.join(__dirname, "../../public/demo");
 
@@ -169,7 +170,7 @@ test("sign off a review, open its printable report, export the findings, and cor
   const suggested = (await page.getByTestId("outcome-value").textContent())!;
 
   // A decision that differs from the suggestion needs a comment.
-  await page.getByLabel("Reviewer").fill("Dana Ruiz");
+  await page.getByLabel("Your password").fill(TEST_PASSWORD);
   const other = suggested === "reject" ? "hold" : "reject";
   await page.locator("#f-decision").selectOption(other);
   await page.getByRole("button", { name: "Sign off" }).click();
@@ -177,7 +178,7 @@ test("sign off a review, open its printable report, export the findings, and cor
   await page.getByLabel(/^Comment/).fill("Pallet probed at arrival: core 4.1 °C; decision per QA plan section 7.");
   await page.getByRole("button", { name: "Sign off" }).click();
   await expect(page.getByTestId("review-status")).toHaveText("signed off (final)");
-  await expect(page.getByTestId("decision")).toContainText("by Dana Ruiz");
+  await expect(page.getByTestId("decision")).toContainText("by Ilse Admin (demo)");
   await expect(page.getByRole("button", { name: "Sign off" })).toHaveCount(0);
 
   // Printable report.
@@ -195,7 +196,7 @@ test("sign off a review, open its printable report, export the findings, and cor
   const file = await (await download).path();
   const csv = (await import("node:fs")).readFileSync(file, "utf8");
   expect(csv).toContain("title,Sandwiches route 7");
-  expect(csv).toContain("signed_by,Dana Ruiz");
+  expect(csv).toContain("signed_by,Ilse Admin (demo)");
   expect(csv).toMatch(/^core-above-5C,core,above,5,/m);
 
   // A correction is a new review pointing back.

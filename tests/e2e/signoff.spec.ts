@@ -1,6 +1,7 @@
 import { test, expect, type Page } from "@playwright/test";
 import path from "node:path";
 import { saveLumpedProduct } from "./helpers/seedDefinitions";
+import { TEST_PASSWORD } from "./helpers/auth";
 
 // Issue 9, "Records must say what the reviewer decided": the stored decision is the one chosen, and the
 // comment required for a decision that differs from the suggestion is enforced against the STORED outcome.
@@ -41,18 +42,18 @@ test("hold for review with an empty comment is refused, keeps 'hold', and the re
   const id = url.split("/").pop()!;
 
   // Exactly the sequence from the issue.
-  await page.getByLabel("Reviewer").fill("Dana Ruiz");
+  await page.getByLabel("Your password").fill(TEST_PASSWORD);
   await page.locator("#f-decision").selectOption("hold");
   await page.getByRole("button", { name: "Sign off" }).click();
   await expect(page.getByTestId("error-comment")).toHaveText("a decision that differs from the suggested outcome needs a comment saying why");
   // after the refusal the form still shows what the reviewer chose
   await expect(page.locator("#f-decision")).toHaveValue("hold");
-  await expect(page.getByLabel("Reviewer")).toHaveValue("Dana Ruiz");
+  await expect(page.getByLabel("Your password")).toHaveValue(TEST_PASSWORD);
   await expect(page.getByTestId("review-status")).toHaveText("open: not yet signed off");
   await page.getByLabel(/^Comment/).fill("Core probed at arrival: 4.1 °C; held for the QA lead.");
   await page.getByRole("button", { name: "Sign off" }).click();
   await expect(page.getByTestId("review-status")).toHaveText("signed off (final)");
-  await expect(page.getByTestId("decision")).toContainText("decision hold for review by Dana Ruiz");
+  await expect(page.getByTestId("decision")).toContainText("decision hold for review by Ilse Admin (demo)");
   await expect(page.getByTestId("sign-comment")).toContainText("Core probed at arrival: 4.1 °C");
 
   // the stored record, as the export reads it
@@ -65,7 +66,7 @@ test("hold for review with an empty comment is refused, keeps 'hold', and the re
   // the printable report
   await page.goto(`/reviews/${id}/report`);
   await expect(page.getByTestId("outcome")).toContainText("reject");
-  await expect(page.getByTestId("decision")).toContainText("decision hold for review by Dana Ruiz");
+  await expect(page.getByTestId("decision")).toContainText("decision hold for review by Ilse Admin (demo)");
   await expect(page.getByTestId("decision")).not.toContainText("accept");
 });
 
@@ -73,7 +74,7 @@ test("a forged post (decision=accept&suggested=accept) on a reject review is ref
   const url = await rejectReview(page, "Forged sign-off");
   const id = url.split("/").pop()!;
   // Post what a forged form would: the old hidden field, claiming the suggestion was accept.
-  await page.getByLabel("Reviewer").fill("Mallory Test");
+  await page.getByLabel("Your password").fill(TEST_PASSWORD);
   await page.locator("#f-decision").selectOption("accept");
   await page.locator("form[aria-label='Sign off']").evaluate((form) => {
     const input = document.createElement("input");

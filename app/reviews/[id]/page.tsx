@@ -8,6 +8,8 @@ import { RenameForm, SignOffForm } from "./SignOffForm";
 import { RecheckButton } from "./RecheckButton";
 import { RecordVerified } from "./RecordVerified";
 import { lastAuditEntry } from "@/lib/db/auditQueries";
+import { can, pageActor } from "@/app/guard";
+import { signatureRules } from "@/lib/services/signature";
 
 export const dynamic = "force-dynamic";
 
@@ -18,6 +20,10 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
   const trace = await getTrace(review.traceId);
   if (!trace) notFound();
   const lastCheck = await lastAuditEntry(id, "verify");
+  const actor = await pageActor();
+  const rules = await signatureRules(id);
+  const mayWrite = can(actor, "review:run");
+  const maySign = can(actor, "review:sign") && actor.kind === "user";
   const zone = await displayZone((review.trace.importSettings as { timeZone?: string } | null)?.timeZone);
   const q = new URLSearchParams({ trace: review.traceId, product: review.productId, limits: review.limitsId, model: String((review.options as { model?: string }).model ?? "auto") });
   if (review.packId) q.set("pack", review.packId);
@@ -47,12 +53,22 @@ export default async function ReviewPage({ params }: { params: Promise<{ id: str
         <div className="grid2 no-print">
           <section className="card">
             <h2 style={{ marginTop: 0 }}>Sign off</h2>
-            <SignOffForm reviewId={id} suggested={review.outcome as "accept" | "hold" | "reject"} />
+            {maySign && actor.kind === "user" ? (
+              rules.secondPerson && rules.runByUserId === actor.userId ? (
+                <p data-testid="second-person-note">You ran this review, and its limit set asks for second-person review: another reviewer must sign it.</p>
+              ) : (
+                <SignOffForm reviewId={id} suggested={review.outcome as "accept" | "hold" | "reject"} signer={{ name: actor.name, email: actor.email }} secondPerson={rules.secondPerson} />
+              )
+            ) : (
+              <p data-testid="cannot-sign">Your role ({actor.kind === "user" || actor.kind === "token" ? actor.role : actor.kind}) cannot sign off reviews; a reviewer or an administrator signs.</p>
+            )}
           </section>
-          <section className="card">
-            <h2 style={{ marginTop: 0 }}>Edit</h2>
-            <RenameForm reviewId={id} title={review.title} />
-          </section>
+          {mayWrite && (
+            <section className="card">
+              <h2 style={{ marginTop: 0 }}>Edit</h2>
+              <RenameForm reviewId={id} title={review.title} />
+            </section>
+          )}
         </div>
       ) : (
         <section className="card no-print">

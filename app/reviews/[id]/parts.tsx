@@ -29,6 +29,11 @@ export function ReviewHeader({ review, zone }: { review: StoredReview; zone: str
           </span>
         )}
       </div>
+      {review.status === "signed" && (
+        <p data-testid="signature">
+          Electronic signature: <strong>{review.signedBy}</strong>, {review.signedAt ? formatTime(review.signedAt, zone, { seconds: true }) : ""}. Meaning: {review.signMeaning ?? "not recorded"}.
+        </p>
+      )}
       {review.status === "signed" && review.signComment && <p data-testid="sign-comment">Reviewer&apos;s comment: {review.signComment}</p>}
       <Caution />
       <dl className="facts">

@@ -1,0 +1,69 @@
+// Electronic signature of a review (issue 13; in the manner of 21 CFR Part 11 §11.200 and §11.50): the
+// signed-in user re-enters their password (the second identification component), the stored inputs must
+// still reproduce the review (re-checked here, recorded in the audit log), a limit set may ask for a second
+// person, and the signature records who (user id and name), when, and what it means.
+import { z } from "zod";
+import type { Actor } from "../access/actor";
+import { getReview, signReview, type ReviewChange } from "../db/reviews";
+import { lastAuditEntry } from "../db/auditQueries";
+import { recheckReview } from "./recheck";
+import { passwordMatches } from "./users";
+
+export const signatureSchema = z.object({
+  decision: z.enum(["accept", "hold", "reject"], { error: "choose accept, hold or reject" }),
+  comment: z.string().trim().max(2000, { message: "at most 2,000 characters" }).optional(),
+  password: z.string().min(1, { message: "re-enter your password to sign" }).max(256),
+});
+
+/** What each decision means when signed: the words recorded with the signature and shown on the report. */
+export const SIGNATURE_MEANING: Record<"accept" | "hold" | "reject", string> = {
+  accept: "Released: I reviewed this record and release the product",
+  hold: "Held: I reviewed this record and hold the product for further review",
+  reject: "Rejected: I reviewed this record and reject the product",
+};
+
+export type SignatureOutcome =
+  | { ok: true }
+  | { ok: false; reason: "not-a-user" | "password" | "second-person" | "not-reproduced" | "not-found" | "signed" | "comment-required"; message: string; field?: "password" | "comment" };
+
+/** The user id that ran a review, from its "run" audit entry (null for the demo loader, the CLI, …). */
+async function runBy(reviewId: string): Promise<string | null> {
+  const e = await lastAuditEntry(reviewId, "run");
+  const a = (e?.details as { actor?: { kind?: string; user_id?: string } } | null)?.actor;
+  return a?.kind === "user" && a.user_id ? a.user_id : null;
+}
+
+/**
+ * Signs a review as `actor`, who must be a signed-in user (a token alone cannot sign). Checks, in order:
+ * the password, the second-person rule of the review's limit set, that the stored inputs still reproduce
+ * the review; then the decision and comment rules (lib/db/reviews.ts signReview) in one transaction.
+ */
+export async function signReviewWithPassword(reviewId: string, input: z.input<typeof signatureSchema>, actor: Actor): Promise<SignatureOutcome> {
+  if (actor.kind !== "user") return { ok: false, reason: "not-a-user", message: "a signature needs a signed-in person who re-enters their password; a token or a script cannot sign" };
+  const s = signatureSchema.parse(input);
+  if (!(await passwordMatches(actor.userId, s.password))) {
+    return { ok: false, reason: "password", field: "password", message: "the password is wrong; the review was not signed" };
+  }
+  const review = await getReview(reviewId);
+  if (!review) return { ok: false, reason: "not-found", message: "that review does not exist" };
+  if (review.status === "signed") return { ok: false, reason: "signed", message: "this review is already signed off; a correction is a new review" };
+  const limits = review.limits.body as { second_person_review?: boolean };
+  if (limits.second_person_review && (await runBy(reviewId)) === actor.userId) {
+    return { ok: false, reason: "second-person", message: `the limit set "${review.limits.name}" asks for second-person review: someone other than the person who ran this review must sign it` };
+  }
+  const check = await recheckReview(reviewId, actor);
+  if (!check.ok) return { ok: false, reason: "not-found", message: check.message };
+  if (!check.check.reproduced) {
+    return { ok: false, reason: "not-reproduced", message: `the stored inputs no longer reproduce this review, so it cannot be signed (re-check recorded as audit entry ${check.seq}): ${check.check.problems.slice(0, 3).join("; ")}` };
+  }
+  const res: ReviewChange = await signReview(reviewId, { reviewer: actor.name, decision: s.decision, comment: s.comment || undefined, meaning: SIGNATURE_MEANING[s.decision] }, actor);
+  if (!res.ok) return { ok: false, reason: res.reason, message: res.message, ...(res.reason === "comment-required" ? { field: "comment" as const } : {}) };
+  return { ok: true };
+}
+
+/** Who may sign a review, in words for the page: the second-person rule and the signer's role. */
+export async function signatureRules(reviewId: string): Promise<{ secondPerson: boolean; runByUserId: string | null }> {
+  const review = await getReview(reviewId);
+  const limits = (review?.limits.body ?? {}) as { second_person_review?: boolean };
+  return { secondPerson: limits.second_person_review === true, runByUserId: await runBy(reviewId) };
+}
