@@ -1,0 +1,91 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { testDatabaseUrl } from "../helpers/database";
+import { TEST_ACTOR } from "../helpers/accounts";
+import type { Actor } from "../../lib/access/actor";
+
+// Electronic signatures on a real database (issue 13): the password re-entered at signing, the
+// second-person rule of a limit set, and who may sign at all. The users are made with the real hashing.
+const dir = mkdtempSync(path.join(tmpdir(), "corelag-sig-"));
+const url = testDatabaseUrl(dir, "sig.db");
+process.env.DATABASE_URL = url;
+const DEMO = path.join(__dirname, "../../public/demo");
+const PASSWORD_A = "alpha-password-123";
+const PASSWORD_B = "bravo-password-456";
+let ada: Actor;
+let ben: Actor;
+let reviewId = "";
+
+beforeAll(async () => {
+  const { migrateDatabase } = await import("@/lib/db/migrate");
+  migrateDatabase(url);
+  const users = await import("@/lib/services/users");
+  const a = await users.addUser({ email: "ada@example.com", name: "Ada Reviewer", role: "reviewer", password: PASSWORD_A }, TEST_ACTOR);
+  const b = await users.addUser({ email: "ben@example.com", name: "Ben Reviewer", role: "reviewer", password: PASSWORD_B }, TEST_ACTOR);
+  if (!a.ok || !b.ok) throw new Error("users not created");
+  ada = { kind: "user", userId: a.user.id, name: a.user.name, email: a.user.email, role: "reviewer" };
+  ben = { kind: "user", userId: b.user.id, name: b.user.name, email: b.user.email, role: "reviewer" };
+  const dbm = await import("@/lib/db");
+  const { importCsv } = await import("@/lib/trace");
+  const { runAndStoreReview } = await import("@/lib/services/reviews");
+  const bytes = readFileSync(path.join(DEMO, "route7-tote3.csv"));
+  const traceId = await dbm.createTrace({ name: "sig", fileName: "route7-tote3.csv", bytes, imported: importCsv(bytes), actor: ada });
+  const p = await dbm.createDefinition("product", JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")), ada);
+  const limits = { ...JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")), second_person_review: true };
+  const l = await dbm.createDefinition("limits", limits, ada);
+  const res = await runAndStoreReview({ title: "second person", traceId, productId: p.id, limitsId: l.id }, ada);
+  if (!res.ok) throw new Error(res.message);
+  reviewId = res.reviewId;
+});
+
+afterAll(async () => {
+  const { db } = await import("@/lib/db/client");
+  await db.$disconnect();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+describe("signing a review", () => {
+  it("refuses a token or a script: a signature needs a person and a password", async () => {
+    const { signReviewWithPassword } = await import("@/lib/services/signature");
+    const token: Actor = { kind: "token", tokenId: "t1", tokenName: "gateway", scope: "write", userId: ben.kind === "user" ? ben.userId : "", name: "Ben Reviewer", role: "reviewer" };
+    expect(await signReviewWithPassword(reviewId, { decision: "hold", comment: "probe it", password: PASSWORD_B }, token)).toMatchObject({ ok: false, reason: "not-a-user" });
+    expect(await signReviewWithPassword(reviewId, { decision: "hold", comment: "probe it", password: PASSWORD_B }, TEST_ACTOR)).toMatchObject({ ok: false, reason: "not-a-user" });
+  });
+
+  it("refuses a wrong password, and another user's password", async () => {
+    const { signReviewWithPassword } = await import("@/lib/services/signature");
+    expect(await signReviewWithPassword(reviewId, { decision: "hold", comment: "probe it", password: "wrong-password-0" }, ben)).toMatchObject({ ok: false, reason: "password", field: "password" });
+    expect(await signReviewWithPassword(reviewId, { decision: "hold", comment: "probe it", password: PASSWORD_A }, ben)).toMatchObject({ ok: false, reason: "password" });
+  });
+
+  it("second-person review: the user who ran the review cannot sign it, even with the right password", async () => {
+    const { signReviewWithPassword } = await import("@/lib/services/signature");
+    const r = await signReviewWithPassword(reviewId, { decision: "hold", comment: "probe it", password: PASSWORD_A }, ada);
+    expect(r).toMatchObject({ ok: false, reason: "second-person" });
+    const { getReview } = await import("@/lib/db/reviews");
+    expect((await getReview(reviewId))!.status).toBe("open");
+  });
+
+  it("another user signs with their password: the record names them, the time and the meaning; the audit entry names their account", async () => {
+    const { signReviewWithPassword } = await import("@/lib/services/signature");
+    const { getReview } = await import("@/lib/db/reviews");
+    const { lastAuditEntry } = await import("@/lib/db/auditQueries");
+    const outcome = (await getReview(reviewId))!.outcome as "accept" | "hold" | "reject";
+    const before = Date.now();
+    expect(await signReviewWithPassword(reviewId, { decision: outcome, password: PASSWORD_B }, ben)).toEqual({ ok: true });
+    const signed = (await getReview(reviewId))!;
+    expect(signed.status).toBe("signed");
+    expect(signed.signedBy).toBe("Ben Reviewer");
+    expect(signed.signedAt!.getTime()).toBeGreaterThanOrEqual(before - 1000);
+    expect(signed.signMeaning).toMatch(/^(Released|Held|Rejected): I reviewed this record/);
+    const entry = (await lastAuditEntry(reviewId, "sign"))!;
+    expect(entry.actor).toBe("Ben Reviewer <ben@example.com>");
+    expect((entry.details as { actor: { user_id: string } }).actor.user_id).toBe(ben.kind === "user" ? ben.userId : "");
+    // the re-check made at signing is in the log too, before the signature
+    const recheck = (await lastAuditEntry(reviewId, "verify"))!;
+    expect(recheck.seq).toBeLessThan(entry.seq);
+    expect((recheck.details as { reproduced: boolean }).reproduced).toBe(true);
+  });
+});
