@@ -269,9 +269,11 @@ async function workReviewJob(job: { id: string; data: ReviewJobData }): Promise<
 
 const globalForWorkers = globalThis as unknown as { corelagRunWorkers?: Promise<void> };
 
-/** At server start (instrumentation.ts): on PostgreSQL, this instance takes queued runs, one per engine thread. */
+/** At server start (instrumentation.ts): on PostgreSQL, this instance takes queued runs, two per engine thread. */
 export function startRunWorkers(): Promise<void> {
   if (!queued()) return Promise.resolve();
-  globalForWorkers.corelagRunWorkers ??= queue().then((q) => q.workJobs<ReviewJobData>(REVIEW_QUEUE, engineThreads(), workReviewJob));
+  // twice the engine threads: a worker fetches its next job (pg-boss polls every 0.5 s) while another computes;
+  // the pool still computes at most engineThreads() at once and queues the rest
+  globalForWorkers.corelagRunWorkers ??= queue().then((q) => q.workJobs<ReviewJobData>(REVIEW_QUEUE, 2 * engineThreads(), workReviewJob));
   return globalForWorkers.corelagRunWorkers;
 }
