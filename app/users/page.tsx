@@ -34,7 +34,7 @@ export default async function UsersPage() {
               <td>{u.email}</td>
               <td><RoleForm userId={u.id} role={u.role} /></td>
               <td>{u.disabled ? "disabled" : "active"}</td>
-              <td>{formatTime(u.createdAt.getTime() / 1000, zone)}</td>
+              <td>{formatTime(u.createdAt, zone)}</td>
               <td><DisableForm userId={u.id} disabled={u.disabled} /></td>
             </tr>
           ))}
