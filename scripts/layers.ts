@@ -7,7 +7,8 @@
 //   engine, lowest first: trace < thermal < exposure < uncertainty < review < design < shipment, and live (monitors) beside design; consequence (growth and
 //   shelf-life models on a temperature history, and their schemas) imports no other lib folder and sits below
 //   thermal, whose product schema carries its models; display (charts, times and
-//   numbers as shown) and access (roles, permissions, actors) stand alone and import no other lib folder
+//   numbers as shown) and access (roles, permissions, actors) stand alone and import no other lib folder;
+//   api (the HTTP API's schemas, problem details, OpenAPI document, token format) sits above the whole engine
 //   new lib/ folders must be given a place here before they are used
 import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
 import path from "node:path";
@@ -25,6 +26,8 @@ export const ENGINE_LAYERS: Record<string, string[]> = {
   design: ["trace", "thermal", "exposure", "uncertainty", "review", "consequence"],
   live: ["trace", "thermal", "exposure", "uncertainty", "review", "consequence"],
   shipment: ["trace", "thermal", "exposure", "uncertainty", "review", "design", "consequence"],
+  // the HTTP API's pure parts: problem details, request/response schemas, the OpenAPI document, tokens
+  api: ["trace", "thermal", "exposure", "uncertainty", "review", "design", "access", "consequence", "live", "shipment"],
 };
 const ENGINE = Object.keys(ENGINE_LAYERS);
 
