@@ -5,7 +5,8 @@ import { headers } from "next/headers";
 import { redirect } from "next/navigation";
 import { actorAllows, type Actor } from "@/lib/access/actor";
 import type { Permission } from "@/lib/access/roles";
-import { actorFromRequest, authorize } from "@/lib/services/access";
+import { actorFromRequest, authorize, type Authorization } from "@/lib/services/access";
+import { apiRefusal, isApiPath } from "@/lib/services/apiRefusal";
 
 /** A server action's state always has room for a message; a refusal is one. */
 type WithMessage = { message?: string };
@@ -55,13 +56,23 @@ function sameOrigin(req: Request): boolean {
 export function guardRoute<C = unknown>(permission: Permission, handler: (req: Request, ctx: C, actor: Actor) => Promise<Response>): RouteHandler<C> {
   return async (req: Request, ctx: C): Promise<Response> => {
     const write = req.method !== "GET" && req.method !== "HEAD";
-    if (write && !req.headers.has("authorization") && !sameOrigin(req)) {
-      return Response.json({ error: "refused: this request did not come from a page of this site (the Origin header is missing or names another site)" }, { status: 403 });
+    // Only a request that carries a cookie has an ambient credential to misuse; without one it is simply anonymous (401).
+    if (write && !req.headers.has("authorization") && req.headers.has("cookie") && !sameOrigin(req)) {
+      const message = "refused: this request did not come from a page of this site (the Origin header is missing or names another site)";
+      return isApiPath(req) ? refusalResponse(req, { ok: false, status: 403, message, actor: null }, permission) : Response.json({ error: message }, { status: 403 });
     }
     const auth = await authorize(req.headers, permission);
-    if (!auth.ok) return Response.json({ error: auth.message }, { status: auth.status, headers: auth.status === 401 ? { "www-authenticate": 'Bearer realm="corelag"' } : undefined });
+    if (!auth.ok) return refusalResponse(req, auth, permission);
     return handler(req, ctx, auth.actor);
   };
+}
+
+/** A refusal: `{ error }` JSON, or under /api/v1 an RFC 9457 problem saying why the token was refused. */
+async function refusalResponse(req: Request, auth: Extract<Authorization, { ok: false }>, permission: Permission): Promise<Response> {
+  const headers: Record<string, string> = auth.status === 401 ? { "www-authenticate": 'Bearer realm="corelag"' } : {};
+  if (!isApiPath(req)) return Response.json({ error: auth.message }, { status: auth.status, headers });
+  const p = await apiRefusal(req, auth, permission);
+  return new Response(JSON.stringify(p), { status: p.status, headers: { ...headers, "content-type": "application/problem+json" } });
 }
 
 /**

@@ -34,6 +34,7 @@ export default async function RootLayout({ children }: { children: React.ReactNo
             <Link href="/monitors" data-testid="nav-monitors">Monitors <AlertBadge /></Link>
             <Link href="/loggers">Loggers</Link>
             <Link href="/audit">Audit log</Link>
+            <Link href="/api-docs">API</Link>
           </nav>}
           <ZonePicker chosen={await chosenZone()} />
           {actor && <UserMenu actor={actor} demo={demo} />}

@@ -71,10 +71,11 @@ function limitsOf(s: Json): string {
   if (s.exclusiveMinimum !== undefined) out.push(`> ${s.exclusiveMinimum}`);
   if (s.maximum !== undefined && !big(s.maximum)) out.push(`≤ ${s.maximum}`);
   if (s.exclusiveMaximum !== undefined) out.push(`< ${s.exclusiveMaximum}`);
-  if (s.minLength !== undefined && s.minLength !== 0) out.push(`at least ${s.minLength} characters`);
-  if (s.maxLength !== undefined) out.push(`at most ${s.maxLength} characters`);
-  if (s.minItems !== undefined && s.minItems !== 0) out.push(`at least ${s.minItems} items`);
-  if (s.maxItems !== undefined) out.push(`at most ${s.maxItems} items`);
+  const n = (k: number, what: string) => `${k} ${what}${k === 1 ? "" : "s"}`;
+  if (typeof s.minLength === "number" && s.minLength !== 0) out.push(`at least ${n(s.minLength, "character")}`);
+  if (typeof s.maxLength === "number") out.push(`at most ${n(s.maxLength, "character")}`);
+  if (typeof s.minItems === "number" && s.minItems !== 0) out.push(`at least ${n(s.minItems, "item")}`);
+  if (typeof s.maxItems === "number") out.push(`at most ${n(s.maxItems, "item")}`);
   if (s.pattern !== undefined) out.push(`matches ${s.pattern}`);
   if (s.default !== undefined) out.push(`default ${JSON.stringify(s.default)}`);
   if (s.additionalProperties === false) out.push("no other fields");

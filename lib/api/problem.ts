@@ -17,6 +17,8 @@ export const PROBLEM_KINDS = {
   "invalid-request": { status: 422, title: "The request does not validate", about: "A body field, query parameter or path parameter is missing or wrong; `field` names it. Nothing was stored." },
   "invalid-file": { status: 422, title: "The file was refused", about: "The uploaded logger file could not be imported; `row` and `column` name the first problem where known. Nothing was stored." },
   "signature-refused": { status: 422, title: "The signature was refused", about: "The password (the second signature component) did not match, or the decision needs a comment." },
+  "invalid-readings": { status: 422, title: "Readings refused", about: "A monitor's batch of readings was refused; `refused` lists each reading at fault. Without ?partial=true nothing was stored." },
+  busy: { status: 503, title: "The database is busy", about: "Other writes held the database through every retry; nothing was stored. Send the request again after the Retry-After seconds." },
   "storage-full": { status: 507, title: "The server's disk is full", about: "Nothing was stored; ask the administrator to free space and send the request again." },
   internal: { status: 500, title: "Unexpected failure", about: "The server failed in a way it did not expect; the server log has the details." },
 } as const satisfies Record<string, { status: number; title: string; about: string }>;

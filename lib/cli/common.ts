@@ -39,6 +39,7 @@ export const USAGE = `usage:
   corelag backup --out FILE             (a consistent copy while the app runs: SQLite online backup, or pg_dump)
   corelag restore FILE                  (a backup into the empty database DATABASE_URL names; then run verify)
   corelag user add --email E --name N --role R --password-stdin | user list | user set-role --email E --role R | user disable|enable --email E
+  corelag token create --user EMAIL --name NAME [--expires-days N] [--scope read|write|device] [--format json] | token list [--user EMAIL] [--all] | token revoke ID
   review also takes --uncertainty U.json (Monte Carlo: inputs, samples, seed, use_in_guard_band)`;
 
 export const IMPORT_FLAGS = {

@@ -102,6 +102,14 @@ Every change is recorded in the audit log as cli:<operating-system user>. An adm
 disabled while they are the only enabled one.`,
   seal: `corelag seal
 Once after upgrading: records the content hash of every row whose audit entries were written before entries carried one.`,
+  token: `corelag token create --user EMAIL --name NAME [--expires-days N] [--scope read|write|device] [--format json]
+corelag token list [--user EMAIL] [--all]
+corelag token revoke ID
+API tokens for /api/v1 (Authorization: Bearer <token>). create prints the token once (with --format json:
+{"id", "token", "scope", "expires_at"}); only its SHA-256 is stored. A token acts with its owner's role narrowed by
+its scope: read (GET only, the default), write (everything the owner's role allows), device (posting readings only).
+list prints the tokens (not revoked ones unless --all) with owner, scope, expiry and last use; revoke refuses the
+token from the next request on. Each create and revoke is audited with the operating-system user.`,
 };
 
 const SUMMARY: Record<string, string> = {
@@ -120,6 +128,7 @@ const SUMMARY: Record<string, string> = {
   backup: "a consistent copy of the database while the app runs",
   restore: "restore a backup into an empty database",
   user: "add, list, change the role of, disable or enable web accounts",
+  token: "create, list and revoke API tokens (token create|list|revoke)",
 };
 
 export const PROGRAM_HELP = `corelag: predicts product core temperature from cold-chain logger traces and judges it against your limits.

@@ -42,9 +42,10 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
   shipment: async () => (await import("./commands/shipment")).shipmentCommand,
   profile: async () => (await import("./commands/profile")).profileCommand,
   user: async () => (await import("./commands/user")).userCommand,
+  token: async () => (await import("./commands/token")).tokenCommand,
 };
 /** Commands that work on the database: it must already exist (npm start creates and migrates it). */
-const DATABASE_COMMANDS = new Set(["user"]);
+const DATABASE_COMMANDS = new Set(["user", "token"]);
 
 /** Runs one command; returns the exit code (0 done, 1 verify found a problem, 2 bad input, 3 unexpected failure). */
 export async function runCli(args: string[]): Promise<number> {

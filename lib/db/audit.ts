@@ -13,9 +13,11 @@ export interface AuditEvent {
   action:
     | "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel" | "readings" | "raise" | "clear" | "deliver" | "close"
     // accounts (issue 13): a sign-in, a refused one, a sign-out; a user's role changed, disabled or enabled
-    | "sign-in" | "sign-in-refused" | "sign-out" | "set-role" | "disable" | "enable";
+    | "sign-in" | "sign-in-refused" | "sign-out" | "set-role" | "disable" | "enable"
+    // API tokens (issue 13): a token revoked
+    | "revoke";
   /** "run": a background run that stored nothing (cancelled); its entityId is the run's id. "chain": a full check of the chain (entityId: the head checked). "user": an account (its id, or the e-mail typed when it names no user) */
-  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview" | "chain" | "user";
+  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview" | "chain" | "user" | "token";
   entityId: string;
   /** who did it: written as `actorLabel` in the entry's actor column and as `actorRecord` in its details */
   actor: Actor;

@@ -6,6 +6,7 @@ import { isAPIError } from "better-auth/api";
 import { actorAllows, type Actor } from "../access/actor";
 import { ROLES, rolesAllowing, type Permission, type Role } from "../access/roles";
 import { authFor, SESSION_ABSOLUTE_S } from "../db/auth";
+import { actorFromAuthorization } from "./apiTokens";
 import { clearSignInFailures, deleteSession, logSessionEvent, recordSignInFailure, signInFailuresSince, userByEmail, userById } from "../db/users";
 
 /** Lockout: 5 refused sign-ins for one account within 15 minutes lock it for 15 minutes after the last one. */
@@ -30,11 +31,12 @@ export function clientAddress(headers: Headers): string {
 
 /**
  * The hook for API tokens: resolve `Authorization: Bearer <token>` to a token Actor (its owner's role,
- * its scope), or null when the token is unknown, revoked or expired. Until tokens exist, no bearer
- * token is valid. Replace the body (e.g. with a lookup in lib/services/tokens.ts); keep the signature.
+ * its scope), or null when the token is unknown, revoked or expired, or its owner disabled
+ * (lib/services/apiTokens.ts; the API's refusal says which, lib/services/apiRefusal.ts).
  */
-export async function actorFromBearer(_token: string): Promise<Actor | null> {
-  return null;
+export async function actorFromBearer(token: string): Promise<Actor | null> {
+  const r = await actorFromAuthorization(`Bearer ${token}`);
+  return r.ok ? r.actor : null;
 }
 
 /** The signed-in user behind the request's session cookie, or null (no cookie, expired, ended, disabled). */

@@ -18,7 +18,7 @@ export const uploadSchema = z.object({
 export type StoreTraceOutcome =
   | { ok: true; traceId: string }
   /** diskFull: the import was fine but the server could not store it (HTTP 507); busy: the database stayed busy (HTTP 503, try again); field: the part of the request at fault */
-  | { ok: false; message: string; diskFull?: true; busy?: true; field?: "fileName" | "name" | "options" };
+  | { ok: false; message: string; diskFull?: true; busy?: true; field?: "fileName" | "name" | "options"; row?: number; column?: string };
 
 /**
  * Imports a logger file and stores it, or refuses it as a whole: a file that cannot be imported
@@ -38,7 +38,9 @@ export async function importAndStoreTrace(bytes: Uint8Array, input: z.input<type
   try {
     imported = await importTraceFile(bytes, req.options);
   } catch (e) {
-    if (e instanceof TraceImportError) return { ok: false, message: `${req.fileName}: ${e.message}. Nothing was stored.` };
+    if (e instanceof TraceImportError) {
+      return { ok: false, message: `${req.fileName}: ${e.message}. Nothing was stored.`, ...(e.row !== undefined ? { row: e.row } : {}), ...(e.column !== undefined ? { column: e.column } : {}) };
+    }
     throw e;
   }
   try {

@@ -175,7 +175,10 @@ describe("every route handler goes through the access wrapper", () => {
       if (role) {
         const small = await fetch(server.url + r.path, init(cookies[role]));
         expect(small.status, `${r.method} ${r.path} as ${role}`).toBe(403);
-        expect(((await small.json()) as { error: string }).error).toContain(`your role (${role})`);
+        // /api/v1 answers RFC 9457 problems (lib/services/apiRefusal.ts); other routes `{ error }`
+        const body = (await small.json()) as { error?: string; detail?: string };
+        if (r.path.startsWith("/api/v1/")) expect(body.detail).toContain(`the role '${role}' does not allow`);
+        else expect(body.error).toContain(`your role (${role})`);
       }
     }
     expect(auditCount()).toBe(before);

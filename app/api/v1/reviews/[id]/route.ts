@@ -1,0 +1,8 @@
+import { guardRoute } from "@/app/guard";
+import { reviewForApi } from "@/lib/services/api";
+import { api } from "../../_lib/apiRoute";
+import { answered } from "../../_lib/params";
+
+export const dynamic = "force-dynamic";
+
+export const GET = guardRoute("read", api<{ id: string }>(async (_req, { params }) => Response.json(answered(await reviewForApi(params.id)))));
