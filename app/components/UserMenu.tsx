@@ -11,6 +11,7 @@ export function UserMenu({ actor, demo }: { actor: Actor; demo: boolean }) {
       <span className="role" data-testid="user-role">{actor.role}</span>
       {demo && <span className="badge demo" data-testid="demo-badge" title="a demo account: its password was printed in the start log">demo account</span>}
       {actor.role === "admin" && <Link href="/users">Users</Link>}
+      {actor.role === "admin" && <Link href="/tokens">API tokens</Link>}
       <SignOutButton />
     </div>
   );
