@@ -171,8 +171,8 @@ export async function runReviewFromApi(req: ReviewRequest, actor: Actor, waitMs 
   return { ok: true, value: { kind: "running", run: runJson(run) } };
 }
 
-export function runForApi(id: string): Answer<z.infer<typeof runSchema>> {
-  const r = getRun(id);
+export async function runForApi(id: string): Promise<Answer<z.infer<typeof runSchema>>> {
+  const r = await getRun(id);
   if (!r) return refuse(problem("not-found", `there is no run '${id}' in this server (runs are forgotten an hour after they end, or when the server restarts)`, { field: "id" }));
   return { ok: true, value: runJson(r) };
 }
