@@ -17,8 +17,7 @@ import { logOriginalDownload } from "../db/audit";
 import { auditAfter, reviewsAfter } from "../db/apiQueries";
 import { isDiskFull } from "../db/errors";
 import { importAndStoreTrace } from "./traces";
-import { signOff } from "./reviews";
-import { passwordMatches } from "./users";
+import { signReviewWithPassword } from "./signature";
 import { startReviewRun, waitForRun, getRun, type RunState } from "./runs";
 
 export type Answer<T> = { ok: true; value: T } | { ok: false; problem: Problem };
@@ -198,21 +197,28 @@ export async function auditForApi(after: number, limit: number): Promise<z.infer
 // --- sign-off ---------------------------------------------------------------------------------------
 
 /**
- * A signature through the API: the token identifies the signer (its owner) and the owner's password,
- * re-entered in the body, is the second component (two distinct identification components, as in
- * 21 CFR Part 11 §11.200). A token alone cannot sign; neither can the command line or the system.
+ * A signature through the API, with the same service as the review page (lib/services/signature.ts): the
+ * token names the signer (its owner) and the owner's password, re-entered in the body, is the second
+ * component (two distinct identification components, as in 21 CFR Part 11 §11.200); the stored inputs
+ * must still reproduce the review; a limit set's second-person rule holds. A token alone cannot sign.
  */
 export async function signOffFromApi(id: string, body: z.infer<typeof signOffRequestSchema>, actor: Actor): Promise<Answer<ReviewJson>> {
-  if (actor.kind !== "token" && actor.kind !== "user") return refuse(problem("forbidden", "only a person (a user, or a token acting for one) can sign"));
   if (!(await getReview(id))) return refuse(problem("not-found", `there is no review with id '${id}'`, { field: "id" }));
-  if (!(await passwordMatches(actor.userId, body.password))) {
-    return refuse(problem("signature-refused", `the password does not match ${actor.kind === "token" ? "the token owner's" : "yours"}; nothing was signed`, { field: "password" }));
-  }
-  const res = await signOff(id, { reviewer: actor.name, decision: body.decision, comment: body.comment }, actor);
+  const res = await signReviewWithPassword(id, body, actor, { tokenWithOwnerPassword: true });
   if (!res.ok) {
-    if (res.reason === "not-found") return refuse(problem("not-found", `there is no review with id '${id}'`, { field: "id" }));
-    if (res.reason === "signed") return refuse(problem("conflict", res.message));
-    return refuse(problem("signature-refused", res.message, { field: "comment" }));
+    switch (res.reason) {
+      case "not-found":
+        return refuse(problem("not-found", res.message, { field: "id" }));
+      case "not-a-user":
+        return refuse(problem("forbidden", res.message));
+      case "signed":
+      case "not-reproduced":
+        return refuse(problem("conflict", res.message));
+      case "password":
+        return refuse(problem("signature-refused", `the password does not match ${actor.kind === "token" ? "the token owner's" : "yours"}; nothing was signed`, { field: "password" }));
+      default:
+        return refuse(problem("signature-refused", res.message, res.field ? { field: res.field } : {}));
+    }
   }
   return reviewForApi(id);
 }

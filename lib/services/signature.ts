@@ -30,7 +30,7 @@ export type SignatureOutcome =
 async function runBy(reviewId: string): Promise<string | null> {
   const e = await lastAuditEntry(reviewId, "run");
   const a = (e?.details as { actor?: { kind?: string; user_id?: string } } | null)?.actor;
-  return a?.kind === "user" && a.user_id ? a.user_id : null;
+  return (a?.kind === "user" || a?.kind === "token") && a.user_id ? a.user_id : null;
 }
 
 /**
@@ -38,8 +38,10 @@ async function runBy(reviewId: string): Promise<string | null> {
  * the password, the second-person rule of the review's limit set, that the stored inputs still reproduce
  * the review; then the decision and comment rules (lib/db/reviews.ts signReview) in one transaction.
  */
-export async function signReviewWithPassword(reviewId: string, input: z.input<typeof signatureSchema>, actor: Actor): Promise<SignatureOutcome> {
-  if (actor.kind !== "user") return { ok: false, reason: "not-a-user", message: "a signature needs a signed-in person who re-enters their password; a token or a script cannot sign" };
+export async function signReviewWithPassword(reviewId: string, input: z.input<typeof signatureSchema>, actor: Actor, opts: { tokenWithOwnerPassword?: boolean } = {}): Promise<SignatureOutcome> {
+  // The HTTP API (POST /api/v1/reviews/{id}/sign-off) passes tokenWithOwnerPassword: the token names its
+  // owner and the owner's password is the second component; a token alone still cannot sign.
+  if (actor.kind !== "user" && !(opts.tokenWithOwnerPassword && actor.kind === "token")) return { ok: false, reason: "not-a-user", message: "a signature needs a signed-in person who re-enters their password; a token or a script cannot sign" };
   const s = signatureSchema.parse(input);
   if (!(await passwordMatches(actor.userId, s.password))) {
     return { ok: false, reason: "password", field: "password", message: "the password is wrong; the review was not signed" };
