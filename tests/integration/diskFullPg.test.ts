@@ -7,6 +7,9 @@ import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type RunningServer } from "../helpers/server";
 import { testDatabaseKind, testPgServer } from "../helpers/database";
+import { seedAccounts, signedInFetch } from "../helpers/accounts";
+
+const fetch = signedInFetch("reviewer");
 
 // A full disk on PostgreSQL (issue 14): the database lives in a tablespace on a 24 MB tmpfs, uploads go on
 // until it is full, and then the upload is refused with a clear 507, nothing partial is stored, the chain
@@ -48,6 +51,7 @@ beforeAll(async () => {
   process.env.CORELAG_SIGNING_KEY_FILE = path.join(dir, "key.pem");
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  seedAccounts(url);
   server = await startServer({ DATABASE_URL: url });
 }, 180_000);
 
