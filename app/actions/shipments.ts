@@ -3,7 +3,7 @@
 import { redirect } from "next/navigation";
 import { revalidatePath } from "next/cache";
 import { createShipmentFromForm, editLogger, registerLogger, signOffShipment, startShipmentReview } from "@/lib/services/shipments";
-import { signOffSchema } from "@/lib/services/reviews";
+import { signatureSchema } from "@/lib/services/signature";
 import { saveLaneProfile, buildLaneProfile, type HistoryRequest } from "@/lib/services/lanes";
 import { fieldErrors, formValues, textField, type FormState } from "@/lib/validation";
 import { waitForRun } from "@/lib/services/runs";
@@ -59,12 +59,14 @@ export const runShipmentAction = guardAction("review:run", async (actor, _prev: 
 });
 
 export const signShipmentAction = guardAction("review:sign", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
-  const values = formValues(form);
+  // never echo the password back into the form
+  const { password: _p, ...values } = formValues(form);
   const id = textField(form, "shipmentId") ?? "";
-  const parsed = signOffSchema.safeParse({ reviewer: textField(form, "reviewer") ?? "", decision: textField(form, "decision") ?? "", comment: textField(form, "comment") || undefined });
+  const parsed = signatureSchema.safeParse({ decision: textField(form, "decision") ?? "", comment: textField(form, "comment") || undefined, password: textField(form, "password") ?? "" });
   if (!parsed.success) return { fieldErrors: fieldErrors(parsed.error), values };
   const res = await signOffShipment(id, parsed.data, actor);
   if (!res.ok && res.reason === "comment-required") return { fieldErrors: { comment: res.message }, values };
+  if (!res.ok && res.reason === "password") return { fieldErrors: { password: res.message }, values };
   if (!res.ok) return { message: res.message, values };
   revalidatePath(`/shipments/${id}`);
   redirect(`/shipments/${id}`);

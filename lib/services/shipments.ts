@@ -10,9 +10,10 @@ import { getDefinition } from "../db/definitions";
 import { getTrace } from "../db/traces";
 import {
   addShipmentLoggers, createLane, createLogger, createShipment, getShipment, laneByName, loggersBySerial, newRunId, recordShipmentRun, signShipment, updateLogger,
-  type ShipmentLoggerInput,
+  type ShipmentLoggerInput, type ShipmentSignOutcome,
 } from "../db/shipments";
-import { newReviewOf, prepareReview, signOffSchema, type PreparedReview } from "./reviews";
+import { newReviewOf, prepareReview, type PreparedReview } from "./reviews";
+import { SIGNATURE_MEANING, signableProblem, signatureSchema, signerProblem, type SignatureOutcome } from "./signature";
 import { runReviewInPool } from "./enginePool";
 import { startShipmentRun, type RunState } from "./runs";
 import type { Actor } from "../access/actor";
@@ -270,8 +271,24 @@ export async function startShipmentReview(shipmentId: string, actor: Actor): Pro
   return { ok: true, run };
 }
 
-/** One sign-off for the shipment and every review of its latest run (the sign-off rules of a review apply to the shipment's outcome). */
-export async function signOffShipment(shipmentId: string, input: z.input<typeof signOffSchema>, actor: Actor) {
-  const s = signOffSchema.parse(input);
-  return signShipment(shipmentId, { reviewer: s.reviewer, decision: s.decision, comment: s.comment || undefined }, actor);
+/**
+ * One electronic signature for the shipment and every review of its latest run (issue 13's rules apply to
+ * each: a signed-in person re-entering their password, the second-person rule of each review's limit set,
+ * and every review still reproducing from its stored inputs; any refusal signs nothing).
+ */
+export async function signOffShipment(shipmentId: string, input: z.input<typeof signatureSchema>, actor: Actor): Promise<SignatureOutcome | ShipmentSignOutcome> {
+  const s = signatureSchema.parse(input);
+  const signer = await signerProblem(actor, s.password, "shipment");
+  if (signer) return signer;
+  const user = actor as Actor & { kind: "user" };
+  const shipment = await getShipment(shipmentId);
+  if (!shipment) return { ok: false, reason: "not-found", message: "that shipment does not exist" };
+  if (shipment.status === "signed") return { ok: false, reason: "signed", message: "this shipment is already signed off" };
+  for (const l of shipment.reviews) {
+    if (l.review.status === "signed") continue; // signed on its own before: that signature stands
+    const refusal = await signableProblem(l.reviewId, user);
+    if (refusal) return refusal;
+  }
+  const meaning = `${SIGNATURE_MEANING[s.decision]}, for shipment ${shipment.reference} as a whole`;
+  return signShipment(shipmentId, { reviewer: user.name, decision: s.decision, comment: s.comment || undefined, meaning }, actor);
 }

@@ -41,26 +41,43 @@ async function runBy(reviewId: string): Promise<string | null> {
 export async function signReviewWithPassword(reviewId: string, input: z.input<typeof signatureSchema>, actor: Actor, opts: { tokenWithOwnerPassword?: boolean } = {}): Promise<SignatureOutcome> {
   // The HTTP API (POST /api/v1/reviews/{id}/sign-off) passes tokenWithOwnerPassword: the token names its
   // owner and the owner's password is the second component; a token alone still cannot sign.
-  if (actor.kind !== "user" && !(opts.tokenWithOwnerPassword && actor.kind === "token")) return { ok: false, reason: "not-a-user", message: "a signature needs a signed-in person who re-enters their password; a token or a script cannot sign" };
+  if (actor.kind !== "user" && !(opts.tokenWithOwnerPassword && actor.kind === "token")) return notAUser();
   const s = signatureSchema.parse(input);
-  if (!(await passwordMatches(actor.userId, s.password))) {
-    return { ok: false, reason: "password", field: "password", message: "the password is wrong; the review was not signed" };
-  }
+  if (!(await passwordMatches(actor.userId, s.password))) return wrongPassword("review");
+  const refusal = await signableProblem(reviewId, actor);
+  if (refusal) return refusal;
+  const res: ReviewChange = await signReview(reviewId, { reviewer: actor.name, decision: s.decision, comment: s.comment || undefined, meaning: SIGNATURE_MEANING[s.decision] }, actor);
+  if (!res.ok) return { ok: false, reason: res.reason, message: res.message, ...(res.reason === "comment-required" ? { field: "comment" as const } : {}) };
+  return { ok: true };
+}
+
+const notAUser = (): SignatureOutcome => ({ ok: false, reason: "not-a-user", message: "a signature needs a signed-in person who re-enters their password; a token or a script cannot sign" });
+const wrongPassword = (what: string): SignatureOutcome => ({ ok: false, reason: "password", field: "password", message: `the password is wrong; the ${what} was not signed` });
+
+/** The identification components of a signature: a signed-in person and their password, re-entered. */
+export async function signerProblem(actor: Actor, password: string, what: string): Promise<SignatureOutcome | null> {
+  if (actor.kind !== "user") return notAUser();
+  return (await passwordMatches(actor.userId, password)) ? null : wrongPassword(what);
+}
+
+/**
+ * Why `actor` may not sign this review now, or null: it is missing or signed, the second-person rule of
+ * its limit set, or its stored inputs no longer reproduce it (re-checked here; the re-check is recorded).
+ */
+export async function signableProblem(reviewId: string, actor: Extract<Actor, { kind: "user" | "token" }>): Promise<SignatureOutcome | null> {
   const review = await getReview(reviewId);
   if (!review) return { ok: false, reason: "not-found", message: "that review does not exist" };
   if (review.status === "signed") return { ok: false, reason: "signed", message: "this review is already signed off; a correction is a new review" };
   const limits = review.limits.body as { second_person_review?: boolean };
   if (limits.second_person_review && (await runBy(reviewId)) === actor.userId) {
-    return { ok: false, reason: "second-person", message: `the limit set "${review.limits.name}" asks for second-person review: someone other than the person who ran this review must sign it` };
+    return { ok: false, reason: "second-person", message: `the limit set "${review.limits.name}" asks for second-person review: someone other than the person who ran "${review.title}" must sign it` };
   }
   const check = await recheckReview(reviewId, actor);
   if (!check.ok) return { ok: false, reason: "not-found", message: check.message };
   if (!check.check.reproduced) {
-    return { ok: false, reason: "not-reproduced", message: `the stored inputs no longer reproduce this review, so it cannot be signed (re-check recorded as audit entry ${check.seq}): ${check.check.problems.slice(0, 3).join("; ")}` };
+    return { ok: false, reason: "not-reproduced", message: `the stored inputs no longer reproduce "${review.title}", so it cannot be signed (re-check recorded as audit entry ${check.seq}): ${check.check.problems.slice(0, 3).join("; ")}` };
   }
-  const res: ReviewChange = await signReview(reviewId, { reviewer: actor.name, decision: s.decision, comment: s.comment || undefined, meaning: SIGNATURE_MEANING[s.decision] }, actor);
-  if (!res.ok) return { ok: false, reason: res.reason, message: res.message, ...(res.reason === "comment-required" ? { field: "comment" as const } : {}) };
-  return { ok: true };
+  return null;
 }
 
 /** Who may sign a review, in words for the page: the second-person rule and the signer's role. */

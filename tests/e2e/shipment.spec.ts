@@ -4,6 +4,7 @@ import os from "node:os";
 import path from "node:path";
 import { saveLumpedProduct } from "./helpers/seedDefinitions";
 import { loggerCsv } from "../fixtures/shipment";
+import { TEST_PASSWORD } from "./helpers/auth";
 
 // Issue 15 end to end: create a shipment with four loggers, drop four files at once, confirm the proposed
 // matching (two by serial, two by file name) with the accuracy of the new serials, run the shipment review,
@@ -94,14 +95,18 @@ test("a shipment: create, drop 4 files, confirm matching, run, matrix, sign off,
   await page.getByTestId("load-chart").screenshot({ path: "test-results/shipment-small-multiples.png" });
 
   // one sign-off for the load
-  await page.locator("#s-reviewer").fill("Dana Ruiz");
+  await expect(page.getByTestId("signing-as")).toContainText("Ilse Admin (demo)");
   await page.locator("#s-decision").selectOption("accept");
+  await page.locator("#s-password").fill("not-the-password");
+  await page.getByTestId("sign-shipment").click();
+  await expect(page.getByTestId("error-password")).toHaveText("the password is wrong; the shipment was not signed");
+  await page.locator("#s-password").fill(TEST_PASSWORD);
   await page.getByTestId("sign-shipment").click();
   await expect(page.getByTestId("error-comment")).toContainText("needs a comment");
   await expect(page.locator("#s-decision")).toHaveValue("accept");
   await page.locator("#s-decision").selectOption("reject");
   await page.getByTestId("sign-shipment").click();
-  await expect(page.getByTestId("shipment-status")).toContainText("signed off by Dana Ruiz");
+  await expect(page.getByTestId("shipment-status")).toContainText("signed off by Ilse Admin (demo)");
   await expect(page.getByTestId("shipment-status")).toContainText("decision reject");
   await expect(page.getByTestId("run-shipment")).toHaveCount(0);
   // every review in it is signed

@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { loggerCsv, LIMITS, TRAY, CUP } from "../fixtures/shipment";
 import { testDatabaseUrl } from "../helpers/database";
 import { TEST_ACTOR } from "../helpers/accounts";
+import type { Actor } from "../../lib/access/actor";
 
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-ship-int-"));
 const url = testDatabaseUrl(dir, "ship.db");
@@ -204,11 +205,24 @@ describe("logger register in a shipment review", () => {
     expect(after.outcome).toBe("hold");
 
     // a decision other than the suggestion needs a comment; then one sign-off signs the shipment and both reviews
-    expect(await signOffShipment(made.shipmentId, { reviewer: "Test Reviewer", decision: "accept" }, TEST_ACTOR)).toMatchObject({ ok: false, reason: "comment-required" });
-    expect(await signOffShipment(made.shipmentId, { reviewer: "Test Reviewer", decision: "hold", comment: "recalibrate SN-1006" }, TEST_ACTOR)).toEqual({ ok: true });
+    // the signature is a signed-in person re-entering their password (issue 13): a script, a wrong password
+    // or a decision other than the suggestion without a comment signs nothing
+    const { addUser } = await import("@/lib/services/users");
+    const added = await addUser({ email: "dana@example.com", name: "Dana Reviewer", role: "reviewer", password: "dana-password-789" }, TEST_ACTOR);
+    if (!added.ok) throw new Error(added.message);
+    const dana: Actor = { kind: "user", userId: added.user.id, name: added.user.name, email: added.user.email, role: "reviewer" };
+    expect(await signOffShipment(made.shipmentId, { decision: "hold", comment: "recalibrate SN-1006", password: "dana-password-789" }, TEST_ACTOR)).toMatchObject({ ok: false, reason: "not-a-user" });
+    expect(await signOffShipment(made.shipmentId, { decision: "hold", comment: "recalibrate SN-1006", password: "not-her-password" }, dana)).toMatchObject({ ok: false, reason: "password" });
+    expect(await signOffShipment(made.shipmentId, { decision: "accept", password: "dana-password-789" }, dana)).toMatchObject({ ok: false, reason: "comment-required" });
+    expect((await getShipment(made.shipmentId))!.status).toBe("open");
+    expect(await signOffShipment(made.shipmentId, { decision: "hold", comment: "recalibrate SN-1006", password: "dana-password-789" }, dana)).toEqual({ ok: true });
     const signed = (await getShipment(made.shipmentId))!;
-    expect(signed).toMatchObject({ status: "signed", decision: "hold", signedBy: "Test Reviewer" });
+    expect(signed).toMatchObject({ status: "signed", decision: "hold", signedBy: "Dana Reviewer" });
+    expect(signed.signMeaning).toContain("Held");
     for (const l of signed.reviews) expect(l.review).toMatchObject({ status: "signed", decision: "hold" });
+    // each review was re-checked before it was signed, and the re-check is in the audit log
+    const { lastAuditEntry } = await import("@/lib/db/auditQueries");
+    for (const l of signed.reviews) expect((await lastAuditEntry(l.reviewId, "verify"))?.details).toMatchObject({ reproduced: true });
     // the database keeps it final
     const { db } = await import("@/lib/db/client");
     await expect(db.shipment.update({ where: { id: made.shipmentId }, data: { notes: "changed" } })).rejects.toThrow();

@@ -5,6 +5,7 @@ import { displayZone } from "@/app/displayZone";
 import { formatTime } from "@/lib/display/time";
 import { BatchUpload } from "./BatchUpload";
 import { RunShipmentButton, ShipmentSignOff } from "./ShipmentForms";
+import { can, pageActor } from "@/app/guard";
 import { LoadChartCard, OutcomeCard, RuleMatrix, ShipmentCautions, ShipmentHeader, WorstExcursions, loggerLabel, productNames } from "./parts";
 
 export const dynamic = "force-dynamic";
@@ -14,6 +15,10 @@ export default async function ShipmentPage({ params }: { params: Promise<{ id: s
   const s = await getShipment(id);
   if (!s) notFound();
   const zone = await displayZone();
+  const actor = await pageActor();
+  const mayEdit = can(actor, "shipment:edit");
+  const mayRun = can(actor, "review:run");
+  const maySign = can(actor, "review:sign") && actor.kind === "user";
   const names = await productNames(s);
   const allTraces = s.loggers.length > 0 && s.loggers.every((l) => l.traceId);
   return (
@@ -42,7 +47,10 @@ export default async function ShipmentPage({ params }: { params: Promise<{ id: s
           </tbody>
         </table>
       </section>
-      {s.status === "open" && (
+      {s.status === "open" && !mayEdit && (
+        <p className="muted no-print" data-testid="read-only">Open for review. Your role reads this shipment; a reviewer uploads its files, runs it and signs it off.</p>
+      )}
+      {s.status === "open" && mayEdit && (
         <>
           <section className="card no-print">
             <h2 style={{ marginTop: 0 }}>Upload the loggers&apos; files</h2>
@@ -50,7 +58,9 @@ export default async function ShipmentPage({ params }: { params: Promise<{ id: s
           </section>
           <section className="card no-print">
             <h2 style={{ marginTop: 0 }}>Shipment review</h2>
-            {allTraces ? (
+            {!mayRun ? (
+              <p className="muted">Your role cannot run reviews.</p>
+            ) : allTraces ? (
               <>
                 <p className="muted">Runs every logger × product review ({s.loggers.reduce((n, l) => n + l.products.length, 0)} in all) in the background, then gives the load its outcome.</p>
                 <RunShipmentButton shipmentId={id} again={!!s.outcome} />
@@ -62,7 +72,11 @@ export default async function ShipmentPage({ params }: { params: Promise<{ id: s
           {s.outcome && (
             <section className="card no-print">
               <h2 style={{ marginTop: 0 }}>Sign off</h2>
-              <ShipmentSignOff shipmentId={id} suggested={s.outcome as "accept" | "hold" | "reject"} reviews={s.reviews.length} />
+              {maySign && actor.kind === "user" ? (
+                <ShipmentSignOff shipmentId={id} suggested={s.outcome as "accept" | "hold" | "reject"} reviews={s.reviews.length} signer={{ name: actor.name, email: actor.email }} />
+              ) : (
+                <p className="muted" data-testid="cannot-sign">Your role cannot sign off; a reviewer or an administrator signs.</p>
+              )}
             </section>
           )}
         </>
