@@ -12,8 +12,8 @@ export const TRACE_BODY_LIMIT_BYTES = 201 * MB;
 const tooLarge = (limit: number) =>
   new ApiProblem(problem("too-large", `the body is over ${limit / MB} MB; at most ${limit / MB} MB can be sent here. Nothing was stored.`));
 
-/** The whole body, or an ApiProblem 413 once more than `limit` bytes arrived. */
-export async function readBounded(body: ReadableStream<Uint8Array> | null, limit: number): Promise<Uint8Array<ArrayBuffer>> {
+/** The whole body, or null as soon as more than `limit` bytes arrived (the rest is not read). */
+export async function boundedBody(body: ReadableStream<Uint8Array> | null, limit: number): Promise<Uint8Array<ArrayBuffer> | null> {
   if (!body) return new Uint8Array(new ArrayBuffer(0));
   const reader = body.getReader();
   const chunks: Uint8Array[] = [];
@@ -24,7 +24,7 @@ export async function readBounded(body: ReadableStream<Uint8Array> | null, limit
     total += value.byteLength;
     if (total > limit) {
       await reader.cancel();
-      throw tooLarge(limit);
+      return null;
     }
     chunks.push(value);
   }
@@ -34,6 +34,13 @@ export async function readBounded(body: ReadableStream<Uint8Array> | null, limit
     out.set(c, at);
     at += c.byteLength;
   }
+  return out;
+}
+
+/** The whole body, or an ApiProblem 413 once more than `limit` bytes arrived. */
+export async function readBounded(body: ReadableStream<Uint8Array> | null, limit: number): Promise<Uint8Array<ArrayBuffer>> {
+  const out = await boundedBody(body, limit);
+  if (!out) throw tooLarge(limit);
   return out;
 }
 

@@ -1,6 +1,7 @@
 import { importAndStoreTrace } from "@/lib/services/traces";
 import { importOptionsSchema } from "@/lib/trace/settings";
 import { guardRoute } from "@/app/guard";
+import { boundedBody } from "@/lib/api/body";
 
 export const dynamic = "force-dynamic";
 
@@ -9,41 +10,13 @@ const MAX_BYTES = 200 * 1024 * 1024;
 const MAX_BODY_BYTES = 201 * 1024 * 1024;
 
 /**
- * The request body, read as it arrives and abandoned as soon as it passes the limit: a body sent
- * without a Content-Length (chunked) gets past proxy.ts's check and must not be read whole first.
- */
-async function boundedBody(req: Request): Promise<Uint8Array<ArrayBuffer> | null> {
-  if (!req.body) return new Uint8Array(new ArrayBuffer(0));
-  const reader = req.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let total = 0;
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    total += value.byteLength;
-    if (total > MAX_BODY_BYTES) {
-      await reader.cancel();
-      return null;
-    }
-    chunks.push(value);
-  }
-  const body = new Uint8Array(new ArrayBuffer(total));
-  let at = 0;
-  for (const c of chunks) {
-    body.set(c, at);
-    at += c.byteLength;
-  }
-  return body;
-}
-
-/**
  * Upload of a logger file (multipart: file, name, options as JSON). The browser has already shown a
  * preview with the same import code; the server repeats the import with the chosen options and is
  * the authority. 201 with the trace id, 422 with the message naming the first problem, or 507 when
  * the server's disk is full (nothing stored).
  */
 export const POST = guardRoute("trace:import", async (req: Request, _ctx: unknown, actor) => {
-  const body = await boundedBody(req);
+  const body = await boundedBody(req.body, MAX_BODY_BYTES);
   if (!body) return Response.json({ error: `the upload is over ${MAX_BODY_BYTES / 1048576} MB; at most ${MAX_BODY_BYTES / 1048576} MB can be sent. Nothing was stored.` }, { status: 413 });
   let form: FormData;
   try {

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { boundedBody } from "@/app/api/bodyLimit";
+import { boundedBody } from "@/lib/api/body";
 import { batchOptionsSchema, previewBatch, storeBatch, storeBatchSchema, type UploadedFile } from "@/lib/services/batch";
 import { guardRoute } from "@/app/guard";
 
@@ -19,7 +19,7 @@ export const POST = guardRoute("trace:import", async (req: Request, ctx: { param
   const { id } = await ctx.params;
   const mode = modeSchema.safeParse(new URL(req.url).searchParams.get("mode"));
   if (!mode.success) return Response.json({ error: mode.error.issues[0]!.message }, { status: 400 });
-  const body = await boundedBody(req, MAX_BODY_BYTES);
+  const body = await boundedBody(req.body, MAX_BODY_BYTES);
   if (!body) return Response.json({ error: `the batch is over ${MAX_BODY_BYTES / 1048576} MB; send fewer files at once. Nothing was stored.` }, { status: 413 });
   let form: FormData;
   try {
