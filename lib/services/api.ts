@@ -164,7 +164,8 @@ export async function runReviewFromApi(req: ReviewRequest, actor: Actor, waitMs 
     const notFound = / does not exist$/.test(started.message) && field !== undefined;
     return refuse(problem(notFound ? "not-found" : "invalid-request", field ? `body field '${field}': ${started.message}` : started.message, field ? { field } : {}));
   }
-  const run = (await waitForRun(started.run.id, waitMs)) ?? started.run;
+  // waitMs 0 (Prefer: respond-async) answers with the run as it started, even when a short run has already ended
+  const run = waitMs > 0 ? ((await waitForRun(started.run.id, waitMs)) ?? started.run) : started.run;
   if (run.status === "done" && run.reviewId) return { ok: true, value: { kind: "stored", review: reviewJson((await getReview(run.reviewId))!) } };
   if (run.status === "failed") return refuse(problem("invalid-request", run.message ?? "the run failed"));
   return { ok: true, value: { kind: "running", run: runJson(run) } };
