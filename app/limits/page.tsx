@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { WriteGate } from "@/app/components/WriteGate";
 import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
 import type { LimitSet } from "@/lib/exposure/limits";
 import { LIMIT_TEMPLATES } from "@/lib/exposure/templates";
@@ -36,11 +37,13 @@ export default async function LimitsPage({ searchParams }: { searchParams: Promi
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>{editing ? `Edit ${editing.name}` : "New limit set"}</h2>
+        <WriteGate permission="definition:edit">
         <LimitSetEditor
           key={editing?.id ?? "new"}
           templates={LIMIT_TEMPLATES}
           editing={editing && editing.kind === "limits" ? { id: editing.id, lineage: editing.lineage, version: editing.version, body: editing.body } : undefined}
         />
+        </WriteGate>
       </section>
     </>
   );

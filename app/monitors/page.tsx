@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { WriteGate } from "@/app/components/WriteGate";
 import { listMonitors, openAlertList } from "@/lib/db/monitors";
 import { listLatestDefinitions } from "@/lib/db/definitions";
 import { displayZone } from "@/app/displayZone";
@@ -63,7 +64,9 @@ export default async function MonitorsPage() {
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>Create a monitor</h2>
+        <WriteGate permission="monitor:edit">
         <MonitorForm products={products.map(opt)} packs={packs.map(opt)} limits={limits.map(opt)} />
+        </WriteGate>
       </section>
     </>
   );

@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { WriteGate } from "@/app/components/WriteGate";
 import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
 import type { Pack } from "@/lib/thermal/definitions";
 import { PackEditor } from "./PackEditor";
@@ -36,7 +37,7 @@ export default async function PacksPage({ searchParams }: { searchParams: Promis
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>{editing ? `Edit ${editing.name}` : "Define a pack"}</h2>
-        <PackEditor key={editing?.id ?? "new"} editing={editing && editing.kind === "pack" ? { id: editing.id, lineage: editing.lineage, version: editing.version, body: editing.body } : undefined} />
+        <WriteGate permission="definition:edit"><PackEditor key={editing?.id ?? "new"} editing={editing && editing.kind === "pack" ? { id: editing.id, lineage: editing.lineage, version: editing.version, body: editing.body } : undefined} /></WriteGate>
       </section>
     </>
   );

@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { WriteGate } from "@/app/components/WriteGate";
 import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
 import { productSchema, type Pack, type Product } from "@/lib/thermal/definitions";
 import { screenDefinition } from "@/lib/thermal/predict";
@@ -53,11 +54,13 @@ export default async function ProductsPage({ searchParams }: { searchParams: Pro
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>{editing ? `Edit ${editing.name}` : "Define a product"}</h2>
+        <WriteGate permission="definition:edit">
         <ProductEditor
           key={editing?.id ?? "new"}
           editing={editing && editing.kind === "product" ? { id: editing.id, lineage: editing.lineage, version: editing.version, body: editing.body } : undefined}
           packs={packs.map((p) => ({ id: p.id, name: `${p.name} v${p.version}`, body: p.body }))}
         />
+        </WriteGate>
       </section>
     </>
   );

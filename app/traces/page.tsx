@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { WriteGate } from "@/app/components/WriteGate";
 import { searchTraces } from "@/lib/db/traces";
 import { Pager, SearchBox } from "@/app/components/Pager";
 import { listParamsSchema, nonEmpty } from "@/app/components/listParams";
@@ -17,7 +18,7 @@ export default async function TracesPage({ searchParams }: { searchParams: Promi
       <h1>Traces</h1>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>Upload a logger file</h2>
-        <TraceUploader />
+        <WriteGate permission="trace:import"><TraceUploader /></WriteGate>
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>Stored traces</h2>

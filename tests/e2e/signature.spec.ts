@@ -22,7 +22,7 @@ test.describe("as the reviewer", () => {
     await page.goto(`/reviews/new?trace=${traceId}`);
     await page.getByLabel("Title").fill("Signature check");
     await page.locator("#f-productId").selectOption({ label: "Signature tray v1" });
-    await page.locator("#f-limitsId").selectOption({ index: 1 });
+    await page.locator("#f-limitsId").selectOption({ label: "Chilled food, 5 °C / 4 h (from template) v1" });
     await page.getByRole("button", { name: "Run review" }).click();
     await expect(page.getByRole("heading", { name: "Review: Signature check" })).toBeVisible();
     reviewUrl = page.url().split(/[?#]/)[0]!;
@@ -64,6 +64,12 @@ test.describe("as the auditor", () => {
     expect((await request.get(`${reviewUrl}/export/findings.csv`)).status()).toBe(200);
     await page.goto("/traces");
     await page.screenshot({ path: "test-results/e2e-auditor-traces.png", fullPage: true });
+    // no page offers the auditor a control its role cannot use: each says who can instead
+    for (const url of ["/traces", "/reviews/new", "/products", "/packs", "/limits", "/design/profiles", "/monitors"]) {
+      await page.goto(url);
+      await expect(page.getByTestId("read-only").first(), url).toContainText("Your role (auditor) reads this page");
+      await expect(page.locator("main form:not([role=search]) button[type=submit]"), url).toHaveCount(0);
+    }
     const res = await request.post("/api/traces", { multipart: { file: { name: "x.csv", mimeType: "text/csv", buffer: Buffer.from("time,air_C\n2026-06-16T00:00:00Z,4\n2026-06-16T00:10:00Z,5\n") }, options: "{}" } });
     expect(res.status()).toBe(403);
     expect(((await res.json()) as { error: string }).error).toContain("your role (auditor)");

@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { WriteGate } from "@/app/components/WriteGate";
 import { getDefinition, listLatestDefinitions } from "@/lib/db/definitions";
 import { EXAMPLE_PROFILES, profileSeries, profileSchema, type Profile } from "@/lib/design/profile";
 import { readableDuration } from "@/lib/thermal/screening";
@@ -40,11 +41,13 @@ export default async function ProfilesPage({ searchParams }: { searchParams: Pro
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>{editing ? `Edit ${editing.name}` : "New profile"}</h2>
+        <WriteGate permission="definition:edit">
         <ProfileEditor
           key={editing?.id ?? "new"}
           examples={EXAMPLE_PROFILES}
           editing={editing && editing.kind === "profile" ? { id: editing.id, lineage: editing.lineage, version: editing.version, body: editing.body } : undefined}
         />
+        </WriteGate>
       </section>
     </>
   );

@@ -1,4 +1,5 @@
 import { listTraces } from "@/lib/db/traces";
+import { WriteGate } from "@/app/components/WriteGate";
 import { listLatestDefinitions, getDefinition } from "@/lib/db/definitions";
 import { getReview } from "@/lib/db/reviews";
 import { ReviewForm } from "./ReviewForm";
@@ -23,6 +24,7 @@ export default async function NewReviewPage({ searchParams }: { searchParams: Pr
       <h1>{corrects ? "Correct a review" : "New review"}</h1>
       <section className="card">
         <p className="muted">The model predicts the product&apos;s core, surface and mean temperatures through the trace (lumped capacitance, or 1-D conduction when the Biot number calls for it); the limit set&apos;s rules are then judged on those channels and on the air.</p>
+        <WriteGate permission="review:run">
         <ReviewForm
           traces={traces.map((t) => ({ id: t.id, label: `${t.name} (${t.sampleCount} samples)` }))}
           products={(await withVersion(products, q.product)).map(opt)}
@@ -30,6 +32,7 @@ export default async function NewReviewPage({ searchParams }: { searchParams: Pr
           limits={(await withVersion(limits, q.limits)).map(opt)}
           initial={{ trace: q.trace, product: q.product, pack: q.pack, limits: q.limits, model: q.model, corrects: corrects ? { id: corrects.id, title: corrects.title } : undefined }}
         />
+        </WriteGate>
       </section>
     </>
   );
