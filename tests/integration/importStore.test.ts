@@ -31,7 +31,12 @@ describe("importAndStoreTrace", () => {
     expect(refused.length).toBeGreaterThanOrEqual(30);
     for (const f of refused) {
       const res = await importAndStoreTrace(readFileSync(path.join(CORPUS, "bad", f)), { fileName: f, options: {} }, TEST_ACTOR);
-      expect(res).toEqual({ ok: false, message: `${f}: ${expected[`bad/${f}`]!.refused}. Nothing was stored.` });
+      const message = `${f}: ${expected[`bad/${f}`]!.refused}. Nothing was stored.`;
+      expect(res).toMatchObject({ ok: false, message });
+      // the row and column at fault travel with the refusal (the v1 API names them), and agree with the message
+      const at = res as { row?: number; column?: string };
+      if (at.row !== undefined) expect(message).toContain(`row ${at.row}`);
+      if (at.column !== undefined) expect(message).toContain(at.column);
     }
     expect(await db.trace.count()).toBe(0);
     expect(await db.auditEntry.count()).toBe(0);
