@@ -101,10 +101,14 @@ describe(`SIGKILL mid-write on ${kind}`, () => {
     const res = await fetch(`${server.url}/api/runs`, {
       method: "POST",
       headers: { "content-type": "application/json" },
-      body: JSON.stringify({ title: "killed run", ...ids, model: "lumped", uncertainty: { inputs: [{ path: "product.mass_kg", plusminus: 10, percent: true, distribution: "normal" }], samples: 2_000, seed: 1 } }),
+      body: JSON.stringify({ title: "killed run", ...ids, model: "lumped", uncertainty: { inputs: [{ path: "product.mass_kg", plusminus: 10, percent: true, distribution: "normal" }], samples: 20_000, seed: 1 } }),
     });
     expect(res.status).toBe(202);
+    // 20,000 samples × ~20,000 readings (4e8 exact lumped steps, under the 5e8 cap) take many seconds even on
+    // a quiet machine: the kill lands mid-run, which the run's own status confirms just before it
+    const { status_url } = (await res.json()) as { status_url: string };
     await sleep(1500);
+    expect(((await (await fetch(`${server.url}${status_url}`)).json()) as { status: string }).status).toBe("running");
     await server.kill();
     const after = await afterRestartAllIsWhole();
     const { db } = await import("@/lib/db/client");
