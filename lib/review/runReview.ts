@@ -3,7 +3,7 @@ import { predict, type ScreeningResult, type SolverReport } from "../thermal/pre
 import { readableDuration } from "../thermal/screening";
 import type { ModelChoice, Pack, Product } from "../thermal/definitions";
 import { isConsequenceRule, isThresholdRule, ruleChannel, type Channel, type LimitSet } from "../exposure/limits";
-import { judgeConsequenceRule, ruleModel, unmatchedConsequenceRule } from "../exposure/consequenceRules";
+import { judgeConsequenceRule, ruleModel, unmatchedConsequenceRule, type ConsequenceRuleFinding } from "../exposure/consequenceRules";
 import { evaluateConsequence, CURVE_POINTS, type ConsequenceEstimate } from "../consequence/evaluate";
 import { CONSEQUENCE_CAUTIONS } from "../consequence/cautions";
 import type { ConsequenceModel } from "../consequence/definitions";
@@ -128,21 +128,9 @@ export interface ReviewResult {
   /** growth and shelf-life estimates, when the product has models or the limit set has consequence rules */
   consequences?: ConsequenceResult[];
   /** growth and shelf-life rules, judged like the threshold rules */
-  consequence_rules?: Array<{
-    id: string;
-    kind: "growth" | "shelf_life";
-    model: string;
-    channel: string;
-    quantity: "log10_increase" | "shelf_life_consumed_percent";
-    limit: number;
-    central: number;
-    lower: number;
-    upper: number;
-    guard_K: number;
+  consequence_rules?: Array<Omit<ConsequenceRuleFinding, "reached_at_s"> & {
     /** when the central estimate reaches the limit, or null */
     reached_at: string | null;
-    status: "pass" | "fail" | "inconclusive";
-    reason: string;
   }>;
   outcome: Outcome;
   cautions: string[];
