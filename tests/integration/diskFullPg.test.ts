@@ -11,10 +11,13 @@ import { seedAccounts, signedInFetch } from "../helpers/accounts";
 
 const fetch = signedInFetch("reviewer");
 
-// A full disk on PostgreSQL (issue 14): the database lives in a tablespace on a 24 MB tmpfs, uploads go on
-// until it is full, and then the upload is refused with a clear 507, nothing partial is stored, the chain
-// still verifies and the app keeps answering. Needs root (mount) and the test server on this machine; skipped
-// otherwise, saying why. (SQLite's full disk: tests/integration/diskFull.test.ts.)
+// A full disk on PostgreSQL (issue 14): the table of stored traces (with its TOAST data, where the file bytes
+// go) lives in a tablespace on a 24 MB tmpfs, uploads go on until it is full, and then the upload is refused
+// with a clear 507, nothing partial is stored, the chain still verifies and the app keeps answering. Only that
+// table moves: with the whole database on the tmpfs, a connection opened after the disk filled could fail
+// while writing PostgreSQL's own catalog cache file ("could not write init file"), which tests the server's
+// start-up, not Corelag. Needs root (mount) and the test server on this machine; skipped otherwise, saying
+// why. (SQLite's full disk: tests/integration/diskFull.test.ts.)
 const reason =
   testDatabaseKind() !== "postgres" ? "runs on PostgreSQL only (npm run test:pg)"
   : userInfo().uid !== 0 ? "needs root to mount a small tmpfs"
@@ -42,7 +45,7 @@ beforeAll(async () => {
   const c = admin();
   await c.connect();
   await c.query(`CREATE TABLESPACE ${name} LOCATION '${mountPoint}'`);
-  await c.query(`CREATE DATABASE ${name} TABLESPACE ${name}`);
+  await c.query(`CREATE DATABASE ${name}`);
   await c.end();
   const u = new URL(testPgServer()!);
   u.pathname = `/${name}`;
@@ -51,6 +54,10 @@ beforeAll(async () => {
   process.env.CORELAG_SIGNING_KEY_FILE = path.join(dir, "key.pem");
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  const t = new pg.Client({ connectionString: url });
+  await t.connect();
+  await t.query(`ALTER TABLE "Trace" SET TABLESPACE ${name}`);
+  await t.end();
   seedAccounts(url);
   server = await startServer({ DATABASE_URL: url });
 }, 180_000);
