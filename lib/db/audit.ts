@@ -14,6 +14,8 @@ export interface AuditEvent {
     | "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel" | "readings" | "raise" | "clear" | "deliver" | "close"
     // accounts (issue 13): a sign-in, a refused one, a sign-out; a user's role changed, disabled or enabled
     | "sign-in" | "sign-in-refused" | "sign-out" | "set-role" | "disable" | "enable"
+    // a signature refused for its password (wrong, or the account locked); counts toward the sign-in lockout
+    | "signature-refused"
     // API tokens (issue 13): a token revoked
     | "revoke";
   /** "run": a background run that stored nothing (cancelled); its entityId is the run's id. "chain": a full check of the chain (entityId: the head checked). "user": an account (its id, or the e-mail typed when it names no user) */

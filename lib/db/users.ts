@@ -134,7 +134,7 @@ export async function clearSignInFailures(email: string): Promise<void> {
   await db.signInFailure.deleteMany({ where: { email: email.toLowerCase() } });
 }
 
-/** Audit entries of the session life: "sign-in", "sign-in-refused" (entity id: the user's, or the address typed), "sign-out". */
-export async function logSessionEvent(action: "sign-in" | "sign-in-refused" | "sign-out", entityId: string, actor: Actor, details: Record<string, unknown>): Promise<void> {
+/** Audit entries of the session life: "sign-in", "sign-in-refused" (entity id: the user's, or the address typed), "sign-out", "signature-refused". */
+export async function logSessionEvent(action: "sign-in" | "sign-in-refused" | "sign-out" | "signature-refused", entityId: string, actor: Actor, details: Record<string, unknown>): Promise<void> {
   await db.$transaction((tx) => appendAudit(tx, { action, entity: "user", entityId, actor, details }));
 }

@@ -7,6 +7,7 @@ import { actorAllows, type Actor } from "../access/actor";
 import { ROLES, rolesAllowing, type Permission, type Role } from "../access/roles";
 import { authFor, SESSION_ABSOLUTE_S } from "../db/auth";
 import { actorFromAuthorization } from "./apiTokens";
+import { passwordMatches } from "./users";
 import { clearSignInFailures, deleteSession, logSessionEvent, recordSignInFailure, signInFailuresSince, userByEmail, userById } from "../db/users";
 
 /** Lockout: 5 refused sign-ins for one account within 15 minutes lock it for 15 minutes after the last one. */
@@ -153,6 +154,37 @@ export async function signIn(input: { email: string; password: string }, headers
   const actor = { kind: "user" as const, userId: user!.id, name: user!.name, email: user!.email, role };
   await logSessionEvent("sign-in", actor.userId, actor, { address });
   return { ok: true, actor };
+}
+
+/** Failures at signing are counted under this "address": they lock the account, never a network address. */
+export const SIGNATURE_FAILURE_ADDRESS = "signature";
+
+export type Reauthentication = { ok: true } | { ok: false; locked: boolean; message: string };
+
+/**
+ * The password re-entered for an electronic signature, checked like a sign-in: a wrong one counts toward the
+ * account's lockout (so a signature form cannot be used to guess a password when a session is left open), a
+ * locked account cannot sign even with the right one, and each refusal is audited. A right one clears nothing:
+ * only a successful sign-in resets the count.
+ */
+export async function reauthenticate(userId: string, password: string): Promise<Reauthentication> {
+  const user = await userById(userId);
+  if (!user) return { ok: false, locked: false, message: "the signer's account does not exist" };
+  const since = new Date(Date.now() - LOCKOUT_WINDOW_S * 1000);
+  const f = await signInFailuresSince(user.email, SIGNATURE_FAILURE_ADDRESS, since);
+  const system: Actor = { kind: "system", what: "signature" };
+  if (f.byAccount >= ACCOUNT_FAILURE_LIMIT && f.lastAccountAt) {
+    const until = new Date(f.lastAccountAt.getTime() + LOCKOUT_WINDOW_S * 1000);
+    await logSessionEvent("signature-refused", user.id, system, { email: user.email, reason: "locked" });
+    return { ok: false, locked: true, message: `this account is locked after ${ACCOUNT_FAILURE_LIMIT} wrong passwords; nothing was signed. Try again after ${untilText(until)}, or ask an administrator` };
+  }
+  if (await passwordMatches(user.id, password)) return { ok: true };
+  await recordSignInFailure(user.email, SIGNATURE_FAILURE_ADDRESS);
+  await logSessionEvent("signature-refused", user.id, system, { email: user.email, reason: "wrong-password" });
+  const left = ACCOUNT_FAILURE_LIMIT - f.byAccount - 1;
+  return left > 0
+    ? { ok: false, locked: false, message: `the password is wrong; nothing was signed (${left} more wrong password${left === 1 ? " locks" : "s lock"} the account for ${LOCKOUT_WINDOW_S / 60} minutes)` }
+    : { ok: false, locked: true, message: `the password is wrong; nothing was signed. This account is now locked for ${LOCKOUT_WINDOW_S / 60} minutes` };
 }
 
 /** Ends the request's session (its cookie is cleared by better-auth) and records it. */

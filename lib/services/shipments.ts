@@ -278,7 +278,7 @@ export async function startShipmentReview(shipmentId: string, actor: Actor): Pro
  */
 export async function signOffShipment(shipmentId: string, input: z.input<typeof signatureSchema>, actor: Actor): Promise<SignatureOutcome | ShipmentSignOutcome> {
   const s = signatureSchema.parse(input);
-  const signer = await signerProblem(actor, s.password, "shipment");
+  const signer = await signerProblem(actor, s.password);
   if (signer) return signer;
   const user = actor as Actor & { kind: "user" };
   const shipment = await getShipment(shipmentId);

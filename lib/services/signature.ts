@@ -7,7 +7,7 @@ import type { Actor } from "../access/actor";
 import { getReview, signReview, type ReviewChange } from "../db/reviews";
 import { lastAuditEntry } from "../db/auditQueries";
 import { recheckReview } from "./recheck";
-import { passwordMatches } from "./users";
+import { reauthenticate } from "./access";
 
 export const signatureSchema = z.object({
   decision: z.enum(["accept", "hold", "reject"], { error: "choose accept, hold or reject" }),
@@ -43,7 +43,8 @@ export async function signReviewWithPassword(reviewId: string, input: z.input<ty
   // owner and the owner's password is the second component; a token alone still cannot sign.
   if (actor.kind !== "user" && !(opts.tokenWithOwnerPassword && actor.kind === "token")) return notAUser();
   const s = signatureSchema.parse(input);
-  if (!(await passwordMatches(actor.userId, s.password))) return wrongPassword("review");
+  const auth = await reauthenticate(actor.userId, s.password);
+  if (!auth.ok) return refusedPassword(auth.message);
   const refusal = await signableProblem(reviewId, actor);
   if (refusal) return refusal;
   const res: ReviewChange = await signReview(reviewId, { reviewer: actor.name, decision: s.decision, comment: s.comment || undefined, meaning: SIGNATURE_MEANING[s.decision] }, actor);
@@ -52,12 +53,13 @@ export async function signReviewWithPassword(reviewId: string, input: z.input<ty
 }
 
 const notAUser = (): SignatureOutcome => ({ ok: false, reason: "not-a-user", message: "a signature needs a signed-in person who re-enters their password; a token or a script cannot sign" });
-const wrongPassword = (what: string): SignatureOutcome => ({ ok: false, reason: "password", field: "password", message: `the password is wrong; the ${what} was not signed` });
+const refusedPassword = (message: string): SignatureOutcome => ({ ok: false, reason: "password", field: "password", message });
 
-/** The identification components of a signature: a signed-in person and their password, re-entered. */
-export async function signerProblem(actor: Actor, password: string, what: string): Promise<SignatureOutcome | null> {
+/** The identification components of a signature: a signed-in person and their password, re-entered (counted toward lockout). */
+export async function signerProblem(actor: Actor, password: string): Promise<SignatureOutcome | null> {
   if (actor.kind !== "user") return notAUser();
-  return (await passwordMatches(actor.userId, password)) ? null : wrongPassword(what);
+  const auth = await reauthenticate(actor.userId, password);
+  return auth.ok ? null : refusedPassword(auth.message);
 }
 
 /**

@@ -99,7 +99,7 @@ test("a shipment: create, drop 4 files, confirm matching, run, matrix, sign off,
   await page.locator("#s-decision").selectOption("accept");
   await page.locator("#s-password").fill("not-the-password");
   await page.getByTestId("sign-shipment").click();
-  await expect(page.getByTestId("error-password")).toHaveText("the password is wrong; the shipment was not signed");
+  await expect(page.getByTestId("error-password")).toHaveText(/^the password is wrong; nothing was signed \(\d more wrong passwords? locks? the account for 15 minutes\)$/);
   await page.locator("#s-password").fill(TEST_PASSWORD);
   await page.getByTestId("sign-shipment").click();
   await expect(page.getByTestId("error-comment")).toContainText("needs a comment");

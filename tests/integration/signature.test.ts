@@ -88,4 +88,31 @@ describe("signing a review", () => {
     expect(recheck.seq).toBeLessThan(entry.seq);
     expect((recheck.details as { reproduced: boolean }).reproduced).toBe(true);
   });
+
+  it("wrong passwords at signing count toward the account's lockout: the fifth locks it, then even the right password cannot sign or sign in, and each refusal is audited", async () => {
+    const users = await import("@/lib/services/users");
+    const made = await users.addUser({ email: "cy@example.com", name: "Cy Reviewer", role: "reviewer", password: "charlie-password-789" }, TEST_ACTOR);
+    if (!made.ok) throw new Error("user not created");
+    const cy: Actor = { kind: "user", userId: made.user.id, name: made.user.name, email: made.user.email, role: "reviewer" };
+    const { signReviewWithPassword } = await import("@/lib/services/signature");
+    const { ACCOUNT_FAILURE_LIMIT, signIn } = await import("@/lib/services/access");
+    expect(ACCOUNT_FAILURE_LIMIT).toBe(5); // README: five wrong passwords within 15 minutes lock the account
+    const messages: string[] = [];
+    for (let i = 0; i < 5; i++) {
+      const r = await signReviewWithPassword(reviewId, { decision: "hold", comment: "probe it", password: `wrong-${i}` }, cy);
+      expect(r).toMatchObject({ ok: false, reason: "password", field: "password" });
+      messages.push(r.ok ? "" : r.message);
+    }
+    expect(messages[0]).toBe("the password is wrong; nothing was signed (4 more wrong passwords lock the account for 15 minutes)");
+    expect(messages[3]).toBe("the password is wrong; nothing was signed (1 more wrong password locks the account for 15 minutes)");
+    expect(messages[4]).toBe("the password is wrong; nothing was signed. This account is now locked for 15 minutes");
+    const right = await signReviewWithPassword(reviewId, { decision: "hold", comment: "probe it", password: "charlie-password-789" }, cy);
+    expect(right).toMatchObject({ ok: false, reason: "password" });
+    expect(right.ok ? "" : right.message).toMatch(/^this account is locked after 5 wrong passwords; nothing was signed\. Try again after \d\d:\d\d UTC/);
+    const signedIn = await signIn({ email: "cy@example.com", password: "charlie-password-789" }, new Headers({ "x-forwarded-for": "192.0.2.7" }));
+    expect(signedIn).toMatchObject({ ok: false, locked: true });
+    const { db } = await import("@/lib/db/client");
+    const refused = await db.auditEntry.findMany({ where: { action: "signature-refused", entityId: made.user.id }, orderBy: { seq: "asc" } });
+    expect(refused.map((e) => (e.details as { reason: string }).reason)).toEqual(["wrong-password", "wrong-password", "wrong-password", "wrong-password", "wrong-password", "locked"]);
+  });
 });
