@@ -11,12 +11,24 @@ export interface AlertCondition {
 }
 
 /**
- * The conditions that hold now: the forecast reaches a limit within `lead_min` (including already beyond it),
- * a rule fails, the monitor is stale.
+ * The deadband of a forecast alert, min: once raised, it holds until the forecast moves beyond the lead by this
+ * much (or says "never"), so a forecast hovering about the lead does not raise and clear at every reading.
+ * A deadband on the clearing side is common practice in alarm management (ANSI/ISA-18.2); its size here, a
+ * fifth of the lead and at least 5 min, is our choice, not a published value.
  */
-export function alertConditions(rules: readonly RuleRunning[], fc: Forecast | null, stale: Staleness, lead_min: number): AlertCondition[] {
+export function forecastDeadbandMin(lead_min: number): number {
+  return Math.max(5, lead_min / 5);
+}
+
+/**
+ * The conditions that hold now: the forecast reaches a limit within `lead_min` (including already beyond it;
+ * for an alert already open, within the lead plus its deadband), a rule fails, the monitor is stale.
+ */
+export function alertConditions(rules: readonly RuleRunning[], fc: Forecast | null, stale: Staleness, lead_min: number, openKeys: readonly string[] = []): AlertCondition[] {
   const out: AlertCondition[] = [];
-  if (fc && fc.minutes_to_limit !== null && fc.minutes_to_limit <= lead_min && fc.limit_rule) {
+  const forecastOpen = fc?.limit_rule ? openKeys.includes(`forecast:${fc.limit_rule}`) : false;
+  const within = lead_min + (forecastOpen ? forecastDeadbandMin(lead_min) : 0);
+  if (fc && fc.minutes_to_limit !== null && fc.minutes_to_limit <= within && fc.limit_rule) {
     out.push({ key: `forecast:${fc.limit_rule}`, kind: "forecast", rule: fc.limit_rule, message: fc.minutes_to_limit === 0 ? fc.reason : `limit within ${Math.round(fc.minutes_to_limit)} min (alert lead ${lead_min} min): ${fc.reason}` });
   }
   for (const r of rules) if (r.status_so_far === "fail") out.push({ key: `rule-fail:${r.id}`, kind: "rule-fail", rule: r.id, message: `rule ${r.id} fails: ${r.reason}` });

@@ -130,8 +130,8 @@ export async function monitorView(id: string, now = new Date()): Promise<Monitor
  */
 export async function evaluateAlerts(entry: LiveEntry, now: Date, actor: Actor = { kind: "system", what: "alerts" }): Promise<{ raised: string[]; cleared: string[] }> {
   const v = viewOf(entry, now);
-  const conds = entry.monitor.status === "open" ? alertConditions(v.rules, v.forecast, v.stale, entry.monitor.alertLeadMin) : [];
   const open = await openAlerts(entry.monitor.id);
+  const conds = entry.monitor.status === "open" ? alertConditions(v.rules, v.forecast, v.stale, entry.monitor.alertLeadMin, open.map((a) => a.key)) : [];
   const { raise, clear } = alertChanges(conds, open.map((a) => a.key));
   const raised: string[] = [], cleared: string[] = [];
   for (const c of raise) {

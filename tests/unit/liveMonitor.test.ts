@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
 import fc from "fast-check";
-import { LiveMonitor, forecast, staleness, alertConditions, alertChanges, type LiveReading } from "@/lib/live";
+import { LiveMonitor, forecast, staleness, alertConditions, alertChanges, forecastDeadbandMin, type LiveReading } from "@/lib/live";
 import { runReview } from "@/lib/review/runReview";
 import { predict } from "@/lib/thermal/predict";
 import { makeStepper, substepsFor } from "@/lib/thermal/stepper";
@@ -230,6 +230,32 @@ describe("alert conditions", () => {
     expect(conds.map((c) => c.key)).toEqual(["rule-fail:core-5", "stale"]);
     expect(alertChanges(conds, ["stale"])).toEqual({ raise: [conds[0]], clear: [] });
     expect(alertChanges([], ["stale"]).clear).toEqual(["stale"]);
+  });
+
+  it("a forecast alert, once open, holds until the forecast moves beyond the lead plus its deadband (a fifth of the lead, at least 5 min), or says never", () => {
+    const stale = { stale: false, silent_s: 0, interval_s: 300, stale_at_s: null };
+    const fc = (minutes: number | null) => ({ assumed_air_C: 12, minutes_to_limit: minutes, limit_rule: "core-5", horizon_min: 600, reason: "held air 12 °C", path: [] });
+    const keys = (minutes: number | null, open: string[]) => alertConditions([], fc(minutes), stale, 60, open).map((c) => c.key);
+    expect(forecastDeadbandMin(60)).toBe(12);
+    expect(forecastDeadbandMin(10)).toBe(5);
+    // not open: raised at the lead (60 min), not beyond it
+    expect(keys(60, [])).toEqual(["forecast:core-5"]);
+    expect(keys(61, [])).toEqual([]);
+    // open: still holds at 61 and 72 min (60 + 12), ends at 72.5 min and on "never"
+    expect(keys(61, ["forecast:core-5"])).toEqual(["forecast:core-5"]);
+    expect(keys(72, ["forecast:core-5"])).toEqual(["forecast:core-5"]);
+    expect(keys(72.5, ["forecast:core-5"])).toEqual([]);
+    expect(keys(null, ["forecast:core-5"])).toEqual([]);
+    // a forecast wobbling 58, 63, 59, 66 min about a 60 min lead raises once and never clears in between
+    let open: string[] = [];
+    let raises = 0, clears = 0;
+    for (const m of [58, 63, 59, 66, 61, 70]) {
+      const ch = alertChanges(alertConditions([], fc(m), stale, 60, open), open);
+      raises += ch.raise.length;
+      clears += ch.clear.length;
+      open = [...open.filter((k) => !ch.clear.includes(k)), ...ch.raise.map((c) => c.key)];
+    }
+    expect([raises, clears]).toEqual([1, 0]);
   });
 });
 
