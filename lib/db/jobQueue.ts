@@ -6,7 +6,7 @@ import PgBoss from "pg-boss";
 import { databaseUrl } from "./env";
 import { pgConnection } from "./pgAdapter";
 
-const globalForQueue = globalThis as unknown as { corelagQueue?: Promise<PgBoss> };
+const globalForQueue = globalThis as unknown as { corelagQueue?: Promise<PgBoss>; corelagQueues?: Set<string> };
 
 /** Seconds a started job may stay active before it counts as abandoned (its instance died) and is retried. */
 export function jobExpirySeconds(): number {
@@ -19,19 +19,26 @@ function maintenanceSeconds(): number {
   return Math.max(5, Math.min(120, Math.round(jobExpirySeconds() / 4)));
 }
 
-/** The started queue of this process (started on first use; the queues named are created once). */
-export function jobQueue(queues: readonly string[]): Promise<PgBoss> {
+/** The started queue of this process (started on first use); each queue named is created once per process. */
+export async function jobQueue(queues: readonly string[]): Promise<PgBoss> {
   globalForQueue.corelagQueue ??= (async () => {
     const boss = new PgBoss({ ...pgConnection(databaseUrl()), schema: "pgboss", max: 4, application_name: "corelag-jobs", maintenanceIntervalSeconds: maintenanceSeconds(), monitorStateIntervalSeconds: 60 } as PgBoss.ConstructorOptions);
     boss.on("error", (e: Error) => console.error(`corelag: job queue: ${e.message}`));
     await boss.start();
-    for (const q of queues) await boss.createQueue(q);
+    globalForQueue.corelagQueues = new Set();
     return boss;
   })().catch((e: unknown) => {
     globalForQueue.corelagQueue = undefined;
     throw e;
   });
-  return globalForQueue.corelagQueue;
+  const boss = await globalForQueue.corelagQueue;
+  const created = (globalForQueue.corelagQueues ??= new Set());
+  for (const q of queues) {
+    if (created.has(q)) continue;
+    await boss.createQueue(q); // creating an existing queue is a no-op in pg-boss 10
+    created.add(q);
+  }
+  return boss;
 }
 
 export type JobState = PgBoss.JobWithMetadata["state"];

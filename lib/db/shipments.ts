@@ -228,5 +228,10 @@ export async function listShipments(filter: { laneId?: string } = {}) {
   });
 }
 
+/** Whether a shipment review run was stored under this id (a queued run retried after its store committed). */
+export async function shipmentRunStored(runId: string): Promise<boolean> {
+  return (await db.shipmentReview.count({ where: { runId } })) > 0;
+}
+
 /** A fresh run id (a shipment review run). */
 export const newRunId = () => randomUUID();

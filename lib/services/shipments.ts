@@ -9,13 +9,13 @@ import { serialFromMetadata } from "../shipment/matching";
 import { getDefinition } from "../db/definitions";
 import { getTrace } from "../db/traces";
 import {
-  addShipmentLoggers, createLane, createLogger, createShipment, getShipment, laneByName, loggersBySerial, newRunId, recordShipmentRun, signShipment, updateLogger,
+  addShipmentLoggers, createLane, createLogger, createShipment, getShipment, laneByName, loggersBySerial, recordShipmentRun, shipmentRunStored, signShipment, updateLogger,
   type ShipmentLoggerInput, type ShipmentSignOutcome,
 } from "../db/shipments";
 import { newReviewOf, prepareReview, type PreparedReview } from "./reviews";
 import { SIGNATURE_MEANING, signableProblem, signatureSchema, signerProblem, type SignatureOutcome } from "./signature";
 import { runReviewInPool } from "./enginePool";
-import { startShipmentRun, type RunState } from "./runs";
+import { startShipmentRun, type RunContext, type RunState } from "./runs";
 import type { Actor } from "../access/actor";
 
 const text = (what: string, max: number) => z.string().trim().max(max, { message: `${what}: at most ${max} characters` });
@@ -237,38 +237,50 @@ export function combineStored(planned: ReadonlyArray<{ shipmentLoggerId: string;
 }
 
 /**
- * Starts the shipment review in the background: every logger × product review in the engine pool (as many
- * at once as the pool has threads), then, when all have finished, every review, its link and the shipment's
- * outcome in one transaction. A failure or cancel stores nothing (a cancel is audited as such).
+ * Starts the shipment review in the background (lib/services/runs.ts: in this process on SQLite, a job in the
+ * database's queue on PostgreSQL); the plan is checked here first so a shipment that cannot be reviewed is
+ * refused at once. The work itself is `computeShipmentRun`.
  */
 export async function startShipmentReview(shipmentId: string, actor: Actor): Promise<{ ok: true; run: RunState } | { ok: false; message: string }> {
   const plan = await planShipmentReview(shipmentId);
   if (!plan.ok) return plan;
+  return { ok: true, run: await startShipmentRun(shipmentId, `Shipment ${plan.reference}: ${plan.reviews.length} reviews`, plan.reviews.length, actor) };
+}
+
+/**
+ * One shipment review run, stored under `runId`: every logger × product review in the engine pool (as many at
+ * once as the pool has threads), then, when all have finished, every review, its link and the shipment's outcome
+ * in one transaction. A failure or cancel stores nothing. A run already stored under `runId` (a queued run
+ * retried after its store committed) is not stored again.
+ */
+export async function computeShipmentRun(shipmentId: string, runId: string, actor: Actor, { signal, setProgress }: RunContext): Promise<{ ok: true } | { ok: false; message: string }> {
+  if (await shipmentRunStored(runId)) return { ok: true };
+  const plan = await planShipmentReview(shipmentId);
+  if (!plan.ok) return plan;
   const { reviews } = plan;
-  const run = startShipmentRun(shipmentId, `Shipment ${plan.reference}: ${reviews.length} reviews`, reviews.length, actor, async ({ signal, setProgress }) => {
-    let done = 0;
-    const computed = await Promise.all(
-      reviews.map(async (r) => {
-        const attempt = await runReviewInPool(r.prepared.input, { signal });
-        setProgress(++done, reviews.length);
-        return { r, attempt };
-      }),
-    );
-    const failed = computed.find((c) => !c.attempt.ok);
-    if (failed && !failed.attempt.ok) return { ok: false, message: `${failed.r.prepared.title}: ${failed.attempt.message}` };
-    if (signal.aborted) throw signal.reason;
-    const items = [];
-    const results = [];
-    for (const c of computed) {
-      const comp = (c.attempt as { ok: true; computation: ReviewComputation }).computation;
-      items.push({ shipmentLoggerId: c.r.shipmentLoggerId, productId: c.r.productId, review: newReviewOf(c.r.prepared, comp, actor) });
-      results.push({ shipmentLoggerId: c.r.shipmentLoggerId, position: c.r.position, productId: c.r.productId, governing: c.r.governing, result: comp.result });
-    }
-    const combined = combineStored(results);
-    await recordShipmentRun(shipmentId, newRunId(), items, combined.outcome, combined, actor);
-    return { ok: true };
-  });
-  return { ok: true, run };
+  let done = 0;
+  setProgress(0, reviews.length);
+  const computed = await Promise.all(
+    reviews.map(async (r) => {
+      const attempt = await runReviewInPool(r.prepared.input, { signal });
+      setProgress(++done, reviews.length);
+      return { r, attempt };
+    }),
+  );
+  const failed = computed.find((c) => !c.attempt.ok);
+  if (failed && !failed.attempt.ok) return { ok: false, message: `${failed.r.prepared.title}: ${failed.attempt.message}` };
+  if (signal.aborted) throw signal.reason;
+  const items = [];
+  const results = [];
+  for (const c of computed) {
+    const comp = (c.attempt as { ok: true; computation: ReviewComputation }).computation;
+    items.push({ shipmentLoggerId: c.r.shipmentLoggerId, productId: c.r.productId, review: newReviewOf(c.r.prepared, comp, actor) });
+    results.push({ shipmentLoggerId: c.r.shipmentLoggerId, position: c.r.position, productId: c.r.productId, governing: c.r.governing, result: comp.result });
+  }
+  const combined = combineStored(results);
+  // pg-boss hands a job to one worker at a time: only an attempt that outlived the job's expiry could race here
+  await recordShipmentRun(shipmentId, runId, items, combined.outcome, combined, actor);
+  return { ok: true };
 }
 
 /**

@@ -5,13 +5,14 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startServer, type RunningServer } from "../helpers/server";
 import { testDatabaseKind, testDatabaseUrl } from "../helpers/database";
 import { seedAccounts, signedInFetch, TEST_ACTOR } from "../helpers/accounts";
+import { loggerCsv, START_ISO } from "../fixtures/shipment";
 
 /** Every request as the signed-in test reviewer (issue 13: pages and routes need a session). */
 const fetch = signedInFetch("reviewer");
 
-// On PostgreSQL, review runs go through the job queue in the database (pg-boss): any instance can report a
-// run another instance accepted, and a run whose instance was killed is taken up again by another one and
-// stored exactly once (issue 14). On SQLite runs stay in the server's own pool (tests/integration/runs.test.ts).
+// On PostgreSQL, review runs and shipment review runs go through the job queue in the database (pg-boss): any
+// instance can report a run another instance accepted, and a run whose instance was killed is taken up again by
+// another one and stored exactly once (issue 14). On SQLite runs stay in the server's own pool (tests/integration/runs.test.ts).
 const dir = mkdtempSync(path.join(tmpdir(), "corelag-jobs-"));
 const url = testDatabaseUrl(dir, "jobs.db");
 process.env.DATABASE_URL = url;
@@ -119,5 +120,34 @@ describe.runIf(kind === "postgres")("review runs through the job queue (PostgreS
     const { db } = await import("@/lib/db/client");
     expect(await db.review.count({ where: { title: "to cancel" } })).toBe(0);
     expect(await db.auditEntry.count({ where: { action: "cancel", entityId: run.id } })).toBe(1);
+  }, 200_000);
+
+  it("a shipment review run queued by one process is computed by a server instance and stored once under its job's id", async () => {
+    const b = servers[0] ?? (await startServer(env));
+    if (!servers.includes(b)) servers.push(b);
+    const { createShipmentFromForm } = await import("@/lib/services/shipments");
+    const { storeBatch } = await import("@/lib/services/batch");
+    const { getShipment } = await import("@/lib/db/shipments");
+    const { startShipmentReview } = await import("@/lib/services/shipments");
+    const made = await createShipmentFromForm({ reference: "QUEUED-1", limitsId: ids.limitsId, actualDepartureAt: START_ISO }, [
+      { position: "front", products: [{ productId: ids.productId }] },
+      { position: "rear", products: [{ productId: ids.productId }] },
+    ], TEST_ACTOR);
+    if (!made.ok) throw new Error(made.message);
+    const s = (await getShipment(made.shipmentId))!;
+    const stored = await storeBatch(made.shipmentId, [{ name: "f.csv", bytes: new TextEncoder().encode(loggerCsv(1)) }, { name: "r.csv", bytes: new TextEncoder().encode(loggerCsv(2)) }], {
+      matches: [{ file: "f.csv", shipmentLoggerId: s.loggers[0]!.id }, { file: "r.csv", shipmentLoggerId: s.loggers[1]!.id }],
+      register: [{ serial: "SN-1001", accuracyK: 0.5 }, { serial: "SN-1002", accuracyK: 0.5 }], // invented loggers
+    }, TEST_ACTOR);
+    expect(stored.ok && stored.result.stored.length).toBe(2);
+    // this test process takes no jobs (it never started workers): only the server instance can compute it
+    const started = await startShipmentReview(made.shipmentId, TEST_ACTOR);
+    if (!started.ok) throw new Error(started.message);
+    expect(started.run).toMatchObject({ kind: "shipment", status: "running", total: 2 });
+    const done = await until(b.url, started.run.id, (r) => r.status !== "running", 120);
+    expect(done).toMatchObject({ status: "done", kind: "shipment", done: 2, total: 2, shipmentId: made.shipmentId });
+    const { db } = await import("@/lib/db/client");
+    expect(await db.shipmentReview.count({ where: { shipmentId: made.shipmentId, runId: started.run.id } })).toBe(2);
+    expect(await db.auditEntry.count({ where: { action: "run", entity: "shipment", entityId: made.shipmentId } })).toBe(1);
   }, 200_000);
 });

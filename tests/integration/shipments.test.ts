@@ -25,9 +25,14 @@ beforeAll(async () => {
   ids.limits = (await createDefinition("limits", LIMITS, TEST_ACTOR)).id;
   ids.tray = (await createDefinition("product", TRAY, TEST_ACTOR)).id;
   ids.cup = (await createDefinition("product", CUP, TEST_ACTOR)).id;
+  // on PostgreSQL a shipment run is a job in the database's queue: this process takes jobs as a server would
+  const { startRunWorkers } = await import("@/lib/services/runs");
+  await startRunWorkers();
 });
 
 afterAll(async () => {
+  const { dbKind } = await import("@/lib/db/client");
+  if (dbKind() === "postgres") await (await import("@/lib/db/jobQueue")).stopJobQueue();
   const { closeEnginePool } = await import("@/lib/services/enginePool");
   await closeEnginePool();
   const { db } = await import("@/lib/db/client");
