@@ -16,10 +16,12 @@ export interface AuditEvent {
     | "sign-in" | "sign-in-refused" | "sign-out" | "set-role" | "disable" | "enable"
     // a signature refused for its password (wrong, or the account locked); counts toward the sign-in lockout
     | "signature-refused"
+    // an alert delivery's retry taken up after the process that scheduled it stopped (entity "delivery": the attempt's row)
+    | "resume"
     // API tokens (issue 13): a token revoked
     | "revoke";
   /** "run": a background run that stored nothing (cancelled); its entityId is the run's id. "chain": a full check of the chain (entityId: the head checked). "user": an account (its id, or the e-mail typed when it names no user) */
-  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview" | "chain" | "user" | "token";
+  entity: "trace" | "definition" | "review" | "key" | "run" | "monitor" | "alert" | "delivery" | "shipment" | "lane" | "logger" | "shipmentLogger" | "shipmentReview" | "chain" | "user" | "token";
   entityId: string;
   /** who did it: written as `actorLabel` in the entry's actor column and as `actorRecord` in its details */
   actor: Actor;
@@ -36,9 +38,10 @@ const AUDIT_CHAIN_LOCK = 0x636f726c;
  * a transaction-scoped advisory lock, taken before the chain's head is read (READ COMMITTED: the next
  * statement sees the entry the previous holder committed), so concurrent writers on any number of app
  * instances queue instead of colliding on the next sequence number. SQLite: the transaction already holds
- * the database's one write lock (BEGIN IMMEDIATE, lib/db/guardTransactions.ts).
+ * the database's one write lock (BEGIN IMMEDIATE, lib/db/guardTransactions.ts). Exported for a check-then-append
+ * that must be atomic across instances (claimDeliveryRetry).
  */
-async function lockChain(tx: Tx): Promise<void> {
+export async function lockChain(tx: Tx): Promise<void> {
   if (dbKind() === "postgres") await tx.$executeRawUnsafe(`SELECT pg_advisory_xact_lock(${AUDIT_CHAIN_LOCK})`);
 }
 

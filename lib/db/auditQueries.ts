@@ -101,6 +101,9 @@ async function subjects(entries: ReadonlyArray<{ entity: string; entityId: strin
   for (const l of loggers) out.set(`logger:${l.id}`, { name: `logger ${l.serial}`, href: "/loggers" });
   for (const l of shipmentLoggers) out.set(`shipmentLogger:${l.id}`, { name: `shipment logger ${l.ordinal} (${l.position})`, href: `/shipments/${l.shipmentId}` });
   for (const l of shipmentReviews) out.set(`shipmentReview:${l.id}`, { name: `shipment review of ${l.reviewId.slice(0, 8)}…`, href: `/shipments/${l.shipmentId}` });
+  // an alert delivery attempt (a "resume" entry's subject): the attempt, its target and the monitor
+  const deliveries = await db.alertDelivery.findMany({ where: { id: { in: ids("delivery") } }, select: { id: true, attempt: true, target: true, alert: { select: { monitorId: true, monitor: { select: { name: true } } } } } });
+  for (const d of deliveries) out.set(`delivery:${d.id}`, { name: `delivery attempt ${d.attempt} to ${d.target}, ${d.alert.monitor.name}`, href: `/monitors/${d.alert.monitorId}` });
   // a signing key is named by its fingerprint (the entry's id); it has no page
   for (const fp of ids("key")) out.set(`key:${fp}`, { name: `signing key ${fp.slice(0, 16)}…`, href: null });
   return out;

@@ -1,5 +1,5 @@
 import { db } from "./client";
-import { appendAudit } from "./audit";
+import { appendAudit, lockChain } from "./audit";
 import type { Actor } from "../access/actor";
 
 /** A monitor as stored (without the device token's hash). */
@@ -182,12 +182,50 @@ export interface DeliveryAttempt {
   nextAt?: Date;
 }
 
-/** Logs one delivery attempt with a "deliver" entry. */
-export async function logDelivery(d: DeliveryAttempt, actor: Actor): Promise<void> {
-  await db.$transaction(async (tx) => {
+/** Logs one delivery attempt with a "deliver" entry; returns the attempt's row id. */
+export async function logDelivery(d: DeliveryAttempt, actor: Actor): Promise<string> {
+  return db.$transaction(async (tx) => {
     const row = await tx.alertDelivery.create({ data: { ...d, httpStatus: d.httpStatus ?? null, error: d.error ?? null, nextAt: d.nextAt ?? null } });
     await appendAudit(tx, { action: "deliver", entity: "alert", entityId: d.alertId, actor, details: { deliveryId: row.id, event: d.event, channel: d.channel, target: d.target, attempt: d.attempt, ok: d.ok, httpStatus: d.httpStatus ?? null, error: d.error ?? null } }, d.at);
+    return row.id;
   });
+}
+
+/**
+ * Takes up the retry that attempt row `deliveryId` scheduled, after the process that scheduled it stopped: one
+ * "resume" audit entry per attempt row, checked and appended under the audit chain's lock, so of several
+ * instances sweeping at once exactly one gets true. (Attempt rows are immutable, so the claim is an entry.)
+ */
+export async function claimDeliveryRetry(d: { id: string; alertId: string; attempt: number }, actor: Actor): Promise<boolean> {
+  return db.$transaction(async (tx) => {
+    await lockChain(tx);
+    if ((await tx.auditEntry.count({ where: { action: "resume", entity: "delivery", entityId: d.id } })) > 0) return false;
+    await appendAudit(tx, { action: "resume", entity: "delivery", entityId: d.id, actor, details: { alertId: d.alertId, attempt: d.attempt + 1 } });
+    return true;
+  });
+}
+
+/** Whether the retry that attempt row `deliveryId` scheduled was taken up elsewhere (claimDeliveryRetry). */
+export async function deliveryRetryTaken(deliveryId: string): Promise<boolean> {
+  return (await db.auditEntry.count({ where: { action: "resume", entity: "delivery", entityId: deliveryId } })) > 0;
+}
+
+/**
+ * Attempts whose retry fell due in [since, before) and was neither made (no row for the next attempt) nor taken
+ * up: their process stopped while waiting.
+ */
+export async function overdueDeliveryRetries(since: Date, before: Date): Promise<Array<{ id: string; alertId: string; event: string; channel: string; target: string; attempt: number; nextAt: Date }>> {
+  const due = await db.alertDelivery.findMany({ where: { nextAt: { gte: since, lt: before } }, orderBy: { nextAt: "asc" }, take: 500, select: { id: true, alertId: true, event: true, channel: true, target: true, attempt: true, nextAt: true } });
+  const out = [];
+  for (const r of due) {
+    const next = await db.alertDelivery.count({ where: { alertId: r.alertId, event: r.event, channel: r.channel, target: r.target, attempt: r.attempt + 1 } });
+    if (next === 0 && !(await deliveryRetryTaken(r.id))) out.push({ ...r, nextAt: r.nextAt! });
+  }
+  return out;
+}
+
+export async function getAlert(id: string): Promise<StoredAlert | null> {
+  return db.alert.findUnique({ where: { id } });
 }
 
 export interface AlertWithDeliveries extends StoredAlert {

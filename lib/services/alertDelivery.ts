@@ -1,6 +1,6 @@
 import { createHmac } from "node:crypto";
 import { config } from "../config";
-import { logDelivery, type StoredAlert, type StoredMonitor } from "../db/monitors";
+import { claimDeliveryRetry, deliveryRetryTaken, getAlert, getMonitor, logDelivery, overdueDeliveryRetries, type StoredAlert, type StoredMonitor } from "../db/monitors";
 import type { Actor } from "../access/actor";
 
 /** The header that carries the body's signature: "sha256=" and the hex HMAC-SHA256 of the exact body bytes with the monitor's secret. */
@@ -42,12 +42,24 @@ function track(p: Promise<void>): void {
 
 const sleep = (s: number) => new Promise<void>((r) => setTimeout(r, s * 1000).unref?.());
 
-/** One webhook: POST the signed JSON, retried with backoff on an error or a non-2xx answer; every attempt logged. */
-async function deliverWebhook(m: StoredMonitor, a: StoredAlert, event: AlertEvent, url: string, actor: Actor): Promise<void> {
+/**
+ * Sleeps until the retry that attempt row `deliveryId` scheduled; false when a sweep took it up meanwhile
+ * (it presumed this process stopped: only after ORPHAN_GRACE_S past due), and this one must stop.
+ */
+async function awaitRetry(deliveryId: string, delay_s: number): Promise<boolean> {
+  await sleep(delay_s);
+  return !(await deliveryRetryTaken(deliveryId));
+}
+
+/**
+ * One webhook: POST the signed JSON, retried with backoff on an error or a non-2xx answer; every attempt
+ * logged. `first` > 1 resumes a delivery whose process stopped (resumeDeliveries).
+ */
+async function deliverWebhook(m: StoredMonitor, a: StoredAlert, event: AlertEvent, url: string, actor: Actor, first = 1): Promise<void> {
   const max = config().CORELAG_WEBHOOK_MAX_ATTEMPTS;
-  // one body for every attempt: the receiver can tell a retry by the delivery's alert id, event and sent_at
+  // one body for every attempt of this process: the receiver can tell a retry by the alert id and event
   const body = JSON.stringify(alertPayload(m, a, event, new Date()));
-  for (let attempt = 1; attempt <= max; attempt++) {
+  for (let attempt = first; attempt <= max; attempt++) {
     let status: number | undefined, error: string | undefined;
     try {
       const res = await fetch(url, {
@@ -66,14 +78,13 @@ async function deliverWebhook(m: StoredMonitor, a: StoredAlert, event: AlertEven
     const ok = error === undefined;
     const again = !ok && attempt < max;
     const delay = retryDelay_s(attempt);
-    await logDelivery({ alertId: a.id, event, channel: "webhook", target: url, attempt, at: new Date(), ok, httpStatus: status, error, nextAt: again ? new Date(Date.now() + delay * 1000) : undefined }, actor);
-    if (!again) return;
-    await sleep(delay);
+    const row = await logDelivery({ alertId: a.id, event, channel: "webhook", target: url, attempt, at: new Date(), ok, httpStatus: status, error, nextAt: again ? new Date(Date.now() + delay * 1000) : undefined }, actor);
+    if (!again || !(await awaitRetry(row, delay))) return;
   }
 }
 
 /** One e-mail through the configured SMTP server (nodemailer), retried like a webhook. */
-async function deliverEmail(m: StoredMonitor, a: StoredAlert, event: AlertEvent, to: string, smtpUrl: string, actor: Actor): Promise<void> {
+async function deliverEmail(m: StoredMonitor, a: StoredAlert, event: AlertEvent, to: string, smtpUrl: string, actor: Actor, first = 1): Promise<void> {
   const { createTransport } = await import("nodemailer");
   const transport = createTransport(smtpUrl);
   const p = alertPayload(m, a, event, new Date());
@@ -87,7 +98,7 @@ async function deliverEmail(m: StoredMonitor, a: StoredAlert, event: AlertEvent,
     "The forecast is an estimate from a model and the readings so far. Decide on the shipment under your local regulations and licensed food-safety practice.",
   ].join("\n");
   const max = config().CORELAG_WEBHOOK_MAX_ATTEMPTS;
-  for (let attempt = 1; attempt <= max; attempt++) {
+  for (let attempt = first; attempt <= max; attempt++) {
     let error: string | undefined;
     try {
       await transport.sendMail({ from: config().CORELAG_MAIL_FROM, to, subject, text });
@@ -96,19 +107,51 @@ async function deliverEmail(m: StoredMonitor, a: StoredAlert, event: AlertEvent,
     }
     const again = error !== undefined && attempt < max;
     const delay = retryDelay_s(attempt);
-    await logDelivery({ alertId: a.id, event, channel: "email", target: to, attempt, at: new Date(), ok: error === undefined, error, nextAt: again ? new Date(Date.now() + delay * 1000) : undefined }, actor);
-    if (!again) return;
-    await sleep(delay);
+    const row = await logDelivery({ alertId: a.id, event, channel: "email", target: to, attempt, at: new Date(), ok: error === undefined, error, nextAt: again ? new Date(Date.now() + delay * 1000) : undefined }, actor);
+    if (!again || !(await awaitRetry(row, delay))) return;
   }
 }
 
 /**
  * Sends an alert event to every webhook and (when SMTP is configured) every address of the monitor, in the
- * background: the request that raised the alert does not wait. Retries happen in this process; an attempt
- * still due when the server stops is not resumed (its `nextAt` stays in the log).
+ * background: the request that raised the alert does not wait. Retries happen in this process; one still due
+ * when the process stops is taken up by the next sweep of any instance (resumeDeliveries).
  */
 export function deliverAlert(m: StoredMonitor, a: StoredAlert, event: AlertEvent, actor: Actor = { kind: "system", what: "alerts" }): void {
   for (const url of m.webhooks) track(deliverWebhook(m, a, event, url, actor).catch((e) => console.error(`webhook delivery to ${url} failed to log:`, e)));
   const smtp = config().CORELAG_SMTP_URL;
   if (smtp) for (const to of m.emails) track(deliverEmail(m, a, event, to, smtp, actor).catch((e) => console.error(`e-mail to ${to} failed to log:`, e)));
+}
+
+/** How long past its due time a retry waits before a sweep presumes its process dead and takes it (an attempt takes at most 10 s). */
+export const ORPHAN_GRACE_S = 60;
+/** Retries due longer ago than this are not resumed: a day-old alert sent now would mislead more than inform. */
+export const RESUME_WINDOW_S = 24 * 3600;
+
+/**
+ * Resumes the retries whose process stopped while waiting for them (due more than ORPHAN_GRACE_S and less than
+ * RESUME_WINDOW_S ago, not made and not taken): each is taken (an audited claim, so no other instance resumes it
+ * too) and continued from the next attempt, in the background. Returns how many were resumed.
+ */
+export async function resumeDeliveries(now = new Date(), actor: Actor = { kind: "system", what: "alerts" }): Promise<number> {
+  let resumed = 0;
+  const since = new Date(now.getTime() - RESUME_WINDOW_S * 1000);
+  for (const d of await overdueDeliveryRetries(since, new Date(now.getTime() - ORPHAN_GRACE_S * 1000))) {
+    const a = await getAlert(d.alertId);
+    const m = a && (await getMonitor(a.monitorId));
+    if (!a || !m || !(await claimDeliveryRetry(d, actor))) continue;
+    const event = d.event === "cleared" ? "cleared" : "raised";
+    if (d.channel === "webhook") {
+      track(deliverWebhook(m, a, event, d.target, actor, d.attempt + 1).catch((e) => console.error(`webhook delivery to ${d.target} failed to log:`, e)));
+    } else {
+      const smtp = config().CORELAG_SMTP_URL;
+      if (!smtp) {
+        console.error(`corelag: an e-mail retry to ${d.target} is due but SMTP is no longer configured; it is dropped`);
+        continue;
+      }
+      track(deliverEmail(m, a, event, d.target, smtp, actor, d.attempt + 1).catch((e) => console.error(`e-mail to ${d.target} failed to log:`, e)));
+    }
+    resumed++;
+  }
+  return resumed;
 }

@@ -4,7 +4,7 @@ import { alertChanges, alertConditions, forecast, parseReadingsCsv, parseReading
 import { modelChoiceSchema } from "../thermal/definitions";
 import { sha256Hex } from "../trace";
 import { clearAlert, closeMonitorRow, createMonitor, getMonitor, monitorReadings, monitorTokenHash, openAlerts, openMonitorIds, raiseAlert, storeBatch, batchReceivedAt, type StoredMonitor } from "../db/monitors";
-import { deliverAlert } from "./alertDelivery";
+import { deliverAlert, resumeDeliveries } from "./alertDelivery";
 import { dropLiveEntry, liveEntry, loadMonitorDefinitions, notifyMonitorChange, withMonitor, type LiveEntry } from "./liveRegistry";
 import { importAndStoreTrace } from "./traces";
 import { runAndStoreReview } from "./reviews";
@@ -210,8 +210,9 @@ export async function postReadings(id: string, body: Uint8Array, contentType: st
   });
 }
 
-/** Re-evaluates every open monitor at `now` (staleness needs a clock; readings do not come to say they stopped). */
+/** Re-evaluates every open monitor at `now` (staleness needs a clock; readings do not come to say they stopped), and resumes alert deliveries whose process stopped. */
 export async function sweepMonitors(now = new Date()): Promise<void> {
+  await resumeDeliveries(now);
   for (const id of await openMonitorIds()) {
     await withMonitor(id, async () => {
       const entry = await liveEntry(id);
