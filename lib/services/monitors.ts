@@ -101,7 +101,12 @@ export interface MonitorView {
 export function viewOf(entry: LiveEntry, now: Date): MonitorView {
   const rules = entry.live.rules();
   const fc = entry.live.length ? forecast(entry.live, entry.hold) : null;
-  return { entry, rules, forecast: fc, stale: staleness(entry.arrivals_s, now.getTime() / 1000) };
+  return { entry, rules, forecast: fc, stale: staleOf(entry, now) };
+}
+
+/** Staleness on the server's clock: the silence since the last delivery against the usual delivery interval, floored by the readings' own interval. */
+function staleOf(entry: LiveEntry, now: Date): ReturnType<typeof staleness> {
+  return staleness(entry.arrivals_s, now.getTime() / 1000, { reading_t_s: entry.live.t_s });
 }
 
 export function stateJson(v: MonitorView): MonitorStateJson {
@@ -217,7 +222,7 @@ export async function sweepMonitors(now = new Date()): Promise<void> {
     await withMonitor(id, async () => {
       const entry = await liveEntry(id);
       // only staleness changes with the clock alone: re-judge (rules over the whole history) only when it did
-      const stale = staleness(entry.arrivals_s, now.getTime() / 1000).stale;
+      const stale = staleOf(entry, now).stale;
       const open = (await openAlerts(id)).some((a) => a.key === "stale");
       if (stale !== open) await evaluateAlerts(entry, now);
     });

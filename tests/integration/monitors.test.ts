@@ -220,7 +220,8 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
   it("raises a stale alert on the injected clock, and clears it when readings come back", async () => {
     const m = await newMonitor({ alert: { lead_min: 0 } });
     const { liveEntry } = await import("@/lib/services/liveRegistry");
-    for (let i = 0; i < 3; i++) await svc.postReadings(m.id, json([{ t: iso(T0 + i * 300), air_C: 3 }]), "application/json", false, TEST_ACTOR);
+    // readings 60 s apart (invented fixture): their interval is a floor under the delivery interval (lib/live/stale.ts)
+    for (let i = 0; i < 3; i++) await svc.postReadings(m.id, json([{ t: iso(T0 + i * 60), air_C: 3 }]), "application/json", false, TEST_ACTOR);
     const entry = await liveEntry(m.id);
     // arrivals are the batches' receipt times; pretend they came 60 s apart, the last one now
     const now = Date.now() / 1000;

@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
 import fc from "fast-check";
-import { LiveMonitor, forecast, staleness, alertConditions, alertChanges, forecastDeadbandMin, type LiveReading } from "@/lib/live";
+import { LiveMonitor, forecast, staleness, STALE_FLOOR_S, alertConditions, alertChanges, forecastDeadbandMin, type LiveReading } from "@/lib/live";
 import { runReview } from "@/lib/review/runReview";
 import { predict } from "@/lib/thermal/predict";
 import { makeStepper, substepsFor } from "@/lib/thermal/stepper";
@@ -220,6 +220,35 @@ describe("staleness (injected clock)", () => {
     expect(staleness(t, 1200 + 901).stale).toBe(true);
     expect(staleness(t, 1200 + 901).stale_at_s).toBe(2100);
     expect(staleness([5], 1e9).stale).toBe(false); // one reading: no usual interval yet
+  });
+
+  it("a replay that delivers a 2-minute logger's readings every 0.2 s is judged on the readings' 2 minutes, not stale as it ends", () => {
+    // invented fixture: 361 readings 120 s apart (the demo trace's interval), delivered one per 0.2 s (--speed 600)
+    const readings = Array.from({ length: 361 }, (_, i) => 1_781_575_200 + i * 120);
+    const arrivals = Array.from({ length: 361 }, (_, i) => 1_000_000 + i * 0.2);
+    const last = arrivals[360]!;
+    const s = staleness(arrivals, last + 1, { reading_t_s: readings });
+    expect(s.stale).toBe(false);
+    expect(s.interval_s).toBe(120);
+    // 3 × 120 s after the last delivery, on the server's clock
+    expect(staleness(arrivals, last + 360, { reading_t_s: readings }).stale).toBe(false);
+    expect(staleness(arrivals, last + 361, { reading_t_s: readings }).stale).toBe(true);
+    expect(staleness(arrivals, last + 361, { reading_t_s: readings }).stale_at_s).toBeCloseTo(last + 360, 9);
+  });
+
+  it("a gateway that uploads hourly batches of 2-minute readings is judged on the hour between deliveries", () => {
+    const readings = Array.from({ length: 91 }, (_, i) => i * 120); // invented fixture: 3 h of 2-minute readings
+    const arrivals = [3600, 7200, 10_800];
+    expect(staleness(arrivals, 10_800 + 3 * 3600, { reading_t_s: readings }).stale).toBe(false);
+    expect(staleness(arrivals, 10_800 + 3 * 3600 + 1, { reading_t_s: readings })).toMatchObject({ stale: true, interval_s: 3600, silent_s: 3 * 3600 + 1 });
+  });
+
+  it("never judges on less than STALE_FLOOR_S: a 1-second logger is not stale after 4 s of silence", () => {
+    const t = [0, 1, 2, 3, 4];
+    expect(staleness(t, 4 + 3 * STALE_FLOOR_S, { reading_t_s: t }).stale).toBe(false);
+    expect(staleness(t, 4 + 3 * STALE_FLOOR_S + 1, { reading_t_s: t }).stale).toBe(true);
+    // one delivery carrying many readings: the readings' interval is all there is to judge by
+    expect(staleness([50], 50 + 3 * 300 + 1, { reading_t_s: [0, 300, 600] }).stale).toBe(true);
   });
 });
 
