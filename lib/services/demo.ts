@@ -7,8 +7,10 @@ import { limitSetSchema } from "../exposure/limits";
 import { createTrace } from "../db/traces";
 import { createDefinition, listLatestDefinitions } from "../db/definitions";
 import { db } from "../db/client";
-import { DEMO_DESIGN_NAMES, DEMO_MONITOR } from "./demoNames";
+import { DEMO_DESIGN_NAMES, DEMO_MONITOR, DEMO_SHIPMENT } from "./demoNames";
 import { createMonitorService } from "./monitors";
+import { createShipmentFromForm, registerLogger, reviewShipmentHere } from "./shipments";
+import { attachTraces, getShipment } from "../db/shipments";
 import { runAndStoreReview, signOff } from "./reviews";
 import type { Actor } from "../access/actor";
 
@@ -53,9 +55,34 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   await createDefinition("limits", limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.limits), "utf8"))), DEMO_ACTOR);
   for (const profile of EXAMPLE_PROFILES) await createDefinition("profile", profile, DEMO_ACTOR);
   // A live monitor with no readings yet: `corelag simulate` feeds it the 16 June trace on request (README).
-  const live = await createMonitorService({ name: DEMO_MONITOR.name, product_id: p.id, limits_id: l.id, shipment_id: "R7-0616 (invented)", serial: "HX-20417", alert: { lead_min: 60 } }, DEMO_ACTOR, DEMO_MONITOR.token);
+  const live = await createMonitorService({ name: DEMO_MONITOR.name, product_id: p.id, limits_id: l.id, shipment_id: DEMO_SHIPMENT.reference, serial: DEMO_SHIPMENT.serial, alert: { lead_min: 60 } }, DEMO_ACTOR, DEMO_MONITOR.token);
   if (!live.ok) throw new Error(`demo monitor failed: ${live.message}`);
+  await loadDemoShipment(p.id, l.id, traceId);
   return "loaded";
+}
+
+/**
+ * The unit users work in: the 16 June load as a shipment on the demo lane, tote 3's logger registered with its
+ * (invented) calibration, the 16 June trace attached, and the shipment review run, awaiting sign-off.
+ */
+async function loadDemoShipment(productId: string, limitsId: string, traceId: string): Promise<void> {
+  const must = <T extends { ok: boolean }>(what: string, r: T) => {
+    if (!r.ok) throw new Error(`demo ${what} failed: ${(r as { message?: string }).message ?? "refused"}`);
+    return r as Extract<T, { ok: true }>;
+  };
+  must("logger", await registerLogger({ serial: DEMO_SHIPMENT.serial, description: "Air logger of tote 3, Route 7 north (demo, invented)", accuracyK: 0.5, lastCalibrationAt: "2026-01-14T09:00Z", nextCalibrationAt: "2027-01-14T09:00Z" }, DEMO_ACTOR));
+  const { shipmentId } = must("shipment", await createShipmentFromForm({
+    reference: DEMO_SHIPMENT.reference,
+    newLaneName: DEMO_SHIPMENT.lane, newLaneOrigin: "Central depot (invented)", newLaneDestination: "Five stores on the northern ring (invented)",
+    carrier: "Own fleet (invented)", vehicle: "Truck 12 (invented)",
+    // the trace runs 05:00–17:00 local time (CEST); the dock delay made the load two hours late
+    plannedDepartureAt: "2026-06-16T03:00Z", plannedArrivalAt: "2026-06-16T13:00Z", actualDepartureAt: "2026-06-16T03:00Z", actualArrivalAt: "2026-06-16T15:00Z",
+    notes: "Invented demo load: one logger (tote 3) stands for the ready meals in all eight totes. Add loggers and upload their files to see a load with several positions.",
+    limitsId,
+  }, [{ position: DEMO_SHIPMENT.position, serial: DEMO_SHIPMENT.serial, products: [{ productId, governing: true }] }], DEMO_ACTOR));
+  const entry = (await getShipment(shipmentId))!.loggers[0]!;
+  await attachTraces(shipmentId, [{ shipmentLoggerId: entry.id, traceId }], DEMO_ACTOR);
+  must("shipment review", await reviewShipmentHere(shipmentId, DEMO_ACTOR));
 }
 
 /**

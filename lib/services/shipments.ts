@@ -3,13 +3,13 @@
 // review, then the shipment's outcome) and the one sign-off for the load.
 import { z } from "zod";
 import type { Outcome } from "../exposure/rules";
-import type { ReviewComputation, ReviewResult } from "../review";
+import { tryRunReview, type ReviewComputation, type ReviewResult } from "../review";
 import { combineShipment, worstExcursions, loggerReviewOption, calibrationOverdue, type LoggerReviews } from "../shipment";
 import { serialFromMetadata } from "../shipment/matching";
 import { getDefinition } from "../db/definitions";
 import { getTrace } from "../db/traces";
 import {
-  addShipmentLoggers, createLane, createLogger, createShipment, getShipment, laneByName, loggersBySerial, recordShipmentRun, shipmentRunStored, signShipment, updateLogger,
+  addShipmentLoggers, createLane, createLogger, createShipment, getShipment, laneByName, loggersBySerial, newRunId, recordShipmentRun, shipmentRunStored, signShipment, updateLogger,
   type ShipmentLoggerInput, type ShipmentSignOutcome,
 } from "../db/shipments";
 import { newReviewOf, prepareReview, type PreparedReview } from "./reviews";
@@ -270,17 +270,33 @@ export async function computeShipmentRun(shipmentId: string, runId: string, acto
   const failed = computed.find((c) => !c.attempt.ok);
   if (failed && !failed.attempt.ok) return { ok: false, message: `${failed.r.prepared.title}: ${failed.attempt.message}` };
   if (signal.aborted) throw signal.reason;
-  const items = [];
-  const results = [];
-  for (const c of computed) {
-    const comp = (c.attempt as { ok: true; computation: ReviewComputation }).computation;
-    items.push({ shipmentLoggerId: c.r.shipmentLoggerId, productId: c.r.productId, review: newReviewOf(c.r.prepared, comp, actor) });
-    results.push({ shipmentLoggerId: c.r.shipmentLoggerId, position: c.r.position, productId: c.r.productId, governing: c.r.governing, result: comp.result });
-  }
-  const combined = combineStored(results);
   // pg-boss hands a job to one worker at a time: only an attempt that outlived the job's expiry could race here
-  await recordShipmentRun(shipmentId, runId, items, combined.outcome, combined, actor);
+  await storeShipmentRun(shipmentId, runId, computed.map((c) => ({ r: c.r, computation: (c.attempt as { ok: true; computation: ReviewComputation }).computation })), actor);
   return { ok: true };
+}
+
+/**
+ * The same shipment review computed in this thread, without the engine pool or a run to follow: for the demo
+ * loader (which runs before the server, where a small load takes a second). Stores exactly what a run stores.
+ */
+export async function reviewShipmentHere(shipmentId: string, actor: Actor): Promise<{ ok: true } | { ok: false; message: string }> {
+  const plan = await planShipmentReview(shipmentId);
+  if (!plan.ok) return plan;
+  const computed: Array<{ r: PlannedReview; computation: ReviewComputation }> = [];
+  for (const r of plan.reviews) {
+    const attempt = tryRunReview(r.prepared.input);
+    if (!attempt.ok) return { ok: false, message: `${r.prepared.title}: ${attempt.message}` };
+    computed.push({ r, computation: attempt.computation });
+  }
+  await storeShipmentRun(shipmentId, newRunId(), computed, actor);
+  return { ok: true };
+}
+
+/** Every review, its link and the shipment's combined outcome, in one transaction (recordShipmentRun). */
+async function storeShipmentRun(shipmentId: string, runId: string, computed: ReadonlyArray<{ r: PlannedReview; computation: ReviewComputation }>, actor: Actor): Promise<void> {
+  const items = computed.map(({ r, computation }) => ({ shipmentLoggerId: r.shipmentLoggerId, productId: r.productId, review: newReviewOf(r.prepared, computation, actor) }));
+  const combined = combineStored(computed.map(({ r, computation }) => ({ shipmentLoggerId: r.shipmentLoggerId, position: r.position, productId: r.productId, governing: r.governing, result: computation.result })));
+  await recordShipmentRun(shipmentId, runId, items, combined.outcome, combined, actor);
 }
 
 /**

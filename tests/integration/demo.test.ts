@@ -23,20 +23,44 @@ afterAll(async () => {
 });
 
 describe("demo loader", () => {
-  it("loadDemoIfEmpty loads one signed, historic review and one open review, and only once", async () => {
+  it("loadDemoIfEmpty loads one signed, historic review and the open ones, and only once", async () => {
     const { loadDemoIfEmpty } = await import("@/lib/services/demo");
     const { listReviews, getReview } = await import("@/lib/db/reviews");
     expect(await loadDemoIfEmpty()).toBe("loaded");
     expect(await loadDemoIfEmpty()).toBe("skipped");
     const reviews = await listReviews();
-    expect(reviews.map((r) => r.status).sort()).toEqual(["open", "signed"]);
+    // two open: the 16 June review and the demo shipment's review of the same trace (see the shipment test below)
+    expect(reviews.map((r) => r.status).sort()).toEqual(["open", "open", "signed"]);
     const signed = (await getReview(reviews.find((r) => r.status === "signed")!.id))!;
     // the 9 June run has door openings only: every rule passes, and the reviewer accepted it
     expect([signed.outcome, signed.decision, signed.signedBy]).toEqual(["accept", "accept", "Mara Quellen (QA, invented)"]);
     expect(signed.signComment).toMatch(/core estimate stayed below 5 °C/);
     expect(signed.trace.startAt.toISOString()).toBe("2026-06-09T03:00:00.000Z");
-    const open = reviews.find((r) => r.status === "open")!;
-    expect(open.title).toBe("Route 7, 16 June: tote 3 after the dock delay (demo)");
+    expect(reviews.filter((r) => r.status === "open").map((r) => r.title).sort()).toEqual([
+      "R7-0616 (invented) · tote 3 of 8 · Ready meal tray 450 g (in tote)",
+      "Route 7, 16 June: tote 3 after the dock delay (demo)",
+    ]);
+  });
+
+  it("the demo holds one shipment on the demo lane, with tote 3's registered logger, the 16 June trace and its shipment review, once", async () => {
+    const { loadDemoIfEmpty } = await import("@/lib/services/demo");
+    const { listShipments, listLanes, listLoggers, getShipment } = await import("@/lib/db/shipments");
+    const { listReviews, getReview } = await import("@/lib/db/reviews");
+    expect(await loadDemoIfEmpty()).toBe("skipped"); // loaded by the first test: nothing is added twice
+    const shipments = await listShipments();
+    expect(shipments.map((s) => [s.reference, s.lane?.name, s._count.loggers, s.status])).toEqual([["R7-0616 (invented)", "Route 7 north (demo)", 1, "open"]]);
+    expect((await listLanes()).map((l) => l.name)).toEqual(["Route 7 north (demo)"]);
+    expect((await listLoggers()).map((l) => [l.serial, l.accuracyK])).toEqual([["HX-20417", 0.5]]);
+    const s = (await getShipment(shipments[0]!.id))!;
+    expect(s.loggers[0]!.trace!.name).toBe("Route 7 north, tote 3 (demo)");
+    expect(s.reviews).toHaveLength(1);
+    // the same trace, product and limit set as the demo's open 16 June review (whose sensor accuracy, 0.5 K, equals
+    // the register's), so the shipment suggests what that review suggests: the dock delay keeps the core above 5 °C too long
+    const alone = (await listReviews()).find((r) => r.title === "Route 7, 16 June: tote 3 after the dock delay (demo)")!;
+    const mine = (await getReview(s.reviews[0]!.reviewId))!;
+    expect(mine.outcome).toBe((await getReview(alone.id))!.outcome);
+    expect(s.outcome).toBe(mine.outcome);
+    expect(s.outcome).toBe("reject");
   });
 
   it("the demo's signed review reproduces when re-checked, and the probe test shows as never reviewed", async () => {
@@ -65,6 +89,8 @@ describe("demo loader", () => {
     expect(out.reviews.map((r) => [r.title, r.reproduced])).toEqual([
       ["Route 7, 9 June: tote 3, door openings only (demo)", true],
       ["Route 7, 16 June: tote 3 after the dock delay (demo)", true],
+      // the demo shipment's review (with the logger register's accuracy in its options) reproduces too
+      ["R7-0616 (invented) · tote 3 of 8 · Ready meal tray 450 g (in tote)", true],
     ]);
   });
 });

@@ -26,7 +26,7 @@ process.env.DATABASE_URL = `file:${base}`;
 const ROOT = path.resolve(__dirname, "../..");
 const run = promisify(execFile);
 
-let ids: { signedReview: string; openReview: string; demoTrace: string; product: string; limits: string; profile: string };
+let ids: { signedReview: string; openReview: string; shipmentReview: string; demoTrace: string; product: string; limits: string; profile: string };
 
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
@@ -42,7 +42,9 @@ beforeAll(async () => {
   const second = await runAndStoreReview({ title: "Route 7, lumped check", traceId: first.traceId, productId: first.productId, limitsId: first.limitsId, model: "lumped" }, TEST_ACTOR);
   if (!second.ok) throw new Error(second.message);
   const profile = (await db.definition.findFirst({ where: { kind: "profile" }, orderBy: { createdAt: "desc" } }))!;
-  ids = { signedReview: first.id, openReview: second.reviewId, demoTrace: first.traceId, product: first.productId, limits: first.limitsId, profile: profile.id };
+  // the demo shipment's review of the same trace (lib/services/demo.ts): a forger must re-run it too
+  const shipmentReview = (await db.shipmentReview.findFirstOrThrow()).reviewId;
+  ids = { signedReview: first.id, openReview: second.reviewId, shipmentReview, demoTrace: first.traceId, product: first.productId, limits: first.limitsId, profile: profile.id };
   await db.$disconnect();
 }, 120_000);
 
@@ -367,7 +369,7 @@ describe("a full forgery (readings lowered, hashes and series recomputed, review
       const imp = importCsv(bytes);
       const f64 = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
       d.prepare(`UPDATE "Trace" SET "original" = ?, "sha256" = ?, "timesS" = ?, "airC" = ? WHERE "id" = ?`).run(bytes, sha256Hex(bytes), f64(imp.series.t_s), f64(imp.series.air_C), ids.demoTrace);
-      for (const id of [ids.signedReview, ids.openReview]) {
+      for (const id of [ids.signedReview, ids.openReview, ids.shipmentReview]) {
         const r = rawReview(d, id);
         const def = (x: string) => JSON.parse(d.prepare(`SELECT "body" FROM "Definition" WHERE "id" = ?`).pluck().get(x) as string);
         const comp = runReview({ series: imp.series, product: def(r.productId), limits: def(r.limitsId), options: r.options as never, gapMultiple: imp.settings.gapMultiple });
@@ -384,7 +386,7 @@ describe("a full forgery (readings lowered, hashes and series recomputed, review
         editDetails(d, latestEntryOf(d, "trace", ids.demoTrace), (x) => {
           x.sha256 = sha256Hex(bytes);
         });
-        for (const id of [ids.signedReview, ids.openReview]) resealRow(d, "review", id);
+        for (const id of [ids.signedReview, ids.openReview, ids.shipmentReview]) resealRow(d, "review", id);
         rehashChain(d, opts);
       }
     });
@@ -395,7 +397,7 @@ describe("a full forgery (readings lowered, hashes and series recomputed, review
     forge(file, { rehash: false });
     const { code, report } = await verify(file);
     expect(code).toBe(1);
-    expect(report.findings.filter((f) => f.kind === "row-altered").map((f) => f.row).sort()).toEqual([ids.demoTrace, ids.signedReview, ids.openReview].sort());
+    expect(report.findings.filter((f) => f.kind === "row-altered").map((f) => f.row).sort()).toEqual([ids.demoTrace, ids.signedReview, ids.openReview, ids.shipmentReview].sort());
   });
 
   it("with every entry fixed and the chain re-hashed, but without the key: the signatures fail", async () => {
@@ -605,7 +607,9 @@ describe("upgrading a database written before entries carried content hashes and
     sql(file, (d) => {
       d.exec(`DROP TRIGGER "AuditEntry_no_delete"; DROP TRIGGER "AuditEntry_no_update"; DROP TRIGGER "AuditSignature_no_delete"`);
       d.exec(`DELETE FROM "AuditEntry" WHERE "action" = 'key'; DELETE FROM "AuditSignature"`);
-      for (const e of d.prepare(`SELECT "seq", "details" FROM "AuditEntry"`).all() as { seq: number; details: string }[]) {
+      // only the tables of that time: shipments, lanes and the logger register (issue 15) came with content hashes,
+      // and the demo's shipment rows keep theirs
+      for (const e of d.prepare(`SELECT "seq", "details" FROM "AuditEntry" WHERE "entity" IN ('trace', 'definition', 'review')`).all() as { seq: number; details: string }[]) {
         const x = JSON.parse(e.details) as Record<string, unknown>;
         delete x.contentSha256;
         d.prepare(`UPDATE "AuditEntry" SET "details" = ? WHERE "seq" = ?`).run(JSON.stringify(x), e.seq);
