@@ -21,19 +21,21 @@ export interface CurveLimit {
  * A design curve: the governing rule's measure against the design variable, in the user's units, with
  * the rule's limit line, the feasible range shaded and the chosen value marked.
  */
-export function CurveChart({ points, xLabel, yLabel, chosen, limits = [], note }: { points: CurvePointView[]; xLabel: string; yLabel: string; chosen: number | null; limits?: CurveLimit[]; note?: string | null }) {
+/**
+ * `feasible` is the range to shade, as the result states it (from the boundary value, not from the curve's first
+ * passing point, which may lie a whole curve step further on).
+ */
+export function CurveChart({ points, xLabel, yLabel, chosen, feasible, limits = [], note }: { points: CurvePointView[]; xLabel: string; yLabel: string; chosen: number | null; feasible: [number, number] | null; limits?: CurveLimit[]; note?: string | null }) {
   const W = 760, H = 300, M = { top: 14, right: 150, bottom: 44, left: 60 };
   const x = d3.scaleLinear().domain(d3.extent(points, (p) => p.x) as [number, number]).range([M.left, W - M.right]);
   const ys = points.map((p) => p.y).filter(Number.isFinite).concat(limits.map((l) => l.value));
   const y = d3.scaleLinear().domain(d3.extent(ys) as [number, number]).nice().range([H - M.bottom, M.top]);
   const line = d3.line<CurvePointView>().defined((p) => Number.isFinite(p.y)).x((p) => x(p.x)).y((p) => y(p.y))(points) ?? "";
-  const feasible = points.filter((p) => p.feasible);
-  const fx = feasible.length ? (d3.extent(feasible, (p) => p.x) as [number, number]) : null;
   const fmt = (v: number) => Number(v.toPrecision(4)).toString();
   return (
     <figure className="chart" data-testid="curve-chart" style={{ margin: 0 }}>
       <svg viewBox={`0 0 ${W} ${H}`} role="img" aria-label={`${yLabel} against ${xLabel}`}>
-        {fx && <rect x={x(fx[0])} y={M.top} width={Math.max(1, x(fx[1]) - x(fx[0]))} height={H - M.top - M.bottom} fill="#e4f1e6"><title>every rule passes</title></rect>}
+        {feasible && <rect data-testid="feasible-range" x={x(feasible[0])} y={M.top} width={Math.max(1, x(feasible[1]) - x(feasible[0]))} height={H - M.top - M.bottom} fill="#e4f1e6"><title>every rule passes</title></rect>}
         {y.ticks(5).map((t) => (
           <g key={`y${t}`}><line x1={M.left} x2={W - M.right} y1={y(t)} y2={y(t)} stroke="#eef0f3" /><text x={M.left - 6} y={y(t)} dy="0.32em" textAnchor="end" fontSize={11} fill="#5b6575">{t}</text></g>
         ))}

@@ -68,6 +68,12 @@ export interface SizingResult {
   chart: GoverningCurve | null;
   /** the most favourable end of the range (the largest thickness or coolant mass, the coldest start) */
   best_x: number;
+  /**
+   * the range the result calls feasible, SI, lowest first: from the boundary value to the best end (for a colder
+   * start, from the coldest start to the value); what a chart shades, rather than the coarse curve's first
+   * passing point (21 points over 1–150 mm are 7.45 mm apart). Null when no value passes.
+   */
+  feasible_range: [number, number] | null;
   runs: number;
   /** the guard band the rules were judged with (the limit set's sensor accuracy), K */
   guard_K: number;
@@ -163,6 +169,7 @@ export function size(input: SizingInput): SizingResult {
       variable: describeVariable(variable), display, value, feasible: value !== null, metric_at_value: e ? e.metric : null, metric: metricName, curve,
       core_at_value: e ? e.core : null, precision, reason: [reason, ...warnings].join("; "), rule_notes: notes, governing,
       chart: rule && at ? governingCurve(rule, u, at.rules[rule.id]!) : null, best_x, runs, guard_K: u,
+      feasible_range: value === null ? null : up ? [value, max] : [min, value],
     };
   };
   const ruleList = (g: SizingResult["governing"]) => g.map((f) => (f.status === "fail" ? `rule ${f.id} ${f.reason}` : `rule ${f.id} is inconclusive, ${f.reason}`)).join("; ");

@@ -42,6 +42,20 @@ export function withValue(product: Product, pack: Pack | undefined, v: DesignVar
   return { product, pack: { ...pack, coolants: pack.coolants.map((c, i) => (i === v.index ? { ...c, mass_kg: x } : c)) } };
 }
 
+/** The variable's value as the definitions give it (SI): what a study runs at unless told otherwise. */
+export function valueOf(product: Product, pack: Pack | undefined, v: DesignVariable): number {
+  if (v.kind === "product") return product.initial_C;
+  if (!pack) throw new Error(`${describeVariable(v)} needs a pack`);
+  if (v.kind === "layer") {
+    const layer = pack.layers[v.index];
+    if (!layer) throw new Error(`the pack has no layer ${v.index + 1}`);
+    return layer.thickness_m;
+  }
+  const coolant = pack.coolants[v.index];
+  if (!coolant) throw new Error(`the pack has no coolant ${v.index + 1}`);
+  return coolant.mass_kg;
+}
+
 /** How a design variable reads to the user: its name in their words, the display unit and its factor from SI. */
 export interface VariableDisplay {
   /** "EPS wall thickness", "gel pack mass", "product initial temperature" */
@@ -60,6 +74,11 @@ export function displayOf(v: DesignVariable, pack: Pack | undefined): VariableDi
   if (v.kind === "layer") return make(`${pack?.layers[v.index]?.name ?? `layer ${v.index + 1}`} thickness`, "mm", 1000, 1);
   if (v.kind === "coolant") return make(`${pack?.coolants[v.index]?.name ?? `coolant ${v.index + 1}`} mass`, "g", 1000, 0);
   return make("product initial temperature", "°C", 1, 2);
+}
+
+/** "EPS wall thickness 33.7 mm": which design value a study ran at, in the user's words and unit. */
+export function designValueText(x: number, d: VariableDisplay): string {
+  return `${d.name} ${formatVariable(x, d)}`;
 }
 
 /** "33.7 mm": an SI value of the variable in the user's unit, to the search precision. */

@@ -2,7 +2,7 @@ import { describe, it, expect } from "vitest";
 import { size } from "@/lib/design/sizing";
 import { monteCarlo } from "@/lib/uncertainty/monteCarlo";
 import { profileSeries, EXAMPLE_PROFILES, profileSchema } from "@/lib/design/profile";
-import { parseVariable } from "@/lib/design/vary";
+import { designValueText, displayOf, parseVariable, valueOf } from "@/lib/design/vary";
 import { governingCurve } from "@/lib/design/governing";
 import { predict } from "@/lib/thermal/predict";
 import type { Pack, Product } from "@/lib/thermal/definitions";
@@ -40,6 +40,21 @@ describe("size", () => {
     expect(r.curve.filter((c) => c.feasible).every((c) => c.x >= exact - 1e-9)).toBe(true);
   });
 
+  it("size's feasible_range starts at the boundary value, not at the coarse curve's first passing point", () => {
+    const r = size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.15 });
+    // the curve's points are (150 − 1)/20 = 7.45 mm apart; the analytic boundary (20.82 mm) lies between
+    // 15.9 and 23.35 mm, so the first passing point is 2.4 mm beyond it
+    const firstPassing = r.curve.find((c) => c.feasible)!.x;
+    expect(firstPassing).toBeCloseTo(0.02335, 12);
+    // the analytic boundary, 0.0015·(86400/(18000·ln(23/17)) − 2) = 20.82 mm, on the 0.1 mm grid on the safe side
+    expect(r.value).toBe(0.0209);
+    expect(r.feasible_range).toEqual([0.0209, 0.15]);
+    // a colder start helps: the range runs from the coldest start to the warmest feasible one
+    const warm = size({ series, product, pack, limits, variable: parseVariable("product:initial_C")!, min: -40, max: 8 });
+    expect(warm.feasible_range).toEqual([-40, warm.value]);
+    expect(size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.01 }).feasible_range).toBeNull();
+  });
+
   it("size reports a range that holds no feasible value", () => {
     const r = size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.01 });
     expect(r).toMatchObject({ feasible: false, value: null });
@@ -58,6 +73,18 @@ describe("size", () => {
     const r = size({ series, product, pack, limits, variable: parseVariable("product:initial_C")!, min: -40, max: 8 });
     expect(r.value!).toBeLessThanOrEqual(exact + 1e-9);
     expect(exact - r.value!).toBeLessThanOrEqual(0.01);
+  });
+});
+
+describe("valueOf and designValueText", () => {
+  it("valueOf reads the variable's value from the definitions, and designValueText says it in the user's unit", () => {
+    const v = parseVariable("layer:1:thickness_m")!;
+    // the fixture's foam layer is 10 mm thick (invented fixture, above)
+    expect(valueOf(product, pack, v)).toBe(0.01);
+    expect(designValueText(0.0337, displayOf(v, pack))).toBe("foam thickness 33.7 mm");
+    expect(valueOf(product, pack, parseVariable("product:initial_C")!)).toBe(2);
+    expect(designValueText(2, displayOf(parseVariable("product:initial_C")!, pack))).toBe("product initial temperature 2.00 °C");
+    expect(() => valueOf(product, pack, parseVariable("coolant:1:mass_kg")!)).toThrow("the pack has no coolant 1");
   });
 });
 

@@ -3,7 +3,7 @@
 import { useEffect, useRef, useState } from "react";
 import type { Pack, Product } from "@/lib/thermal/definitions";
 import type { LimitSet } from "@/lib/exposure/limits";
-import { displayOf, type DesignVariable, type VariableDisplay } from "@/lib/design/vary";
+import { designValueText, displayOf, parseVariable, valueOf, type DesignVariable, type VariableDisplay } from "@/lib/design/vary";
 import type { SizingResult } from "@/lib/design/sizing";
 import { independentRules, type RuleNote } from "@/lib/design/ruleNotes";
 import { SizeOutcome } from "./SizeOutcome";
@@ -18,7 +18,7 @@ import { mayConduct, overCapMessage, studyCostSteps } from "@/lib/uncertainty/co
 interface Props { t_s: number[]; air_C: number[]; product: Product; pack?: Pack; limits: LimitSet }
 type Run = { kind: "idle" } | { kind: "running"; what: string; fraction: number; started: number } | { kind: "error"; message: string };
 type SizeResult = Omit<SizingResult, "core_at_value"> & { core_at_value: number[] | null };
-interface McResult { samples: number; seed: number; p05: number[]; p50: number[]; p95: number[]; deterministic: number[]; half_width_K: number; fail_fraction: Record<string, number>; redraws: number }
+interface McResult { samples: number; seed: number; p05: number[]; p50: number[]; p95: number[]; deterministic: number[]; half_width_K: number; fail_fraction: Record<string, number>; redraws: number; /** the design value it ran at, in words ("EPS wall thickness 33.8 mm, the boundary found above") */ at: string }
 interface InputRow { path: string; plusminus: string; percent: boolean; distribution: "normal" | "uniform" }
 
 /** The numeric fields of the product and pack that can carry an uncertainty, as paths. */
@@ -54,6 +54,12 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
   const [mc, setMc] = useState<McResult | null>(null);
   const paths = numericPaths(product, pack);
   const [inputs, setInputs] = useState<InputRow[]>([{ path: (paths.find((p) => /^pack\.layers\.\d+\.k_W_mK$/.test(p)) ?? paths.find((p) => /k_W_mK|h_outside/.test(p))) ?? paths[0]!, plusminus: "10", percent: true, distribution: "normal" }]);
+  // The design value a Monte Carlo study runs at: the boundary sizing found (when it found one), or the definitions as stored.
+  const [mcAt, setMcAt] = useState<"boundary" | "defined">("boundary");
+  const boundaryVariable = sizeResult?.value != null ? parseVariable(sizeResult.variable) : null;
+  const boundary = boundaryVariable && sizeResult?.value != null ? { variable: boundaryVariable, value: sizeResult.value, text: `${designValueText(sizeResult.value, sizeResult.display)}, the boundary found above` } : null;
+  const definedText = `${designValueText(valueOf(product, pack, chosen.v), chosen.d)}, as the ${chosen.v.kind === "product" ? "product" : "pack"} defines it`;
+  const runAt = mcAt === "boundary" && boundary ? boundary : null;
   const [samples, setSamples] = useState("500");
   const [seed, setSeed] = useState("1");
   const worker = useRef<Worker | null>(null);
@@ -101,7 +107,8 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
     const conduction = mayConduct("auto", product);
     const refusal = overCapMessage(studyCostSteps(t_s.length, n, conduction), conduction, "this page runs");
     if (refusal) return setRun({ kind: "error", message: refusal });
-    start("Monte Carlo", { type: "mc", spec }, (r) => setMc(r as McResult));
+    const at = runAt ? runAt.text : definedText;
+    start("Monte Carlo", { type: "mc", spec, ...(runAt ? { at: { variable: runAt.variable, value: runAt.value } } : {}) }, (r) => setMc({ ...(r as Omit<McResult, "at">), at }));
   };
   const busy = run.kind === "running";
 
@@ -145,12 +152,19 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
         </table>
         <div style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end", marginTop: "0.6rem" }}>
           <button type="button" className="secondary" onClick={() => setInputs([...inputs, { path: paths[0]!, plusminus: "5", percent: true, distribution: "normal" }])}>Add an input</button>
+          <label>Run at
+            <select value={runAt ? "boundary" : "defined"} onChange={(e) => setMcAt(e.target.value as "boundary" | "defined")} data-testid="mc-at">
+              {boundary && <option value="boundary">{boundary.text}</option>}
+              <option value="defined">{definedText}</option>
+            </select>
+          </label>
           <label>Samples<input value={samples} onChange={(e) => setSamples(e.target.value)} size={6} data-testid="mc-samples" /></label>
           <label>Seed<input value={seed} onChange={(e) => setSeed(e.target.value)} size={6} /></label>
           <button type="button" onClick={runMc} disabled={busy}>Run</button>
         </div>
         {mc && (
           <div data-testid="mc-result" style={{ marginTop: "0.8rem" }}>
+            <p data-testid="mc-design-value">Run at {mc.at}.</p>
             <p>{mc.samples} samples (seed {mc.seed}); the 5–95 % band of the core is at most ±{fixed(mc.half_width_K, 2)} K wide{mc.redraws ? `; ${mc.redraws} non-physical draws were repeated` : ""}.</p>
             <ul>{Object.entries(mc.fail_fraction).map(([id, f]) => <li key={id}>rule {id} fails in {(f * 100).toFixed(1)} % of samples</li>)}</ul>
             <TemperatureChart title="Core temperature band" height={260} times_ms={t_s.map((t) => t * 1000)}

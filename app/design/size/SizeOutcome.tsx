@@ -31,7 +31,7 @@ export function SizeOutcome({ result, t_s, air_C, limits }: { result: SizeResult
           <ul className="warnings" data-testid="rule-notes">{result.rule_notes.map((n) => <li key={n.id}>{n.advice}.</li>)}</ul>
         </>
       )}
-      <CurveChart points={points} xLabel={d.label} yLabel={chart ? chart.label : result.metric} chosen={result.value === null ? null : result.value * d.factor} limits={lines} note={chart?.note} />
+      <CurveChart points={points} xLabel={d.label} yLabel={chart ? chart.label : result.metric} chosen={result.value === null ? null : result.value * d.factor} feasible={result.feasible_range ? [result.feasible_range[0] * d.factor, result.feasible_range[1] * d.factor] : null} limits={lines} note={chart?.note} />
       {result.core_at_value && (
         <TemperatureChart title="Air and predicted core at the boundary value" height={240} times_ms={t_s.map((t) => t * 1000)}
           lines={[{ label: "Air (profile)", color: "var(--air)", values: air_C }, { label: `Core at ${formatVariable(result.value!, d)}`, color: "var(--core)", values: result.core_at_value }]}
