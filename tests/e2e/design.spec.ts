@@ -52,8 +52,24 @@ test("the demo tote sizes out of the box: the value in mm on the 0.1 mm grid, th
   await expect(page.getByTestId("curve-note")).toHaveText("4.5 °C is rule core-above-5C's 5 °C threshold less the 0.5 K guard band");
   await expect(page.getByTestId("curve-limit-line")).toContainText("core-above-5C:≤ 120 min in all");
   await expect(page.getByTestId("size-result")).not.toContainText("layer:1:thickness_m");
+  // the green feasible range starts exactly at the boundary line, not at the curve's first passing point (7.45 mm apart)
+  const chosenX = Number(await page.getByTestId("chosen-line").locator("line").getAttribute("x1"));
+  expect(Number(await page.getByTestId("feasible-range").getAttribute("x"))).toBeCloseTo(chosenX, 6);
   await page.getByTestId("size-result").scrollIntoViewIfNeeded();
   await page.screenshot({ path: "test-results/sizing.png", fullPage: true });
+
+  // Monte Carlo after sizing: the sizing result stays, and the study says which wall it ran at (the boundary found)
+  const headline = `Smallest EPS wall thickness that passes every rule: ${(expected.value! * 1000).toFixed(1)} mm`;
+  await expect(page.getByTestId("mc-at").locator("option:checked")).toHaveText(`EPS wall thickness ${(expected.value! * 1000).toFixed(1)} mm, the boundary found above`);
+  // the pack as stored is the other choice: the demo tote's 25 mm wall (public/demo/tote.pack.json)
+  await expect(page.getByTestId("mc-at").locator("option")).toHaveText([`EPS wall thickness ${(expected.value! * 1000).toFixed(1)} mm, the boundary found above`, "EPS wall thickness 25.0 mm, as the pack defines it"]);
+  await page.getByTestId("mc-samples").fill("100");
+  await page.getByRole("button", { name: "Run" }).click();
+  await expect(page.getByTestId("mc-result")).toContainText("100 samples (seed 1)");
+  await expect(page.getByTestId("mc-design-value")).toHaveText(`Run at EPS wall thickness ${(expected.value! * 1000).toFixed(1)} mm, the boundary found above.`);
+  await expect(page.getByTestId("size-headline")).toHaveText(headline);
+  await expect(page.getByTestId("feasible-range")).toBeVisible();
+  await page.screenshot({ path: "test-results/sizing-then-monte-carlo.png", fullPage: true });
 });
 
 test("sizing against a plan with an air rule says, before and after the search, that no thickness can change it", async ({ page }) => {
@@ -88,6 +104,8 @@ test("Monte Carlo shows a filled 5–95 % band with the nominal line and the lim
   await page.getByRole("button", { name: "Run" }).click();
   const result = page.getByTestId("mc-result");
   await expect(result).toContainText("100 samples (seed 1)");
+  // no sizing yet: the study runs at the pack as stored, and says so
+  await expect(page.getByTestId("mc-design-value")).toHaveText("Run at EPS wall thickness 25.0 mm, as the pack defines it.");
   const band = result.getByTestId("band-core-5-95-band");
   await expect(band).toHaveAttribute("d", /^M.*Z$/);
   expect(await band.getAttribute("fill")).not.toBe("none");
