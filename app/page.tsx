@@ -47,7 +47,7 @@ export default async function HomePage({ searchParams }: { searchParams: Promise
         </p>
       </section>
       <section className="card">
-        <form className="no-print" style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end", marginBottom: "1rem" }} aria-label="Filter reviews">
+        <form className="filters no-print" aria-label="Filter reviews">
           <label>Suggested outcome
             <select name="outcome" defaultValue={f.outcome ?? ""}>
               <option value="">any</option><option value="accept">accept</option><option value="hold">hold for review</option><option value="reject">reject</option>
