@@ -6,10 +6,11 @@ import { ChainCheck } from "./ChainCheck";
 import { displayZone } from "@/app/displayZone";
 import { formatTime, zoneLabel } from "@/lib/display/time";
 import { auditSummary } from "@/lib/review/auditSummary";
+import { HashText } from "@/app/components/HashText";
 
 export const dynamic = "force-dynamic";
 
-const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review", key: "signing key", chain: "audit chain" };
+const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review", key: "signing key", chain: "audit chain", user: "account", token: "API token", run: "run" };
 
 export default async function AuditPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const raw = await searchParams;
@@ -51,6 +52,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
         </p>
         <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />
         {list.rows.length > 0 && (
+          <div className="table-scroll">
           <table data-testid="audit-table">
             <thead><tr><th className="num">#</th><th>When</th><th>Action</th><th>Record</th><th>By</th><th>Details</th><th>Hash</th></tr></thead>
             <tbody>
@@ -72,11 +74,12 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                   </td>
                   <td>{e.actor}</td>
                   <td><span data-testid="audit-summary">{auditSummary(e.action, e.details)}</span><details><summary>all details</summary><pre style={{ whiteSpace: "pre-wrap", fontSize: "0.78rem", margin: 0 }}>{JSON.stringify(e.details, null, 1)}</pre></details></td>
-                  <td style={{ whiteSpace: "nowrap" }}><code title={`${e.hash}\nprevious ${e.prevHash}`} style={{ fontSize: "0.8rem" }}>{e.hash.slice(0, 10)}…</code></td>
+                  <td><HashText hash={e.hash} title={`${e.hash}\nprevious ${e.prevHash}`} shown={10} testId="audit-hash" /></td>
                 </tr>
               ))}
             </tbody>
           </table>
+          </div>
         )}
         {list.rows.length === 0 && <p className="muted">No entries match.</p>}
         <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />

@@ -75,8 +75,8 @@ async function auditWhere(f: AuditFilter) {
   };
 }
 
-/** Names and links for the objects of a batch of entries, in three queries whatever the batch size. */
-async function subjects(entries: ReadonlyArray<{ entity: string; entityId: string }>): Promise<Map<string, AuditSubject>> {
+/** Names and links for the objects of a batch of entries, one query per kind of object whatever the batch size. */
+async function subjects(entries: ReadonlyArray<{ entity: string; entityId: string; action: string; details: unknown }>): Promise<Map<string, AuditSubject>> {
   const ids = (entity: string) => [...new Set(entries.filter((e) => e.entity === entity).map((e) => e.entityId))];
   const [traces, defs, reviews, monitors, alerts, shipments, lanes, loggers, shipmentLoggers, shipmentReviews] = await Promise.all([
     db.trace.findMany({ where: { id: { in: ids("trace") } }, select: { id: true, name: true } }),
@@ -89,6 +89,10 @@ async function subjects(entries: ReadonlyArray<{ entity: string; entityId: strin
     db.logger.findMany({ where: { id: { in: ids("logger") } }, select: { id: true, serial: true } }),
     db.shipmentLogger.findMany({ where: { id: { in: ids("shipmentLogger") } }, select: { id: true, shipmentId: true, ordinal: true, position: true } }),
     db.shipmentReview.findMany({ where: { id: { in: ids("shipmentReview") } }, select: { id: true, shipmentId: true, reviewId: true } }),
+  ]);
+  const [users, tokens] = await Promise.all([
+    db.user.findMany({ where: { id: { in: ids("user") } }, select: { id: true, name: true, email: true } }),
+    db.apiToken.findMany({ where: { id: { in: ids("token") } }, select: { id: true, name: true, prefix: true } }),
   ]);
   const out = new Map<string, AuditSubject>();
   for (const t of traces) out.set(`trace:${t.id}`, { name: t.name, href: `/traces/${t.id}` });
@@ -104,6 +108,19 @@ async function subjects(entries: ReadonlyArray<{ entity: string; entityId: strin
   // an alert delivery attempt (a "resume" entry's subject): the attempt, its target and the monitor
   const deliveries = await db.alertDelivery.findMany({ where: { id: { in: ids("delivery") } }, select: { id: true, attempt: true, target: true, alert: { select: { monitorId: true, monitor: { select: { name: true } } } } } });
   for (const d of deliveries) out.set(`delivery:${d.id}`, { name: `delivery attempt ${d.attempt} to ${d.target}, ${d.alert.monitor.name}`, href: `/monitors/${d.alert.monitorId}` });
+  for (const u of users) out.set(`user:${u.id}`, { name: `${u.name} <${u.email}>`, href: "/users" });
+  for (const t of tokens) out.set(`token:${t.id}`, { name: `${t.name} (${t.prefix}…)`, href: "/tokens" });
+  // a refused sign-in for an address no account has is recorded under the address typed (lib/services/access.ts)
+  for (const e of entries) {
+    if (e.entity !== "user" || out.has(`user:${e.entityId}`) || e.action !== "sign-in-refused") continue;
+    out.set(`user:${e.entityId}`, { name: `${e.entityId} (no account has this address)`, href: null });
+  }
+  // a run is not stored (only its cancellation is recorded): named from the entry's own details
+  for (const e of entries) {
+    if (e.entity !== "run") continue;
+    const d = (e.details ?? {}) as { kind?: unknown; title?: unknown };
+    out.set(`run:${e.entityId}`, { name: [typeof d.kind === "string" ? d.kind : null, typeof d.title === "string" ? `“${d.title}”` : null].filter(Boolean).join(" ") || null, href: null });
+  }
   // a signing key is named by its fingerprint (the entry's id); it has no page
   for (const fp of ids("key")) out.set(`key:${fp}`, { name: `signing key ${fp.slice(0, 16)}…`, href: null });
   return out;

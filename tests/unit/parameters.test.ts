@@ -63,4 +63,12 @@ describe("auditSummary", () => {
     expect(auditSummary("key", { fingerprint: "f" })).toBe("");
     expect(auditSummary("sign", null)).toBe("");
   });
+  it("auditSummary says why a sign-in was refused and where it came from", async () => {
+    const { auditSummary } = await import("@/lib/review/auditSummary");
+    // detail shapes as lib/services/access.ts records them (invented address)
+    expect(auditSummary("sign-in-refused", { email: "nobody@example.test", address: "127.0.0.1", reason: "unknown-email" })).toBe("refused: no account has this address, from 127.0.0.1");
+    expect(auditSummary("sign-in-refused", { email: "a@example.test", address: "127.0.0.1", reason: "wrong-password" })).toBe("refused: wrong password, from 127.0.0.1");
+    expect(auditSummary("sign-in", { address: "127.0.0.1" })).toBe("from 127.0.0.1");
+    expect(auditSummary("set-role", { email: "a@example.test", from: "auditor", to: "reviewer" })).toBe("role auditor → reviewer");
+  });
 });
