@@ -21,7 +21,7 @@ export function forecastDeadbandMin(lead_min: number): number {
 }
 
 /**
- * The conditions that hold now: the forecast reaches a limit within `lead_min` (including already beyond it;
+ * The conditions that hold now: the forecast crosses a rule's threshold within `lead_min` (including already beyond it;
  * for an alert already open, within the lead plus its deadband), a rule fails, the monitor is stale.
  */
 export function alertConditions(rules: readonly RuleRunning[], fc: Forecast | null, stale: Staleness, lead_min: number, openKeys: readonly string[] = []): AlertCondition[] {
@@ -29,7 +29,7 @@ export function alertConditions(rules: readonly RuleRunning[], fc: Forecast | nu
   const forecastOpen = fc?.limit_rule ? openKeys.includes(`forecast:${fc.limit_rule}`) : false;
   const within = lead_min + (forecastOpen ? forecastDeadbandMin(lead_min) : 0);
   if (fc && fc.minutes_to_limit !== null && fc.minutes_to_limit <= within && fc.limit_rule) {
-    out.push({ key: `forecast:${fc.limit_rule}`, kind: "forecast", rule: fc.limit_rule, message: fc.minutes_to_limit === 0 ? fc.reason : `limit within ${Math.round(fc.minutes_to_limit)} min (alert lead ${lead_min} min): ${fc.reason}` });
+    out.push({ key: `forecast:${fc.limit_rule}`, kind: "forecast", rule: fc.limit_rule, message: fc.minutes_to_limit === 0 ? fc.reason : `threshold crossed within ${Math.round(fc.minutes_to_limit)} min (alert lead ${lead_min} min): ${fc.reason}` });
   }
   for (const r of rules) if (r.status_so_far === "fail") out.push({ key: `rule-fail:${r.id}`, kind: "rule-fail", rule: r.id, message: `rule ${r.id} fails: ${r.reason}` });
   if (stale.stale) out.push({ key: "stale", kind: "stale", rule: null, message: `no reading for ${span(stale.silent_s)} (readings usually arrive every ${span(stale.interval_s ?? 0)})` });

@@ -3,3 +3,4 @@ export * from "./forecast";
 export * from "./stale";
 export * from "./alerts";
 export * from "./body";
+export * from "./words";

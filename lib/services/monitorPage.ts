@@ -1,5 +1,6 @@
 import { displaySeries } from "../display/series";
 import { isThresholdRule } from "../exposure/limits";
+import { thresholdWords, type ThresholdWords } from "../live/words";
 import { alertHistory, getMonitor } from "../db/monitors";
 import { getDefinition } from "../db/definitions";
 import { liveEntry } from "./liveRegistry";
@@ -31,6 +32,8 @@ export interface LivePayload {
   state: MonitorStateJson;
   rules: Array<{ id: string; channel: string; status_so_far: string; cumulative_min: number; remaining_min?: number; reason: string }>;
   forecast: { channel?: string; threshold_C?: number; crossing_ms: number | null } | null;
+  /** thresholds beyond now (with each rule's allowance) and the forecast, in words (lib/live/words.ts) */
+  words: ThresholdWords;
   stale: { stale: boolean; silent_s: number; interval_s: number | null };
   model: { path: string; tau_s: number; reason: string; step_s: number | null } | null;
   alerts: Array<{ id: string; key: string; kind: string; rule: string | null; message: string; raisedAt: string; clearedAt: string | null; deliveries: Array<{ id: string; event: string; channel: string; target: string; attempt: number; at: string; ok: boolean; httpStatus: number | null; error: string | null; nextAt: string | null }> }>;
@@ -68,6 +71,9 @@ export async function livePayload(id: string, now = new Date()): Promise<LivePay
   }
   const [product, pack, limits] = await Promise.all([getDefinition<{ name: string }>(m.productId), m.packId ? getDefinition<{ name: string }>(m.packId) : null, getDefinition<{ name: string }>(m.limitsId)]);
   const history = await alertHistory(id);
+  const n = live.length;
+  const last = n ? { core: live.core_C[n - 1]!, surface: live.surface_C[n - 1]!, mean: live.mean_C[n - 1]! } : null;
+  const words = thresholdWords(entry.limits, v.rules, last, v.forecast, m.alertLeadMin);
   const fcHit = v.forecast && v.forecast.minutes_to_limit !== null ? live.t_s[live.length - 1]! * 1000 + v.forecast.minutes_to_limit * 60_000 : null;
   return {
     id: m.id, name: m.name, status: m.status, shipmentId: m.shipmentId, serial: m.serial,
@@ -79,6 +85,7 @@ export async function livePayload(id: string, now = new Date()): Promise<LivePay
     state: stateJson(v),
     rules: v.rules.map((r) => ({ id: r.id, channel: r.channel, status_so_far: r.status_so_far, cumulative_min: r.cumulative_min, ...(r.remaining_min !== undefined ? { remaining_min: r.remaining_min } : {}), reason: r.reason })),
     forecast: v.forecast ? { channel: v.forecast.channel, threshold_C: v.forecast.threshold_C, crossing_ms: fcHit } : null,
+    words,
     stale: { stale: v.stale.stale, silent_s: v.stale.silent_s, interval_s: v.stale.interval_s },
     model: live.model ? { path: live.model.path, tau_s: live.model.screening.tau_s, reason: live.model.screening.reason, step_s: live.model.step_s } : null,
     alerts: history.map((a) => ({

@@ -65,18 +65,19 @@ export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; z
               <dt>Last reading</dt><dd>{s.last_reading ? `${formatTime(new Date(s.last_reading.t), zone)}: air ${fixed(s.last_reading.air_C, 2)} °C` : ""}</dd>
               <dt>Core (predicted)</dt><dd data-testid="core-now">{s.core_C !== null ? `${fixed(s.core_C, 2)} °C` : ""}</dd>
               {s.surface_C !== undefined && (<><dt>Surface (predicted)</dt><dd>{fixed(s.surface_C, 2)} °C</dd></>)}
+              <dt>Thresholds now</dt>
+              <dd data-testid="threshold-now">
+                {p.words.now.length === 0 ? (
+                  <span className="muted">inside every core, surface and mean threshold at the last reading</span>
+                ) : (
+                  <ul style={{ margin: 0, paddingLeft: "1rem" }}>
+                    {p.words.now.map((w) => <li key={w.rule} className={w.usedUp ? "status-fail" : ""} data-testid={`threshold-now-${w.rule}`}>{w.text}</li>)}
+                  </ul>
+                )}
+              </dd>
               <dt>Forecast</dt>
               <dd data-testid="forecast">
-                {fc ? (
-                  fc.minutes_to_limit !== null ? (
-                    <strong className={fc.minutes_to_limit <= p.alertLeadMin ? "status-fail" : ""}>
-                      {fc.minutes_to_limit === 0 ? "limit already reached" : `limit in ${minutes(fc.minutes_to_limit)}`}
-                      {fc.limit_rule ? ` (rule ${fc.limit_rule})` : ""}
-                    </strong>
-                  ) : (
-                    <strong>no time given</strong>
-                  )
-                ) : "needs readings"}
+                <strong className={p.words.soon ? "status-fail" : ""}>{p.words.forecast}</strong>
                 {fc && <span className="muted"> · {fc.reason}; horizon {minutes(fc.horizon_min)}</span>}
               </dd>
               {p.model && (<><dt>Model</dt><dd className="muted">{p.model.path === "exact" ? "exact lumped update" : `${p.model.path} network, internal step ${p.model.step_s?.toPrecision(2)} s`}; tau {minutes(p.model.tau_s / 60)}; {p.model.reason}</dd></>)}
