@@ -147,7 +147,8 @@ export function TemperatureChart({ times_ms, lines, thresholds = [], excursions 
         <line x1={M.left} x2={WIDTH - M.right} y1={plotBottom} y2={plotBottom} stroke="#aab3bf" />
         {guards.map(({ t, g }) => (
           <g key={`gb${t.value_C}-${g}`} data-testid="guard-band">
-            <title>guard band {t.label} ± {formatK(g)}</title>
+            {/* one string child: React 19 renders a <title> with several text children empty on the server (hydration error #418) */}
+            <title>{`guard band ${t.label} ± ${formatK(g)}`}</title>
             <rect x={M.left} width={WIDTH - M.left - M.right} y={y(t.value_C + g)} height={Math.max(1, y(t.value_C - g) - y(t.value_C + g))} fill={GUARD_FILL} />
             <line x1={M.left} x2={WIDTH - M.right} y1={y(t.value_C + g)} y2={y(t.value_C + g)} stroke="var(--limit)" strokeOpacity={0.35} strokeDasharray="1 3" />
             <line x1={M.left} x2={WIDTH - M.right} y1={y(t.value_C - g)} y2={y(t.value_C - g)} stroke="var(--limit)" strokeOpacity={0.35} strokeDasharray="1 3" />
