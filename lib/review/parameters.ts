@@ -129,14 +129,24 @@ export function readableNumber(x: number): string {
   return x.toPrecision(6).replace(/\.?0+e/, "e");
 }
 
-/** A limit rule in words: "core above 5 °C, at most 120 min in all". */
-export function describeRule(r: { kind?: string; channel?: string; model?: string; above_C?: number; below_C?: number; max_cumulative_min?: number; max_continuous_min?: number; max_peak_C?: number; max_log10_increase?: number; max_consumed_percent?: number }): string {
-  if (r.kind === "growth") return `growth of model ${r.model} on the ${r.channel ?? "core"}, at most ${r.max_log10_increase} log10 increase`;
-  if (r.kind === "shelf_life") return `shelf life${r.model ? ` (model ${r.model})` : ""} on the ${r.channel ?? "core"}, at most ${r.max_consumed_percent} % consumed`;
-  const parts = [`${r.channel} ${r.above_C !== undefined ? `above ${r.above_C}` : `below ${r.below_C}`} °C`];
+type RuleWords = { kind?: string; channel?: string; model?: string; above_C?: number; below_C?: number; max_cumulative_min?: number; max_continuous_min?: number; max_peak_C?: number; max_log10_increase?: number; max_consumed_percent?: number };
+
+/**
+ * What a threshold rule allows beyond its threshold, in words: "at most 180 min in all, at most 120 min at a
+ * stretch", "never beyond 8 °C", or "no time allowed" (a rule with no allowance allows no time beyond).
+ */
+export function ruleAllowance(r: RuleWords): string {
+  const parts: string[] = [];
   if (r.max_cumulative_min !== undefined) parts.push(`at most ${r.max_cumulative_min} min in all`);
   if (r.max_continuous_min !== undefined) parts.push(`at most ${r.max_continuous_min} min at a stretch`);
   if (r.max_peak_C !== undefined) parts.push(`never beyond ${r.max_peak_C} °C`);
-  if (parts.length === 1) parts.push("no time allowed");
+  if (parts.length === 0) parts.push("no time allowed");
   return parts.join(", ");
+}
+
+/** A limit rule in words: "core above 5 °C, at most 120 min in all". */
+export function describeRule(r: RuleWords): string {
+  if (r.kind === "growth") return `growth of model ${r.model} on the ${r.channel ?? "core"}, at most ${r.max_log10_increase} log10 increase`;
+  if (r.kind === "shelf_life") return `shelf life${r.model ? ` (model ${r.model})` : ""} on the ${r.channel ?? "core"}, at most ${r.max_consumed_percent} % consumed`;
+  return `${r.channel} ${r.above_C !== undefined ? `above ${r.above_C}` : `below ${r.below_C}`} °C, ${ruleAllowance(r)}`;
 }

@@ -85,6 +85,12 @@ test("a shipment: create, drop 4 files, confirm matching, run, matrix, sign off,
   await expect(matrix.locator("tbody tr")).toHaveCount(4);
   await expect(matrix.locator("tbody tr").nth(0)).toContainText("pass");
   await expect(matrix.locator("tbody tr").nth(2)).toContainText("fail");
+  // each rule column says what the rule allows, each cell the minutes beyond its threshold: logger 3's air is
+  // above 8 °C from 179.1 to 418.9 min (the 3 → 12 °C steps cross 8 °C 5/9 and 4/9 into their 2-min
+  // intervals), 239.8 min; logger 5 (8.3 °C) from 199.9 to 348.1 min, 148.2 min (tests/fixtures/shipment.ts)
+  await expect(page.getByTestId("rule-head-air-above-8C")).toHaveText("air-above-8Cair above 8 °C, no time allowed");
+  await expect(matrix).toContainText("239.8 min beyond");
+  await expect(matrix).toContainText("148.2 min beyond");
   await expect(page.getByTestId("load-chart")).toBeVisible();
   await expect(page.getByTestId("worst-excursions")).toContainText("3. middle top");
   await page.waitForTimeout(300);

@@ -1,5 +1,5 @@
 import { describe, it, expect } from "vitest";
-import { definitionParameters, readableNumber, unitOf, describeRule } from "@/lib/review/parameters";
+import { definitionParameters, readableNumber, unitOf, describeRule, ruleAllowance } from "@/lib/review/parameters";
 
 describe("definitionParameters", () => {
   it("definitionParameters lists every field of a pack with its unit from the SI suffix, items named and counted from 1", () => {
@@ -50,6 +50,15 @@ describe("definitionParameters", () => {
 
   it("describeRule says a rule in words", () => {
     expect(describeRule({ channel: "air", above_C: 8, max_cumulative_min: 180, max_continuous_min: 120 })).toBe("air above 8 °C, at most 180 min in all, at most 120 min at a stretch");
+    expect(describeRule({ channel: "core", below_C: -18 })).toBe("core below -18 °C, no time allowed");
+  });
+
+  it("ruleAllowance says what a threshold rule allows beyond its threshold, in minutes and °C as the limit set has them", () => {
+    // the demo plan's rules (public/demo/ready-meal.limits.json)
+    expect(ruleAllowance({ channel: "core", above_C: 5, max_cumulative_min: 120 })).toBe("at most 120 min in all");
+    expect(ruleAllowance({ channel: "core", above_C: 8, max_peak_C: 8 })).toBe("never beyond 8 °C");
+    expect(ruleAllowance({ channel: "air", above_C: 8, max_cumulative_min: 180, max_continuous_min: 120 })).toBe("at most 180 min in all, at most 120 min at a stretch");
+    expect(ruleAllowance({ channel: "core", above_C: 5 })).toBe("no time allowed");
   });
 });
 

@@ -13,6 +13,7 @@ import { ResistanceTable } from "@/app/products/ProductEditor";
 import { formatSpan, formatTime } from "@/lib/display/time";
 import { displaySeries } from "@/lib/display/series";
 import { fixed, sig, sigTrim } from "@/lib/display/numbers";
+import { ruleAllowance } from "@/lib/review/parameters";
 
 const OUTCOME_WORDS: Record<string, string> = { accept: "accept", hold: "hold for review", reject: "reject" };
 
@@ -205,12 +206,14 @@ export function HistoryCard({ review, zone }: { review: StoredReview; zone: stri
 
 export function RulesCard({ review, zone }: { review: StoredReview; zone: string }) {
   const r = review.result;
+  // each rule's allowance, from the limit set version the review ran on (the stored result keeps only the threshold)
+  const defined = new Map(((review.limits.body as { rules?: Array<{ id: string } & Parameters<typeof ruleAllowance>[0]> } | null)?.rules ?? []).map((x) => [x.id, x]));
   return (
     <section className="card">
       <h2 style={{ marginTop: 0 }}>Rules</h2>
       <table data-testid="rules-table">
         <thead>
-          <tr><th>Rule</th><th>Channel</th><th>Threshold</th><th className="num">Time beyond (min)</th><th className="num">Longest (min)</th><th className="num">Extreme °C</th><th>Status</th><th>Why</th></tr>
+          <tr><th>Rule</th><th>Channel</th><th>Threshold</th><th>Allowed beyond it</th><th className="num">Time beyond (min)</th><th className="num">Longest (min)</th><th className="num">Extreme °C</th><th>Status</th><th>Why</th></tr>
         </thead>
         <tbody>
           {r.rules.map((x) => (
@@ -218,6 +221,7 @@ export function RulesCard({ review, zone }: { review: StoredReview; zone: string
               <td>{x.id}</td>
               <td>{x.channel}</td>
               <td>{x.direction} {x.threshold_C} °C</td>
+              <td data-testid={`allowance-${x.id}`}>{defined.has(x.id) ? ruleAllowance(defined.get(x.id)!) : <span className="muted">not in the limit set</span>}</td>
               <td className="num" data-testid={`cumulative-${x.id}`}>{x.cumulative_min.toFixed(1)}</td>
               <td className="num">{x.longest_continuous_min.toFixed(1)}</td>
               <td className="num">{x.extreme_C.toFixed(2)}</td>

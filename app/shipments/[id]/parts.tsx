@@ -10,6 +10,7 @@ import { displaySeries } from "@/lib/display/series";
 import { formatC, fixed } from "@/lib/display/numbers";
 import { formatTime } from "@/lib/display/time";
 import { StatusBadge } from "@/app/components/StatusBadge";
+import { describeRule } from "@/lib/review/parameters";
 import { LoadChart, type LoadSeries } from "@/app/components/LoadChart";
 
 const COLORS = ["#1f5fa8", "#b5551d", "#2f7d32", "#8a3ea8", "#a8891f", "#1f8a8a", "#a81f5f", "#555f6b", "#3d6b1f", "#6b3d1f"];
@@ -72,7 +73,8 @@ export function OutcomeCard({ s, names }: { s: StoredShipment; names: Map<string
 export function RuleMatrix({ s, names }: { s: StoredShipment; names: Map<string, string> }) {
   const r = s.result as unknown as ShipmentResult | null;
   if (!r || s.reviews.length === 0) return null;
-  const rules = (s.limits.body as unknown as LimitSet).rules.map((x) => x.id);
+  const defined = (s.limits.body as unknown as LimitSet).rules;
+  const rules = defined.map((x) => x.id);
   const governing = new Set(r.products.map((p) => `${p.governing_logger}|${p.productId}`));
   const logger = new Map(s.loggers.map((l) => [l.id, l]));
   return (
@@ -80,7 +82,12 @@ export function RuleMatrix({ s, names }: { s: StoredShipment; names: Map<string,
       <h2 style={{ marginTop: 0 }}>Products × rules</h2>
       <table data-testid="rule-matrix">
         <thead>
-          <tr><th>Product</th><th>Logger</th>{rules.map((id) => <th key={id}>{id}</th>)}<th>Review</th></tr>
+          <tr>
+            <th>Product</th><th>Logger</th>
+            {/* each rule with what it allows, so a cell's minutes can be read against it */}
+            {defined.map((x) => <th key={x.id} data-testid={`rule-head-${x.id}`}>{x.id}<span className="muted" style={{ display: "block", fontWeight: 400, fontSize: "0.8rem" }}>{describeRule(x)}</span></th>)}
+            <th>Review</th>
+          </tr>
         </thead>
         <tbody>
           {s.reviews.map((link) => {
@@ -91,8 +98,14 @@ export function RuleMatrix({ s, names }: { s: StoredShipment; names: Map<string,
                 <td>{names.get(link.productId) ?? link.productId}{gov ? " (governing)" : ""}</td>
                 <td>{logger.get(link.shipmentLoggerId) ? loggerLabel(logger.get(link.shipmentLoggerId)!) : "?"}</td>
                 {rules.map((id) => {
-                  const rule = result.rules.find((x) => x.id === id) ?? result.consequence_rules?.find((x) => x.id === id);
-                  return <td key={id} title={rule?.reason}>{rule ? <StatusBadge status={rule.status} /> : "–"}</td>;
+                  const threshold = result.rules.find((x) => x.id === id);
+                  const rule = threshold ?? result.consequence_rules?.find((x) => x.id === id);
+                  return (
+                    <td key={id} title={rule?.reason}>
+                      {rule ? <StatusBadge status={rule.status} /> : "–"}
+                      {threshold && <span className="muted" style={{ display: "block", fontSize: "0.8rem" }}>{fixed(threshold.cumulative_min, 1)} min beyond</span>}
+                    </td>
+                  );
                 })}
                 <td><StatusBadge status={link.review.outcome} /> <Link href={`/reviews/${link.review.id}`}>open</Link></td>
               </tr>
