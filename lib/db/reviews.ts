@@ -142,6 +142,21 @@ export async function getReview(id: string) {
 }
 export type StoredReview = NonNullable<Awaited<ReturnType<typeof getReview>>>;
 
+/**
+ * The definitions of the newest review of one trace (or of any trace), with each definition's lineage, so
+ * that a new review can start from the combination last used; null when there is none.
+ */
+export async function latestReviewInputs(traceId?: string): Promise<{ id: string; title: string; traceId: string; product: { id: string; lineage: string }; pack: { id: string; lineage: string } | null; limits: { id: string; lineage: string }; model: string | null } | null> {
+  const row = await db.review.findFirst({
+    where: traceId ? { traceId } : {},
+    orderBy: [{ createdAt: "desc" }, { id: "desc" }],
+    select: { id: true, title: true, traceId: true, options: true, product: { select: { id: true, lineage: true } }, pack: { select: { id: true, lineage: true } }, limits: { select: { id: true, lineage: true } } },
+  });
+  if (!row) return null;
+  const model = (row.options as { model?: unknown } | null)?.model;
+  return { id: row.id, title: row.title, traceId: row.traceId, product: row.product, pack: row.pack, limits: row.limits, model: typeof model === "string" ? model : null };
+}
+
 export interface ReviewFilter {
   outcome?: Outcome;
   status?: "open" | "signed";

@@ -32,6 +32,8 @@ test("set up: a trace, a product, a limit set and a review", async ({ page }) =>
   await page.getByLabel("Title").fill("Auditor review of route 7");
   await page.locator("#f-productId").selectOption({ label: "Auditor meal tray v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Chilled food, 5 °C / 4 h (from template) v1" });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+  await page.locator("#f-model").selectOption("auto");
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByRole("heading", { name: "Review: Auditor review of route 7" })).toBeVisible();
   reviewId = page.url().split("/reviews/")[1]!.split(/[?#]/)[0]!;

@@ -73,6 +73,8 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await page.locator("#f-traceId").selectOption({ label: "Route 7 growth e2e (361 samples)" });
   await page.locator("#f-productId").selectOption({ label: "Growth tray e2e v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Growth plan e2e v1" });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+  await page.locator("#f-model").selectOption("auto");
   await page.getByText("Growth and shelf life on other channels (optional)").click();
   await page.getByTestId("cc-air").check();
   await page.getByRole("button", { name: "Run review" }).click();
@@ -118,6 +120,8 @@ test("a product with growth and shelf-life models, a limit set with a growth rul
   await page.locator("#f-traceId").selectOption({ label: "Route 7 growth e2e (361 samples)" });
   await page.locator("#f-productId").selectOption({ label: "Growth tray e2e v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Growth plan e2e v1" });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+  await page.locator("#f-model").selectOption("auto");
   await page.getByText("Propagate input uncertainty (optional)").click();
   await page.getByTestId("uncertainty-json").fill('{"inputs": [{"path": "product.consequences.1.b_per_C_sqrt_h", "plusminus": 20, "percent": true}], "samples": 50, "seed": 3}');
   await page.getByRole("button", { name: "Run review" }).click();

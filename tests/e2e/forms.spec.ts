@@ -142,6 +142,7 @@ test("review form: a window with one end refused leaves title, inputs, model, wi
   await page.locator("#f-traceId").selectOption(traceValue);
   await page.locator("#f-productId").selectOption({ label: "Kept review product v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Chilled food, 8 °C (from template) v1" });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
   await page.locator("#f-model").selectOption("lumped");
   await page.getByText("Judge only part of the trace (optional)").click();
   await page.locator("#f-windowStart").fill("2026-06-16T04:00");

@@ -44,6 +44,10 @@ test("upload the demo trace, define a product and a limit set, run a review, see
   // 4. Run the review.
   await page.goto("/reviews/new");
   await page.getByLabel("Title").fill("E2E route 7");
+  await page.locator("#f-productId").selectOption({ label: "Ready meal 450 g v1" });
+  await page.locator("#f-limitsId").selectOption({ label: "Chilled food, 5 °C / 4 h (from template) v1" });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+  await page.locator("#f-model").selectOption("auto");
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByRole("heading", { name: "Review: E2E route 7" })).toBeVisible();
   await expect(page.getByTestId("tau")).toHaveText("2 h 54 min (10,452 s)");
@@ -143,6 +147,7 @@ test("a shaped product in a pack with coolant: the preview picks the model and t
   await page.locator("#f-productId").selectOption({ label: "Cheese wheel v1" });
   await page.locator("#f-packId").selectOption({ label: "EPS tote with gel pack v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Chilled food, 8 °C (from template) v1" });
+  await page.locator("#f-model").selectOption("auto");
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByTestId("model")).toHaveText(/^r–z cylinder conduction \(\d+ nodes\)$/);
   await expect(page.getByTestId("series-surface-predicted-")).toBeVisible();
@@ -165,6 +170,8 @@ test("sign off a review, open its printable report, export the findings, and cor
   await page.getByLabel("Title").fill("Sandwiches route 7");
   await page.locator("#f-productId").selectOption({ label: "Sandwich tray v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Chilled food, 5 °C / 4 h (from template) v1" });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+  await page.locator("#f-model").selectOption("auto");
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByTestId("review-status")).toHaveText("open: not yet signed off");
   const suggested = (await page.getByTestId("outcome-value").textContent())!;

@@ -45,6 +45,8 @@ test("the review chart shades every excursion, names the rules on each limit lin
   await page.getByLabel("Title").fill("Chart review");
   await page.locator("#f-productId").selectOption({ label: "Chart meal v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Chart plan v1" });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+  await page.locator("#f-model").selectOption("auto");
   await page.getByText("Propagate input uncertainty (optional)").click();
   await page.getByTestId("uncertainty-json").fill('{"inputs": [{"path": "product.h_W_m2K", "plusminus": 25, "percent": true, "distribution": "normal"}], "samples": 200, "seed": 1, "use_in_guard_band": true}');
   await page.getByRole("button", { name: "Run review" }).click();
@@ -112,6 +114,8 @@ test("a 30-day, 1-minute review sends the browser a decimated chart, and a one-m
   await page.getByLabel("Title").fill("Thirty days");
   await page.locator("#f-productId").selectOption({ label: "Long meal v1" });
   await page.locator("#f-limitsId").selectOption({ label: "Long plan v1" });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+  await page.locator("#f-model").selectOption("auto");
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByTestId("review-status")).toHaveText("open: not yet signed off");
   // the one-minute spike to 15.5 °C is one excursion, shaded and drawn

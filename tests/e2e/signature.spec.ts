@@ -23,6 +23,8 @@ test.describe("as the reviewer", () => {
     await page.getByLabel("Title").fill("Signature check");
     await page.locator("#f-productId").selectOption({ label: "Signature tray v1" });
     await page.locator("#f-limitsId").selectOption({ label: "Chilled food, 5 °C / 4 h (from template) v1" });
+    await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+    await page.locator("#f-model").selectOption("auto");
     await page.getByRole("button", { name: "Run review" }).click();
     await expect(page.getByRole("heading", { name: "Review: Signature check" })).toBeVisible();
     reviewUrl = page.url().split(/[?#]/)[0]!;

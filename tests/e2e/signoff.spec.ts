@@ -31,6 +31,8 @@ async function rejectReview(page: Page, title: string): Promise<string> {
   await page.getByLabel("Title").fill(title);
   await page.locator("#f-productId").selectOption({ label: `${title} product v1` });
   await page.locator("#f-limitsId").selectOption({ label: `${title} limits v1` });
+  await page.locator("#f-packId").selectOption(""); // the form preselects the last review's pack and model
+  await page.locator("#f-model").selectOption("auto");
   await page.getByRole("button", { name: "Run review" }).click();
   await expect(page.getByTestId("review-status")).toHaveText("open: not yet signed off");
   await expect(page.getByTestId("outcome-value")).toHaveText("reject");
