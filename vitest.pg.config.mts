@@ -6,6 +6,7 @@ import { defineConfig } from "vitest/config";
 
 export const POSTGRES_TESTS = [
   "tests/integration/auditTrail.test.ts",
+  "tests/integration/auditSubjects.test.ts",
   "tests/integration/importStore.test.ts",
   "tests/integration/records.test.ts",
   "tests/integration/reviewFlow.test.ts",

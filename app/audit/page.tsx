@@ -30,7 +30,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
         <form className="filters no-print" aria-label="Filter the audit log" data-testid="audit-filters">
           <label>Kind of record
             <select name="entity" defaultValue={p.entity ?? ""} data-testid="filter-entity">
-              <option value="">any</option><option value="trace">trace</option><option value="definition">definition</option><option value="review">review</option><option value="key">signing key</option>
+              <option value="">any</option><option value="trace">trace</option><option value="definition">definition</option><option value="review">review</option><option value="key">signing key</option><option value="user">account</option><option value="token">API token</option>
             </select>
           </label>
           <label>Action
@@ -53,7 +53,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
         <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />
         {list.rows.length > 0 && (
           <div className="table-scroll">
-          <table data-testid="audit-table">
+          <table data-testid="audit-table" className="audit-table">
             <thead><tr><th className="num">#</th><th>When</th><th>Action</th><th>Record</th><th>By</th><th>Details</th><th>Hash</th></tr></thead>
             <tbody>
               {list.rows.map((e) => (
