@@ -3,8 +3,8 @@ import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import { actorsContaining, idsContaining, plainPrefix, SEARCH_MATCH_CAP } from "./textSearch";
 import type { AuditEntryRecord } from "../review/audit";
 
-export const AUDIT_ENTITIES = ["trace", "definition", "review", "key", "monitor", "alert", "shipment", "shipmentLogger", "shipmentReview", "lane", "logger", "user", "token", "run"] as const;
-export const AUDIT_ACTIONS = ["import", "create", "edit", "run", "sign", "rename", "export", "verify", "key", "seal", "readings", "raise", "clear", "deliver", "close", "sign-in", "sign-in-refused", "sign-out", "set-role", "disable", "enable", "revoke", "cancel"] as const;
+export const AUDIT_ENTITIES = ["trace", "definition", "review", "key", "monitor", "alert", "shipment", "shipmentLogger", "shipmentReview", "lane", "logger", "user", "token", "run", "delivery"] as const;
+export const AUDIT_ACTIONS = ["import", "create", "edit", "run", "sign", "rename", "export", "verify", "key", "seal", "readings", "raise", "clear", "deliver", "close", "sign-in", "sign-in-refused", "sign-out", "set-role", "disable", "enable", "revoke", "cancel", "resume"] as const;
 
 export interface AuditFilter {
   entity?: (typeof AUDIT_ENTITIES)[number];
