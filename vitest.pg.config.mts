@@ -20,6 +20,7 @@ export const POSTGRES_TESTS = [
   "tests/integration/jobQueue.test.ts",
   "tests/integration/diskFullPg.test.ts",
   "tests/integration/monitors.test.ts",
+  "tests/integration/deviceTokenMigration.test.ts",
   "tests/integration/shipments.test.ts",
   "tests/integration/deliveryResume.test.ts",
 ];

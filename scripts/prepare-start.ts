@@ -24,14 +24,15 @@ async function main(): Promise<void> {
   migrateDatabase(url);
   const { config } = await import("../lib/config");
   const withDemo = config().CORELAG_DEMO !== "0";
-  const { loadDemoIfEmpty } = await import("../lib/services/demo");
+  const { demoWanted, loadDemoIfEmpty } = await import("../lib/services/demo");
+  // With the demo data, one demo account per role, printed here once (their passwords are not stored
+  // anywhere else); made first, because the demo monitor's device token belongs to the first administrator.
+  // Without users and without the demo, the first visit offers "create the administrator".
+  const { createDemoAccounts, needsFirstAdmin } = await import("../lib/services/users");
+  const accounts = withDemo && (await demoWanted()) ? await createDemoAccounts({ kind: "system", what: "demo" }) : [];
   const demo = withDemo ? await loadDemoIfEmpty() : "skipped";
   console.log(`corelag: database ${url} migrated; demo ${demo === "loaded" ? "loaded" : withDemo ? "already present or not needed" : "off (CORELAG_DEMO=0)"}`);
-  // With the demo data, one demo account per role, printed here once (their passwords are not stored
-  // anywhere else). Without users and without the demo, the first visit offers "create the administrator".
-  const { createDemoAccounts, needsFirstAdmin } = await import("../lib/services/users");
   if (demo === "loaded") {
-    const accounts = await createDemoAccounts({ kind: "system", what: "demo" });
     if (accounts.length > 0) {
       console.log("corelag: demo accounts (shown once; change or disable them before real use):");
       for (const a of accounts) console.log(`  ${a.role.padEnd(9)} ${a.email.padEnd(24)} password: ${a.password}`);

@@ -15,9 +15,16 @@ async function main(): Promise<number> {
   }
   for (const f of [file, `${file}-journal`, `${file}-wal`, `${file}-shm`]) if (existsSync(f)) rmSync(f);
   migrateDatabase(url);
+  // the demo accounts first: the demo monitor's device token belongs to the first administrator
+  const { createDemoAccounts } = await import("../lib/services/users");
+  const accounts = await createDemoAccounts({ kind: "system", what: "demo" });
   const { loadDemoIfEmpty } = await import("../lib/services/demo");
   await loadDemoIfEmpty();
   console.log(`corelag: ${file} recreated with the demo; start the server with npm start`);
+  if (accounts.length > 0) {
+    console.log("corelag: demo accounts (shown once; change or disable them before real use):");
+    for (const a of accounts) console.log(`  ${a.role.padEnd(9)} ${a.email.padEnd(24)} password: ${a.password}`);
+  }
   return 0;
 }
 

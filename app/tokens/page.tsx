@@ -29,7 +29,7 @@ export default async function TokensPage() {
       <h1>API tokens</h1>
       <p>
         Tokens let other systems use the <Link href="/api-docs">HTTP API</Link>. A token acts with its owner&apos;s role, narrowed by its scope: <strong>read</strong> only
-        reads, <strong>write</strong> does what the owner&apos;s role allows, <strong>device</strong> only posts readings. Only a token&apos;s SHA-256 is stored: it is shown once, when made.
+        reads, <strong>write</strong> does what the owner&apos;s role allows, <strong>device</strong> only posts readings, to the monitor it is bound to (each monitor is made with one). Only a token&apos;s SHA-256 is stored: it is shown once, when made.
       </p>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>New token</h2>
@@ -50,7 +50,7 @@ export default async function TokensPage() {
                   <td>{t.name}</td>
                   <td><code>{t.prefix}…</code></td>
                   <td>{t.owner.name} <span className="muted">({t.owner.role}{t.owner.disabled ? ", disabled" : ""})</span></td>
-                  <td>{t.scope}</td>
+                  <td>{t.scope}{t.monitor_id ? <> · <Link href={`/monitors/${t.monitor_id}`}>its monitor</Link></> : null}</td>
                   <td>{when(t.created_at, "")}</td>
                   <td>{when(t.expires_at, "never")}</td>
                   <td>{when(t.last_used_at, "not yet")}</td>

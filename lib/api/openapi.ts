@@ -175,6 +175,58 @@ export const ENDPOINTS: Endpoint[] = [
     problems: ["not-found"],
   },
   {
+    method: "post",
+    path: "/api/v1/monitors",
+    summary: "Start a live monitor",
+    description:
+      "A shipment watched while it travels: readings come in, the core temperature is predicted reading by reading, the rules are judged so far and a forecast says when a limit would be reached. " +
+      "The answer's `device_token` is an API token with the `device` scope bound to this monitor, owned by the caller (for a token, its owner); it is shown once and can be revoked like any token.",
+    permission: "monitor:edit",
+    tag: "monitors",
+    operation: {
+      requestBody: { required: true, content: { "application/json": { schema: s.monitorCreateRequestSchema } } },
+      responses: { "201": json(s.monitorCreatedSchema, "started; Location names the monitor") },
+    },
+    problems: ["invalid-request", "too-large", "unsupported-media-type"],
+  },
+  {
+    method: "post",
+    path: "/api/v1/monitors/{id}/readings",
+    summary: "Post a monitor's readings",
+    description:
+      "JSON `{\"readings\": [{\"t\", \"air_C\", \"probe_C\"?}]}` or text/csv with the header `t,air_C[,probe_C]`, times ISO 8601 with Z or an offset. " +
+      "A device token posts only to the monitor it is bound to (403 for another). Readings equal to stored ones are ignored, different ones at a stored time are conflicts; " +
+      "a refused reading refuses the whole batch unless `?partial=true`. The body's SHA-256 is recorded with the batch in the audit log, whose actor is the token.",
+    permission: "monitor:post-readings",
+    tag: "monitors",
+    operation: {
+      requestParams: { path: idPath, query: s.readingsQuerySchema },
+      requestBody: { required: true, content: { "application/json": { schema: s.readingsRequestSchema }, "text/csv": { schema: z.string() } } },
+      responses: { "200": json(s.readingsResultSchema, "stored (or nothing new to store)") },
+    },
+    problems: ["not-found", "conflict", "invalid-request", "invalid-readings", "too-large", "unsupported-media-type", "busy", "storage-full"],
+  },
+  {
+    method: "get",
+    path: "/api/v1/monitors/{id}",
+    summary: "A monitor's state so far",
+    description: "The last reading, the predicted core (and surface) temperature, each rule's status so far, the forecast with the air it assumes, and whether the readings went stale.",
+    permission: "read",
+    tag: "monitors",
+    operation: { requestParams: { path: idPath }, responses: { "200": json(s.monitorStateSchema, "the state") } },
+    problems: ["not-found"],
+  },
+  {
+    method: "post",
+    path: "/api/v1/monitors/{id}/close",
+    summary: "Close a monitor into a trace and a review",
+    description: "The readings become a stored trace (as if uploaded as a CSV file) and a normal review with the monitor's definitions; the monitor takes no more readings.",
+    permission: "monitor:edit",
+    tag: "monitors",
+    operation: { requestParams: { path: idPath }, responses: { "200": json(s.monitorClosedSchema, "closed") } },
+    problems: ["not-found", "conflict", "invalid-request"],
+  },
+  {
     method: "get",
     path: "/api/v1/audit",
     summary: "Audit entries in chain order, for external archiving",

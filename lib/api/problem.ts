@@ -38,6 +38,8 @@ export interface Problem {
   row?: number;
   /** column (header name) of an uploaded file */
   column?: string;
+  /** invalid-readings: each refused reading of a monitor's batch, by its 0-based index in the request */
+  refused?: Array<{ index: number; reason: string }>;
   /** the request path this problem answers */
   instance?: string;
 }

@@ -7,6 +7,7 @@ import { modelChoiceSchema, packSchema, productSchema } from "../thermal/definit
 import { limitSetSchema } from "../exposure/limits";
 import { profileSchema } from "../design/profile";
 import { TOKEN_SCOPES } from "../access/roles";
+import { createMonitorSchema, MAX_READINGS_PER_BATCH, readingSchema } from "../live";
 
 const id = (what: string) => z.string().min(1, { message: `give the ${what} id` }).max(64, { message: `the ${what} id is longer than 64 characters` });
 const isoTime = z.iso.datetime({ offset: true, message: "must be an ISO 8601 date-time with Z or an offset" });
@@ -27,6 +28,7 @@ export const problemSchema = z
     field: z.string().optional().meta({ description: "the body field (dotted path), query or path parameter at fault" }),
     row: z.number().int().optional().meta({ description: "1-based row of the uploaded file at fault" }),
     column: z.string().optional().meta({ description: "column of the uploaded file at fault" }),
+    refused: z.array(z.object({ index: z.number().int(), reason: z.string() })).optional().meta({ description: "invalid-readings: each refused reading by its 0-based index in the request, with the reason" }),
     instance: z.string().optional(),
   })
   .meta({ id: "Problem", description: "RFC 9457 problem details" });
@@ -256,6 +258,72 @@ export const auditPageSchema = z
     next_after: z.number().int().nullable().meta({ description: "pass as `after` for the next page; null when this page reached the chain's head" }),
   })
   .meta({ id: "AuditPage" });
+
+// --- monitors (issue 17: the fields are the issue's, exactly) ------------------------------------------
+export const monitorCreateRequestSchema = createMonitorSchema.meta({
+  id: "MonitorCreateRequest",
+  description: "the product, pack and limit set by id (any version); alert.lead_min: raise a forecast alert when a limit is forecast within this many minutes",
+});
+
+export const monitorCreatedSchema = z
+  .object({
+    id: z.string(),
+    device_token: z.string().meta({ description: "an API token with the device scope, bound to this monitor: it only posts this monitor's readings. Shown once; revoke it like any token" }),
+  })
+  .meta({ id: "MonitorCreated" });
+
+export const readingsQuerySchema = z
+  .strictObject({
+    partial: z
+      .enum(["true", "false"], { error: "partial must be true or false" })
+      .optional()
+      .transform((v) => v === "true")
+      .meta({ description: "true: keep the good readings of a batch with refused ones; default false: a batch with a refused reading stores nothing" }),
+  })
+  .meta({ id: "ReadingsQuery" });
+
+export const readingsRequestSchema = z
+  .object({ readings: z.array(readingSchema).max(MAX_READINGS_PER_BATCH) })
+  .meta({ id: "Readings", description: `at most ${MAX_READINGS_PER_BATCH.toLocaleString("en")} readings; or text/csv with the header t,air_C[,probe_C]` });
+
+export const readingsResultSchema = z
+  .object({
+    accepted: z.number().int(),
+    duplicates: z.number().int().meta({ description: "readings equal to a stored one at the same time: ignored" }),
+    conflicts: z.array(z.object({ index: z.number().int(), t: isoTime, reason: z.string() })).meta({ description: "readings at a stored time with other values: not stored" }),
+    refused: z.array(z.object({ index: z.number().int(), reason: z.string() })).meta({ description: "with ?partial=true: the readings not stored, by index" }),
+    batch: z.object({ id: z.string(), sha256: z.string().meta({ description: "SHA-256 of the request body, as recorded in the audit log" }) }).nullable(),
+  })
+  .meta({ id: "ReadingsResult" });
+
+export const monitorStateSchema = z
+  .strictObject({
+    id: z.string(),
+    last_reading: z.strictObject({ t: isoTime, air_C: z.number() }).nullable(),
+    core_C: z.number().nullable().meta({ description: "the predicted core temperature after the last reading, °C" }),
+    surface_C: z.number().optional().meta({ description: "the predicted surface temperature, when the model resolves one (not the exact lumped update)" }),
+    rules: z.array(
+      z.strictObject({
+        id: z.string(),
+        status_so_far: z.enum(["pass", "fail", "inconclusive"]),
+        cumulative_min: z.number().meta({ description: "time beyond the rule's threshold so far, min" }),
+        remaining_min: z.number().optional().meta({ description: "time left before the rule's allowance is used up, min" }),
+      }),
+    ),
+    forecast: z
+      .strictObject({
+        assumed_air_C: z.number().meta({ description: "the air held for the forecast, °C" }),
+        minutes_to_limit: z.number().nullable().meta({ description: "null: no limit is reached within the horizon" }),
+        limit_rule: z.string().nullable(),
+        horizon_min: z.number(),
+        reason: z.string(),
+      })
+      .nullable(),
+    stale: z.boolean().meta({ description: "no readings for three usual arrival intervals" }),
+  })
+  .meta({ id: "MonitorState" });
+
+export const monitorClosedSchema = z.object({ trace_id: z.string(), review_id: z.string() }).meta({ id: "MonitorClosed" });
 
 // --- tokens (CLI and admin; not an HTTP endpoint) ----------------------------------------------------
 export const tokenScopeSchema = z.enum(TOKEN_SCOPES, { error: "scope must be read, write or device" });

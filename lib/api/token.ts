@@ -9,6 +9,11 @@ export const TOKEN_RANDOM_BYTES = 32;
 /** characters of the token (after `clg_`) kept in the clear for identification: 8 base64url chars = 48 bits */
 export const TOKEN_ID_CHARS = 8;
 const TOKEN_SHAPE = /^clg_[A-Za-z0-9_-]{43}$/;
+/**
+ * Device tokens issued by monitors before they were API tokens (`cmd_` + 32 base64url characters), and the
+ * demo monitor's fixed public token (lib/services/demoNames.ts): stored and checked like any token.
+ */
+const DEVICE_TOKEN_SHAPE = /^cmd_[A-Za-z0-9_-]{16,64}$/;
 
 export interface NewToken {
   /** the secret, shown once */
@@ -26,7 +31,7 @@ export function generateToken(random: (n: number) => Uint8Array = randomBytes): 
 
 export const hashToken = (token: string) => createHash("sha256").update(token, "utf8").digest("hex");
 export const tokenPrefix = (token: string) => token.slice(0, TOKEN_PREFIX.length + TOKEN_ID_CHARS);
-export const isTokenShaped = (text: string) => TOKEN_SHAPE.test(text);
+export const isTokenShaped = (text: string) => TOKEN_SHAPE.test(text) || DEVICE_TOKEN_SHAPE.test(text);
 
 /** Constant-time comparison of two hex digests (the lookup is by hash; this guards the final check). */
 export function sameDigest(a: string, b: string): boolean {

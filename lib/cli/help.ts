@@ -102,12 +102,13 @@ Every change is recorded in the audit log as cli:<operating-system user>. An adm
 disabled while they are the only enabled one.`,
   seal: `corelag seal
 Once after upgrading: records the content hash of every row whose audit entries were written before entries carried one.`,
-  token: `corelag token create --user EMAIL --name NAME [--expires-days N] [--scope read|write|device] [--format json]
+  token: `corelag token create --user EMAIL --name NAME [--expires-days N] [--scope read|write|device] [--monitor ID] [--format json]
 corelag token list [--user EMAIL] [--all]
 corelag token revoke ID
 API tokens for /api/v1 (Authorization: Bearer <token>). create prints the token once (with --format json:
 {"id", "token", "scope", "expires_at"}); only its SHA-256 is stored. A token acts with its owner's role narrowed by
-its scope: read (GET only, the default), write (everything the owner's role allows), device (posting readings only).
+its scope: read (GET only, the default), write (everything the owner's role allows), device (posting readings only,
+to the one monitor given with --monitor: each monitor is made with one, and this makes a replacement).
 list prints the tokens (not revoked ones unless --all) with owner, scope, expiry and last use; revoke refuses the
 token from the next request on. Each create and revoke is audited with the operating-system user.`,
 };

@@ -3,7 +3,7 @@
 // delete and an un-revoke).
 import { randomUUID } from "node:crypto";
 import { db } from "./client";
-import { appendAudit } from "./audit";
+import { appendAudit, type Tx } from "./audit";
 import type { Actor } from "../access/actor";
 
 export interface ApiTokenRow {
@@ -15,11 +15,13 @@ export interface ApiTokenRow {
   expiresAt: Date | null;
   revokedAt: Date | null;
   lastUsedAt: Date | null;
+  /** a device token's monitor (the only one it may post readings to) */
+  monitorId: string | null;
   user: { id: string; email: string; name: string; role: string; disabled: boolean };
 }
 
 const tokenSelect = {
-  id: true, name: true, scope: true, prefix: true, createdAt: true, expiresAt: true, revokedAt: true, lastUsedAt: true,
+  id: true, name: true, scope: true, prefix: true, createdAt: true, expiresAt: true, revokedAt: true, lastUsedAt: true, monitorId: true,
   user: { select: { id: true, email: true, name: true, role: true, disabled: true } },
 } as const;
 
@@ -27,18 +29,44 @@ export async function tokenOwnerByEmail(email: string): Promise<{ id: string; em
   return db.user.findUnique({ where: { email: email.trim().toLowerCase() }, select: { id: true, email: true, name: true, role: true, disabled: true } });
 }
 
-export async function createApiToken(t: { userId: string; name: string; scope: string; prefix: string; tokenSha256: string; expiresAt: Date | null }, actor: Actor): Promise<ApiTokenRow> {
-  return db.$transaction(async (tx) => {
-    const row = await tx.apiToken.create({ data: { id: randomUUID().replace(/-/g, ""), ...t, createdAt: new Date() }, select: tokenSelect });
-    await appendAudit(tx, {
-      action: "create",
-      entity: "token",
-      entityId: row.id,
-      actor,
-      details: { name: row.name, scope: row.scope, prefix: row.prefix, owner: { user_id: row.user.id, email: row.user.email, name: row.user.name }, expires_at: row.expiresAt?.toISOString() ?? null },
-    });
-    return row;
+export interface NewApiToken {
+  userId: string;
+  name: string;
+  scope: string;
+  prefix: string;
+  tokenSha256: string;
+  expiresAt: Date | null;
+  /** a device token's monitor */
+  monitorId?: string | null;
+}
+
+export async function createApiToken(t: NewApiToken, actor: Actor): Promise<ApiTokenRow> {
+  return db.$transaction((tx) => insertApiToken(tx, t, actor));
+}
+
+/** Stores a token and its "create" entry inside the caller's transaction (a monitor and its device token are one write). */
+export async function insertApiToken(tx: Tx, t: NewApiToken, actor: Actor): Promise<ApiTokenRow> {
+  const row = await tx.apiToken.create({ data: { id: randomUUID().replace(/-/g, ""), ...t, monitorId: t.monitorId ?? null, createdAt: new Date() }, select: tokenSelect });
+  await appendAudit(tx, {
+    action: "create",
+    entity: "token",
+    entityId: row.id,
+    actor,
+    details: {
+      name: row.name, scope: row.scope, prefix: row.prefix, owner: { user_id: row.user.id, email: row.user.email, name: row.user.name }, expires_at: row.expiresAt?.toISOString() ?? null,
+      ...(row.monitorId ? { monitor_id: row.monitorId } : {}),
+    },
   });
+  return row;
+}
+
+/**
+ * The owner of a device token made by an actor that is not a person (the demo loader, the command line): the
+ * first administrator, i.e. the oldest enabled admin account (a token needs an owner whose role it acts with,
+ * and whom a list or an audit entry can name). Null when there is none.
+ */
+export async function firstAdministrator(): Promise<{ id: string; email: string } | null> {
+  return db.user.findFirst({ where: { role: "admin", disabled: false }, orderBy: [{ createdAt: "asc" }, { id: "asc" }], select: { id: true, email: true } });
 }
 
 export async function listApiTokens(filter: { userId?: string; includeRevoked?: boolean } = {}): Promise<ApiTokenRow[]> {

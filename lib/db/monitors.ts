@@ -1,5 +1,6 @@
 import { db } from "./client";
 import { appendAudit, lockChain } from "./audit";
+import { insertApiToken, type ApiTokenRow } from "./apiTokens";
 import type { Actor } from "../access/actor";
 
 /** A monitor as stored (without the device token's hash). */
@@ -48,8 +49,20 @@ function toStored(r: Row): StoredMonitor {
   return { ...rest, airHold: r.airHold as StoredMonitor["airHold"], status: r.status as StoredMonitor["status"], webhooks: r.webhooks as string[], emails: r.emails as string[] };
 }
 
-/** Stores a new monitor and its "create" entry (the definitions it uses, its alert settings; never the token). */
-export async function createMonitor(m: NewMonitor, actor: Actor): Promise<StoredMonitor> {
+/** The device token made with a monitor: an API token with the `device` scope, bound to it. */
+export interface NewDeviceToken {
+  /** its owner, whose role it acts with */
+  userId: string;
+  name: string;
+  prefix: string;
+  tokenSha256: string;
+}
+
+/**
+ * Stores a new monitor and its "create" entry (the definitions it uses, its alert settings; never the token),
+ * and its device token (an ApiToken row bound to it, with its own "create" entry), in one transaction.
+ */
+export async function createMonitor(m: NewMonitor, device: NewDeviceToken, actor: Actor): Promise<{ monitor: StoredMonitor; token: ApiTokenRow }> {
   return db.$transaction(async (tx) => {
     const row = await tx.monitor.create({ data: { ...m, packId: m.packId ?? null, shipmentId: m.shipmentId ?? null, serial: m.serial ?? null, airHoldCount: m.airHoldCount ?? null } });
     await appendAudit(tx, {
@@ -59,7 +72,8 @@ export async function createMonitor(m: NewMonitor, actor: Actor): Promise<Stored
       actor,
       details: { name: m.name, productId: m.productId, packId: m.packId ?? null, limitsId: m.limitsId, shipmentId: m.shipmentId ?? null, serial: m.serial ?? null, model: m.model, alertLeadMin: m.alertLeadMin, airHold: m.airHold, airHoldCount: m.airHoldCount ?? null, webhooks: m.webhooks, emails: m.emails, deviceTokenSha256: m.deviceTokenSha256 },
     });
-    return toStored(row);
+    const token = await insertApiToken(tx, { ...device, scope: "device", expiresAt: null, monitorId: row.id }, actor);
+    return { monitor: toStored(row), token };
   });
 }
 
@@ -68,9 +82,9 @@ export async function getMonitor(id: string): Promise<StoredMonitor | null> {
   return row ? toStored(row) : null;
 }
 
-/** The stored hash of a monitor's device token (for checking a presented token). */
-export async function monitorTokenHash(id: string): Promise<string | null> {
-  return (await db.monitor.findUnique({ where: { id }, select: { deviceTokenSha256: true } }))?.deviceTokenSha256 ?? null;
+/** Whether a monitor has an active device token with this hash (the demo page shows the simulator command when its public token is one). */
+export async function monitorHasDeviceToken(id: string, tokenSha256: string): Promise<boolean> {
+  return (await db.apiToken.count({ where: { monitorId: id, tokenSha256, scope: "device", revokedAt: null } })) > 0;
 }
 
 export interface MonitorListRow extends StoredMonitor {

@@ -4,3 +4,4 @@ export * from "./stale";
 export * from "./alerts";
 export * from "./body";
 export * from "./words";
+export * from "./schemas";

@@ -6,6 +6,7 @@ import type { Actor } from "../access/actor";
 import { ROLES, type Role, type TokenScope } from "../access/roles";
 import { bearerToken, generateToken, hashToken, sameDigest, tokenState } from "../api/token";
 import { tokenScopeSchema } from "../api/schemas";
+import { getMonitor } from "../db/monitors";
 import { apiTokenByHash, createApiToken, listApiTokens, revokeApiToken, tokenOwnerByEmail, touchApiToken, type ApiTokenRow, type RevokeOutcome } from "../db/apiTokens";
 
 export const createTokenSchema = z.strictObject({
@@ -14,9 +15,11 @@ export const createTokenSchema = z.strictObject({
   /** whole days until it expires; none: it lasts until revoked */
   expiresDays: z.number().int({ message: "must be a whole number of days" }).min(1, { message: "must be at least 1 day" }).max(3650, { message: "must be at most 3,650 days (ten years)" }).optional(),
   scope: tokenScopeSchema.default("read"),
+  /** a device token's monitor: the one monitor it may post readings to */
+  monitorId: z.string().trim().min(1, { message: "give the monitor's id" }).max(64).optional(),
 });
 
-export type CreatedToken = { id: string; token: string; scope: TokenScope; expires_at: string | null; prefix: string; owner: string };
+export type CreatedToken = { id: string; token: string; scope: TokenScope; expires_at: string | null; prefix: string; owner: string; monitor_id: string | null };
 export type CreateTokenOutcome = { ok: true; created: CreatedToken } | { ok: false; field: keyof z.input<typeof createTokenSchema>; message: string };
 
 /** A new token for a user; the token itself is in the answer and nowhere else. */
@@ -27,13 +30,15 @@ export async function createToken(input: z.input<typeof createTokenSchema>, acto
     return { ok: false, field: String(issue.path[0]) as keyof z.input<typeof createTokenSchema>, message: issue.message };
   }
   const req = parsed.data;
+  if (req.monitorId !== undefined && req.scope !== "device") return { ok: false, field: "monitorId", message: "only a device token is bound to a monitor (give the scope device)" };
+  if (req.monitorId !== undefined && !(await getMonitor(req.monitorId))) return { ok: false, field: "monitorId", message: `there is no monitor with id '${req.monitorId}'` };
   const owner = await tokenOwnerByEmail(req.email);
   if (!owner) return { ok: false, field: "email", message: `there is no user with the e-mail address ${req.email}` };
   if (owner.disabled) return { ok: false, field: "email", message: `${owner.email} is disabled; a token of a disabled user could not be used` };
   const t = generateToken();
   const expiresAt = req.expiresDays === undefined ? null : new Date(now.getTime() + req.expiresDays * 86_400_000);
-  const row = await createApiToken({ userId: owner.id, name: req.name, scope: req.scope, prefix: t.prefix, tokenSha256: t.sha256, expiresAt }, actor);
-  return { ok: true, created: { id: row.id, token: t.token, scope: req.scope, expires_at: expiresAt?.toISOString() ?? null, prefix: t.prefix, owner: owner.email } };
+  const row = await createApiToken({ userId: owner.id, name: req.name, scope: req.scope, prefix: t.prefix, tokenSha256: t.sha256, expiresAt, monitorId: req.monitorId ?? null }, actor);
+  return { ok: true, created: { id: row.id, token: t.token, scope: req.scope, expires_at: expiresAt?.toISOString() ?? null, prefix: t.prefix, owner: owner.email, monitor_id: row.monitorId } };
 }
 
 export interface TokenListItem {
@@ -41,6 +46,8 @@ export interface TokenListItem {
   name: string;
   prefix: string;
   scope: string;
+  /** a device token's monitor (null for other tokens) */
+  monitor_id: string | null;
   owner: { email: string; name: string; role: string; disabled: boolean };
   created_at: string;
   expires_at: string | null;
@@ -51,7 +58,7 @@ export interface TokenListItem {
 
 export function tokenListItem(r: ApiTokenRow, now = new Date()): TokenListItem {
   return {
-    id: r.id, name: r.name, prefix: r.prefix, scope: r.scope,
+    id: r.id, name: r.name, prefix: r.prefix, scope: r.scope, monitor_id: r.monitorId,
     owner: { email: r.user.email, name: r.user.name, role: r.user.role, disabled: r.user.disabled },
     created_at: r.createdAt.toISOString(), expires_at: r.expiresAt?.toISOString() ?? null, revoked_at: r.revokedAt?.toISOString() ?? null,
     last_used_at: r.lastUsedAt?.toISOString() ?? null, state: tokenState(r, now),
@@ -93,5 +100,5 @@ export async function actorFromAuthorization(header: string | null, now = new Da
   const scope = tokenScopeSchema.safeParse(row.scope);
   if (!scope.success) return { ok: false, message: `this token has an unknown scope '${row.scope}'` };
   await touchApiToken(row.id, now);
-  return { ok: true, actor: { kind: "token", tokenId: row.id, tokenName: row.name, scope: scope.data, userId: row.user.id, name: row.user.name, role: row.user.role } };
+  return { ok: true, actor: { kind: "token", tokenId: row.id, tokenName: row.name, scope: scope.data, userId: row.user.id, name: row.user.name, role: row.user.role, ...(row.monitorId ? { monitorId: row.monitorId } : {}) } };
 }

@@ -21,9 +21,17 @@ const DEMO = path.resolve(__dirname, "..", "..", "public", "demo");
 /** The demo's design files (their names are DEMO_DESIGN_NAMES). */
 const DEMO_DESIGN = { product: "ready-meal-shaped.product.json", pack: "tote.pack.json", limits: "tote-design.limits.json" } as const;
 
-/** Loads the invented demo scenario (public/demo, written by scripts/generate-demo.ts) into an empty database. */
+/** Whether the database is empty enough for the demo (no traces, no definitions). */
+export async function demoWanted(): Promise<boolean> {
+  return (await db.trace.count()) === 0 && (await db.definition.count()) === 0;
+}
+
+/**
+ * Loads the invented demo scenario (public/demo, written by scripts/generate-demo.ts) into an empty database.
+ * Needs an administrator (the demo accounts, createDemoAccounts): the demo monitor's device token is theirs.
+ */
 export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
-  if ((await db.trace.count()) > 0 || (await db.definition.count()) > 0) return "skipped";
+  if (!(await demoWanted())) return "skipped";
   const product = productSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8")));
   const limits = limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8")));
   const p = await createDefinition("product", product, DEMO_ACTOR);
@@ -54,7 +62,8 @@ export async function loadDemoIfEmpty(): Promise<"loaded" | "skipped"> {
   // the example plan without its air rule: a route's air is not something a pack can change
   await createDefinition("limits", limitSetSchema.parse(JSON.parse(readFileSync(path.join(DEMO, DEMO_DESIGN.limits), "utf8"))), DEMO_ACTOR);
   for (const profile of EXAMPLE_PROFILES) await createDefinition("profile", profile, DEMO_ACTOR);
-  // A live monitor with no readings yet: `corelag simulate` feeds it the 16 June trace on request (README).
+  // A live monitor with no readings yet: `corelag simulate` feeds it the 16 June trace on request (README). Its
+  // device token is an API token of the first administrator: make the demo accounts before loading the demo.
   const live = await createMonitorService({ name: DEMO_MONITOR.name, product_id: p.id, limits_id: l.id, shipment_id: DEMO_SHIPMENT.reference, serial: DEMO_SHIPMENT.serial, alert: { lead_min: 60 } }, DEMO_ACTOR, DEMO_MONITOR.token);
   if (!live.ok) throw new Error(`demo monitor failed: ${live.message}`);
   await loadDemoShipment(p.id, l.id, traceId);

@@ -1,45 +1,42 @@
-import { createHash, randomBytes, timingSafeEqual } from "node:crypto";
-import { z } from "zod";
-import { alertChanges, alertConditions, forecast, parseReadingsCsv, parseReadingsJson, staleness, type Forecast, type RuleRunning } from "../live";
-import { modelChoiceSchema } from "../thermal/definitions";
+import { randomBytes } from "node:crypto";
+import { alertChanges, alertConditions, createMonitorSchema, forecast, parseReadingsCsv, parseReadingsJson, staleness, type Forecast, type RuleRunning } from "../live";
+import type { z } from "zod";
+import { generateToken, hashToken, tokenPrefix } from "../api/token";
+import type { monitorStateSchema } from "../api/schemas";
 import { sha256Hex } from "../trace";
-import { clearAlert, closeMonitorRow, createMonitor, getMonitor, monitorReadings, monitorTokenHash, openAlerts, openMonitorIds, raiseAlert, storeBatch, batchReceivedAt, type StoredMonitor } from "../db/monitors";
+import { clearAlert, closeMonitorRow, createMonitor, getMonitor, monitorReadings, monitorHasDeviceToken, openAlerts, openMonitorIds, raiseAlert, storeBatch, batchReceivedAt, type StoredMonitor } from "../db/monitors";
 import { deliverAlert, resumeDeliveries } from "./alertDelivery";
 import { dropLiveEntry, liveEntry, loadMonitorDefinitions, notifyMonitorChange, withMonitor, type LiveEntry } from "./liveRegistry";
 import { importAndStoreTrace } from "./traces";
 import { runAndStoreReview } from "./reviews";
+import { firstAdministrator } from "../db/apiTokens";
 import type { Actor } from "../access/actor";
 
-const text = (what: string, max: number) => z.string({ error: `${what} must be text` }).trim().min(1, { message: `${what} is empty` }).max(max, { message: `${what} is longer than ${max} characters` });
-
-/** POST /api/v1/monitors and the create form: the issue's fields, with the forecast's air as an optional choice. */
-export const createMonitorSchema = z.strictObject({
-  name: text("name", 160),
-  product_id: text("product_id", 60),
-  pack_id: text("pack_id", 60).optional(),
-  limits_id: text("limits_id", 60),
-  shipment_id: text("shipment_id", 120).optional(),
-  serial: text("serial", 120).optional(),
-  model: modelChoiceSchema.default("auto"),
-  alert: z.strictObject({
-    /** a forecast alert is raised when the limit is forecast within this many minutes (0 to 7 days) */
-    lead_min: z.number({ error: "alert.lead_min must be a number of minutes" }).finite().min(0, { message: "alert.lead_min must be 0 min or more" }).max(10_080, { message: "alert.lead_min must be at most 10 080 min (7 days)" }),
-    webhooks: z.array(z.url({ protocol: /^https?$/, message: "each webhook must be an http(s) URL" })).max(10, { message: "at most 10 webhooks" }).default([]),
-    emails: z.array(z.email({ message: "each e-mail must be an address like name@example.org" })).max(20, { message: "at most 20 e-mail addresses" }).default([]),
-  }, { error: "alert is required: {\"lead_min\": minutes}" }),
-  /** the air the forecast holds: the last reading's ("current"), or the mean of the last `last` readings */
-  forecast_air: z.strictObject({ hold: z.enum(["current", "mean"]), last: z.number().int().min(2).max(1000).optional() }).optional(),
-});
-export type CreateMonitorInput = z.input<typeof createMonitorSchema>;
+export { createMonitorSchema, type CreateMonitorInput } from "../live";
 
 export type CreateMonitorOutcome = { ok: true; id: string; device_token: string } | { ok: false; field: string; message: string };
 
 /** Readings may carry times up to this far ahead of the server's clock (clocks drift; zones get mixed up), s. */
 export const FUTURE_TOLERANCE_S = 24 * 3600;
 
-const hashToken = (token: string) => createHash("sha256").update(token, "utf8").digest("hex");
+/** A token's name is at most 120 characters (lib/services/apiTokens.ts); the monitor's name may be 160. */
+const deviceTokenName = (monitorName: string) => `device: ${monitorName}`.slice(0, 120);
 
-/** Creates a monitor; the device token is returned once and only its hash is kept. */
+/**
+ * Whose device token it is: the person creating the monitor, or for a token the token's owner. The demo loader
+ * and the command line are nobody's: their monitors' tokens belong to the first administrator (the oldest enabled
+ * admin account), who can see and revoke them on /tokens like their own.
+ */
+async function deviceTokenOwner(actor: Actor): Promise<string | null> {
+  if (actor.kind === "user" || actor.kind === "token") return actor.userId;
+  return (await firstAdministrator())?.id ?? null;
+}
+
+/**
+ * Creates a monitor and its device token: an API token with the `device` scope, bound to this monitor, that
+ * may only post its readings. The token is returned once; only its SHA-256 is kept (monitor and token are one
+ * transaction, each with its audit entry).
+ */
 export async function createMonitorService(input: unknown, actor: Actor, fixedToken?: string): Promise<CreateMonitorOutcome> {
   const parsed = createMonitorSchema.safeParse(input);
   if (!parsed.success) {
@@ -53,42 +50,38 @@ export async function createMonitorService(input: unknown, actor: Actor, fixedTo
   if ((b.model === "conduction" || b.model === "conduction-1d") && (!defs.product.shape || (!defs.product.composition && defs.product.properties?.k_W_mK === undefined))) {
     return { ok: false, field: "model", message: "model: the conduction model needs the product's shape and conductivity" };
   }
+  const owner = await deviceTokenOwner(actor);
+  if (!owner) return { ok: false, field: "body", message: "a monitor's device token needs an owner, and there is no administrator yet: create one first (corelag user add --role admin)" };
   // a fixed token only for the demo monitor (lib/services/demoNames.ts), whose token is public
-  const device_token = fixedToken ?? `cmd_${randomBytes(24).toString("base64url")}`;
+  const device_token = fixedToken ?? generateToken().token;
+  const sha256 = hashToken(device_token);
   const m = await createMonitor(
     {
       name: b.name, productId: b.product_id, packId: b.pack_id, limitsId: b.limits_id, shipmentId: b.shipment_id, serial: b.serial, model: b.model,
       alertLeadMin: b.alert.lead_min, airHold: b.forecast_air?.hold ?? "current", airHoldCount: b.forecast_air?.hold === "mean" ? (b.forecast_air.last ?? 6) : undefined,
-      webhooks: b.alert.webhooks, emails: b.alert.emails, webhookSecret: randomBytes(32).toString("hex"), deviceTokenSha256: hashToken(device_token),
+      webhooks: b.alert.webhooks, emails: b.alert.emails, webhookSecret: randomBytes(32).toString("hex"), deviceTokenSha256: sha256,
     },
+    { userId: owner, name: deviceTokenName(b.name), prefix: tokenPrefix(device_token), tokenSha256: sha256 },
     actor,
   );
-  return { ok: true, id: m.id, device_token };
+  return { ok: true, id: m.monitor.id, device_token };
 }
 
 /**
- * Whether a request's bearer token is this monitor's device token. Until API tokens (with the `device` scope
- * bound to a monitor) are on main, the monitor keeps its own token's hash.
+ * The binding check of the readings route, after the access wrapper let the actor post readings at all: a
+ * device token posts only to the monitor it is bound to (403 otherwise); people and write tokens whose role
+ * allows `monitor:post-readings` may post to any monitor.
  */
-export async function deviceTokenMatches(monitorId: string, authorization: string | null): Promise<boolean> {
-  const m = /^Bearer\s+(\S+)$/i.exec(authorization ?? "");
-  if (!m) return false;
-  const stored = await monitorTokenHash(monitorId);
-  if (!stored) return false;
-  const a = Buffer.from(hashToken(m[1]!), "hex"), b = Buffer.from(stored, "hex");
-  return a.length === b.length && timingSafeEqual(a, b);
+export function deviceBindingRefusal(actor: Actor, monitorId: string): string | null {
+  if (actor.kind !== "token" || actor.scope !== "device") return null;
+  if (actor.monitorId === monitorId) return null;
+  return actor.monitorId
+    ? `this device token ('${actor.tokenName}') is bound to another monitor (${actor.monitorId}); it posts readings to that monitor only`
+    : `this device token ('${actor.tokenName}') is bound to no monitor, so it may post readings nowhere; make one with the monitor (or corelag token create --scope device --monitor ID)`;
 }
 
-/** The state as GET /api/v1/monitors/{id} gives it (the issue's fields, exactly). */
-export interface MonitorStateJson {
-  id: string;
-  last_reading: { t: string; air_C: number } | null;
-  core_C: number | null;
-  surface_C?: number;
-  rules: Array<{ id: string; status_so_far: RuleRunning["status_so_far"]; cumulative_min: number; remaining_min?: number }>;
-  forecast: { assumed_air_C: number; minutes_to_limit: number | null; limit_rule: string | null; horizon_min: number; reason: string } | null;
-  stale: boolean;
-}
+/** The state as GET /api/v1/monitors/{id} gives it (the issue's fields, exactly: lib/api/schemas.ts). */
+export type MonitorStateJson = z.output<typeof monitorStateSchema>;
 
 /** Everything the live page shows, computed from the live entry at `now`. */
 export interface MonitorView {
@@ -283,7 +276,7 @@ export async function closeMonitor(id: string, actor: Actor): Promise<CloseOutco
   });
 }
 
-/** Whether this monitor is fed with the demo's public token (the page then shows the whole simulator command). */
+/** Whether this monitor is fed with the demo's public token, not revoked (the page then shows the whole simulator command). */
 export async function usesDemoToken(id: string, demoToken: string): Promise<boolean> {
-  return (await monitorTokenHash(id)) === hashToken(demoToken);
+  return monitorHasDeviceToken(id, hashToken(demoToken));
 }

@@ -6,7 +6,7 @@ import { saveLumpedProduct, saveTemplateLimits } from "./helpers/seedDefinitions
 const ROOT = path.join(__dirname, "../..");
 const TRACE = path.join(ROOT, "public/demo/route7-tote3.csv");
 
-test("create a monitor, replay the demo trace with the simulator, watch the chart grow, the forecast and the alerts", async ({ page, baseURL }) => {
+test("create a monitor, replay the demo trace with the simulator, watch the chart grow, the forecast and the alerts", async ({ page, baseURL, playwright }) => {
   test.setTimeout(180_000);
   await saveLumpedProduct(page, "Tray for the live monitor");
   await saveTemplateLimits(page, "chilled-cold-holding-5C");
@@ -23,16 +23,20 @@ test("create a monitor, replay the demo trace with the simulator, watch the char
   await page.getByRole("button", { name: "Create monitor" }).click();
   await expect(page.getByTestId("monitor-created")).toBeVisible();
   const token = (await page.getByTestId("device-token").textContent())!.trim();
-  expect(token).toMatch(/^cmd_[\w-]{20,}$/);
+  // an API token with the device scope, bound to this monitor (shown once)
+  expect(token).toMatch(/^clg_[\w-]{43}$/);
   await page.screenshot({ path: "test-results/monitor-created.png", fullPage: true });
   await page.getByTestId("open-monitor").click();
   await expect(page.getByTestId("no-readings")).toBeVisible();
   const id = page.url().split("/monitors/")[1]!;
 
-  // The readings endpoint answers problem+json: no token, a bad reading (nothing stored, refused by index).
-  const noToken = await page.request.post(`/api/v1/monitors/${id}/readings`, { data: { readings: [{ t: "2026-06-16T03:00:00Z", air_C: 3 }] } });
+  // The readings endpoint answers problem+json: no token (a client without the page's session), a bad reading
+  // (nothing stored, refused by index).
+  const anonymous = await playwright.request.newContext({ baseURL, storageState: { cookies: [], origins: [] } });
+  const noToken = await anonymous.post(`/api/v1/monitors/${id}/readings`, { data: { readings: [{ t: "2026-06-16T03:00:00Z", air_C: 3 }] } });
   expect(noToken.status()).toBe(401);
   expect(noToken.headers()["content-type"]).toContain("application/problem+json");
+  await anonymous.dispose();
   const bad = await page.request.post(`/api/v1/monitors/${id}/readings`, { headers: { Authorization: `Bearer ${token}` }, data: { readings: [{ t: "2026-06-16T03:00:00Z", air_C: 3 }, { t: "2026-06-16T03:02:00", air_C: 3 }] } });
   expect(bad.status()).toBe(422);
   expect(await bad.json()).toMatchObject({ type: "/api/v1/problems/invalid-readings", refused: [{ index: 1 }] });

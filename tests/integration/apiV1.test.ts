@@ -60,7 +60,7 @@ function makeToken(key: string, email: string, scope: TokenScope, extra: string[
   expect(r.stderr).toBe("");
   expect(r.code).toBe(0);
   const out = JSON.parse(r.stdout) as { id: string; token: string; scope: string; expires_at: string | null };
-  expect(Object.keys(out)).toEqual(["id", "token", "scope", "expires_at"]);
+  expect(Object.keys(out)).toEqual(["id", "token", "scope", "expires_at", ...(extra.includes("--monitor") ? ["monitor_id"] : [])]);
   const u = USERS.find((x) => x.email === email)!;
   return (tokens[key] = { token: out.token, id: out.id, role: u.role, scope, owner: u.name, name });
 }
@@ -194,7 +194,9 @@ describe("roles and scopes (403 exactly when the owner's role or the token's sco
         // Requests that cannot write: unknown ids, and empty bodies that do not validate.
         const r = await call(e.method.toUpperCase(), concrete(e.path), { token: t.token, ...(e.method !== "get" ? { body: {} } : {}) });
         const allowed = actorAllows(actorOf(t), e.permission!);
-        if (allowed) {
+        // a device token posts readings only to the monitor it is bound to; these device tokens are bound to none
+        const unbound = t.scope === "device" && e.permission === "monitor:post-readings";
+        if (allowed && !unbound) {
           expect([200, 404, 422], `${key} ${e.method} ${e.path}: ${r.text}`).toContain(r.status);
         } else {
           expect(r.status, `${key} ${e.method} ${e.path}`).toBe(403);
@@ -399,6 +401,111 @@ describe("a whole flow with a reviewer's write token", () => {
     const r = await call("GET", "/api/v1/reviews", { token: t.token });
     expect(r.status).toBe(401);
     expect(corelag("token", "revoke", t.id)).toMatchObject({ code: 2, stderr: expect.stringMatching(/already revoked/) });
+  });
+});
+
+describe("live monitors over /api/v1: the device token is an API token bound to its monitor", () => {
+  // Invented fixture: two totes on one route, the demo's ready meal and limit set, readings five minutes apart.
+  const monitors: Record<"A" | "B", { id: string; token: string; tokenId: string }> = {} as never;
+  const reading = (i: number, air_C: number) => ({ t: new Date(Date.parse("2026-06-16T06:00:00Z") + i * 300_000).toISOString(), air_C });
+  const readingRows = (id: string) => sql((db) => (db.prepare(`SELECT COUNT(*) AS n FROM "MonitorReading" WHERE "monitorId" = ?`).get(id) as { n: number }).n);
+  let defs: { product: string; limits: string };
+
+  beforeAll(async () => {
+    const product = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8"));
+    const limits = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.limits.json"), "utf8"));
+    const p = await call("POST", "/api/v1/definitions/product", { token: tokens.reviewerW!.token, body: product });
+    const l = await call("POST", "/api/v1/definitions/limits", { token: tokens.reviewerW!.token, body: limits });
+    defs = { product: String(p.json.id), limits: String(l.json.id) };
+  });
+
+  it("POST /api/v1/monitors: 201 {id, device_token}; the token is a device API token of the caller's owner, bound to the monitor, listed by corelag token list", async () => {
+    for (const k of ["A", "B"] as const) {
+      const r = await call("POST", "/api/v1/monitors", { token: tokens.reviewerW!.token, body: { name: `Route 7 tote ${k}`, product_id: defs.product, limits_id: defs.limits, serial: `HX-${k}`, alert: { lead_min: 60 } } });
+      expect(r.status, r.text).toBe(201);
+      expect(v.response("post", "/api/v1/monitors", 201, r.json)).toBeNull();
+      expect(Object.keys(r.json).sort()).toEqual(["device_token", "id"]);
+      expect(r.headers.get("location")).toBe(`/api/v1/monitors/${r.json.id}`);
+      expect(String(r.json.device_token)).toMatch(/^clg_[A-Za-z0-9_-]{43}$/);
+      const listed = (JSON.parse(corelag("token", "list", "--user", "reviewer@example.test").stdout) as Array<{ id: string; name: string; scope: string; monitor_id: string | null; prefix: string }>).filter((x) => x.monitor_id === r.json.id);
+      expect(listed).toHaveLength(1);
+      expect(listed[0]).toMatchObject({ name: `device: Route 7 tote ${k}`, scope: "device", prefix: String(r.json.device_token).slice(0, 12) });
+      monitors[k] = { id: String(r.json.id), token: String(r.json.device_token), tokenId: listed[0]!.id };
+    }
+    // a body that does not validate: 422 naming the field, no monitor stored
+    const before = count("Monitor");
+    const bad = await call("POST", "/api/v1/monitors", { token: tokens.reviewerW!.token, body: { name: "x", product_id: defs.product, limits_id: defs.limits, alert: { lead_min: -5 } } });
+    expect(bad.status).toBe(422);
+    expect(bad.json).toMatchObject({ type: "/api/v1/problems/invalid-request", field: "alert.lead_min" });
+    expect(count("Monitor")).toBe(before);
+  });
+
+  it("a device token posts readings to its own monitor; the batch's audit entry names the token, its name and its owner; the state validates", async () => {
+    const r = await call("POST", `/api/v1/monitors/${monitors.A.id}/readings`, { token: monitors.A.token, body: { readings: [reading(0, 3), reading(1, 3.2)] } });
+    expect(r.status, r.text).toBe(200);
+    expect(v.response("post", "/api/v1/monitors/{id}/readings", 200, r.json)).toBeNull();
+    expect(r.json).toMatchObject({ accepted: 2, duplicates: 0, conflicts: [], refused: [] });
+    const state = await call("GET", `/api/v1/monitors/${monitors.A.id}`, { token: tokens.auditorW!.token });
+    expect(state.status).toBe(200);
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, state.json)).toBeNull();
+    expect(state.json.last_reading).toEqual({ t: "2026-06-16T06:05:00.000Z", air_C: 3.2 });
+    const audit = await call("GET", "/api/v1/audit?after=0&limit=1000", { token: tokens.auditorW!.token });
+    const entry = (audit.json.entries as Array<{ action: string; entity_id: string; actor: string; details: { actor: Record<string, string> } }>).find((e) => e.action === "readings" && e.entity_id === monitors.A.id)!;
+    expect(entry.actor).toBe(`token device: Route 7 tote A (${monitors.A.tokenId}) of Rowan Reviewer`);
+    expect(entry.details.actor).toEqual({ kind: "token", token_id: monitors.A.tokenId, token_name: "device: Route 7 tote A", user_id: sql((db) => (db.prepare(`SELECT "id" FROM "User" WHERE "email" = ?`).get("reviewer@example.test") as { id: string }).id), name: "Rowan Reviewer" });
+    // CSV with ?partial=true from the same token
+    const csv = await call("POST", `/api/v1/monitors/${monitors.A.id}/readings?partial=true`, { token: monitors.A.token, raw: `t,air_C\n${reading(2, 3.1).t},3.1\n`, type: "text/csv" });
+    expect(csv.json).toMatchObject({ accepted: 1 });
+    const badQuery = await call("POST", `/api/v1/monitors/${monitors.A.id}/readings?partial=yes`, { token: monitors.A.token, body: { readings: [reading(3, 3)] } });
+    expect(badQuery.json).toMatchObject({ status: 422, field: "partial" });
+  });
+
+  it("a device token of monitor A posting to monitor B: 403 problem naming the binding, nothing stored", async () => {
+    const r = await call("POST", `/api/v1/monitors/${monitors.B.id}/readings`, { token: monitors.A.token, body: { readings: [reading(0, 3)] } });
+    expect(r.status).toBe(403);
+    expect(r.type).toContain("application/problem+json");
+    expect(r.json).toMatchObject({ type: "/api/v1/problems/forbidden", instance: `/api/v1/monitors/${monitors.B.id}/readings` });
+    expect(String(r.json.detail)).toMatch(/bound to another monitor/);
+    expect(readingRows(monitors.B.id)).toBe(0);
+  });
+
+  it("a read token cannot post readings (403), a device token cannot read or close a monitor (403), a write token of a reviewer may post", async () => {
+    const read = await call("POST", `/api/v1/monitors/${monitors.B.id}/readings`, { token: tokens.reviewerR!.token, body: { readings: [reading(0, 3)] } });
+    expect(read.status).toBe(403);
+    expect(String(read.json.detail)).toMatch(/scope is 'read'/);
+    expect((await call("GET", `/api/v1/monitors/${monitors.B.id}`, { token: monitors.B.token })).status).toBe(403);
+    expect((await call("POST", `/api/v1/monitors/${monitors.B.id}/close`, { token: monitors.B.token })).status).toBe(403);
+    expect(readingRows(monitors.B.id)).toBe(0);
+    const write = await call("POST", `/api/v1/monitors/${monitors.B.id}/readings`, { token: tokens.reviewerW!.token, body: { readings: [reading(0, 3)] } });
+    expect(write.json).toMatchObject({ accepted: 1 });
+  });
+
+  it("a revoked device token: 401 saying it was revoked, nothing stored", async () => {
+    expect(corelag("token", "revoke", monitors.B.tokenId).code).toBe(0);
+    const before = readingRows(monitors.B.id);
+    const r = await call("POST", `/api/v1/monitors/${monitors.B.id}/readings`, { token: monitors.B.token, body: { readings: [reading(1, 3)] } });
+    expect(r.status).toBe(401);
+    expect(r.json).toMatchObject({ type: "/api/v1/problems/unauthorized" });
+    expect(String(r.json.detail)).toMatch(/\('device: Route 7 tote B', clg_.{8}…\) was revoked at /);
+    expect(readingRows(monitors.B.id)).toBe(before);
+  });
+
+  it("corelag token create --scope device --monitor ID issues a replacement that posts to that monitor only", async () => {
+    const bad = corelag("token", "create", "--user", "reviewer@example.test", "--name", "x", "--scope", "write", "--monitor", monitors.B.id);
+    expect(bad.stderr.split("\n")[0]).toBe("corelag token: --monitor: only a device token is bound to a monitor (give the scope device)");
+    expect(corelag("token", "create", "--user", "reviewer@example.test", "--name", "x", "--scope", "device", "--monitor", "no-such-monitor").stderr.split("\n")[0]).toBe("corelag token: --monitor: there is no monitor with id 'no-such-monitor'");
+    const t = makeToken("gatewayB", "reviewer@example.test", "device", ["--monitor", monitors.B.id]);
+    expect((await call("POST", `/api/v1/monitors/${monitors.B.id}/readings`, { token: t.token, body: { readings: [reading(1, 3)] } })).json).toMatchObject({ accepted: 1 });
+    expect((await call("POST", `/api/v1/monitors/${monitors.A.id}/readings`, { token: t.token, body: { readings: [reading(9, 3)] } })).status).toBe(403);
+  });
+
+  it("POST /api/v1/monitors/{id}/close: 200 {trace_id, review_id}; then readings are refused (409)", async () => {
+    const r = await call("POST", `/api/v1/monitors/${monitors.A.id}/close`, { token: tokens.reviewerW!.token });
+    expect(r.status, r.text).toBe(200);
+    expect(v.response("post", "/api/v1/monitors/{id}/close", 200, r.json)).toBeNull();
+    const late = await call("POST", `/api/v1/monitors/${monitors.A.id}/readings`, { token: monitors.A.token, body: { readings: [reading(10, 3)] } });
+    expect(late.status).toBe(409);
+    expect(late.json).toMatchObject({ type: "/api/v1/problems/conflict" });
   });
 });
 

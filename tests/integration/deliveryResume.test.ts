@@ -5,7 +5,7 @@ import path from "node:path";
 import { createHmac } from "node:crypto";
 import { createServer, type Server } from "node:http";
 import { testDatabaseUrl } from "../helpers/database";
-import { TEST_ACTOR } from "../helpers/accounts";
+import { TEST_ACTOR, seedAccounts } from "../helpers/accounts";
 
 // Alert deliveries survive a stopped process: a retry that was due while its process was gone is taken up by
 // the next sweep (of any instance), exactly once, from the next attempt. The "stopped process" is written into
@@ -25,6 +25,8 @@ let receiver: Server;
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  // a monitor made by system:test gets a device token of the first administrator: there must be one
+  seedAccounts(url);
   receiver = createServer((req, res) => {
     let body = "";
     req.on("data", (d) => (body += d));

@@ -14,6 +14,9 @@ process.env.DATABASE_URL = url;
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  // as npm start: the demo accounts first (the demo monitor's device token belongs to the first administrator)
+  const { createDemoAccounts } = await import("@/lib/services/users");
+  await createDemoAccounts(TEST_ACTOR);
 });
 
 afterAll(async () => {
@@ -70,6 +73,18 @@ describe("demo loader", () => {
     const signed = (await listReviews({ status: "signed" }))[0]!;
     expect(await recheckReview(signed.id, TEST_ACTOR)).toMatchObject({ ok: true, check: { reproduced: true } });
     expect((await unreviewedTraces()).rows.map((t) => t.name)).toEqual(["Probe test, tray with simulant (demo)"]);
+  });
+
+  it("the demo monitor's fixed public token (README, corelag simulate) is a device API token of the first administrator, bound to it", async () => {
+    const { DEMO_MONITOR } = await import("@/lib/services/demoNames");
+    const { listMonitors } = await import("@/lib/db/monitors");
+    const { actorFromAuthorization } = await import("@/lib/services/apiTokens");
+    const { usesDemoToken, deviceBindingRefusal } = await import("@/lib/services/monitors");
+    const demo = (await listMonitors()).find((m) => m.name === DEMO_MONITOR.name)!;
+    const r = await actorFromAuthorization(`Bearer ${DEMO_MONITOR.token}`);
+    expect(r).toMatchObject({ ok: true, actor: { kind: "token", scope: "device", role: "admin", monitorId: demo.id } });
+    if (r.ok) expect(deviceBindingRefusal(r.actor, demo.id)).toBeNull();
+    expect(await usesDemoToken(demo.id, DEMO_MONITOR.token)).toBe(true);
   });
 
   it("demo:reset refuses without --yes, and with it starts the database over with only the demo", async () => {

@@ -12,6 +12,8 @@ process.env.DATABASE_URL = url;
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  const { createDemoAccounts } = await import("@/lib/services/users");
+  await createDemoAccounts({ kind: "system", what: "demo" });
   const { loadDemoIfEmpty } = await import("@/lib/services/demo");
   expect(await loadDemoIfEmpty()).toBe("loaded");
 });

@@ -6,7 +6,7 @@ import { createHmac } from "node:crypto";
 import { createServer, type Server } from "node:http";
 import { createServer as createTcpServer, type Server as TcpServer } from "node:net";
 import { testDatabaseUrl } from "../helpers/database";
-import { TEST_ACTOR } from "../helpers/accounts";
+import { TEST_ACTOR, seedAccounts } from "../helpers/accounts";
 
 // A real database (SQLite here, PostgreSQL under npm run test:pg), the real services, and a real HTTP receiver for the webhooks on a local port (3600–3699
 // are this suite's). Retries are made fast through the configuration (30 s in production).
@@ -77,6 +77,8 @@ function startSmtp(): Promise<void> {
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(url);
+  // a monitor made by system:test gets a device token of the first administrator: there must be one
+  seedAccounts(url);
   svc = await import("@/lib/services/monitors");
   const dbm = await import("@/lib/db");
   const product = JSON.parse(readFileSync(path.join(DEMO, "ready-meal.product.json"), "utf8"));

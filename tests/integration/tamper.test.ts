@@ -31,6 +31,9 @@ let ids: { signedReview: string; openReview: string; shipmentReview: string; dem
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/lib/db/migrate");
   migrateDatabase(`file:${base}`);
+  // as npm start: the demo accounts first (the demo monitor's device token belongs to the first administrator)
+  const { createDemoAccounts } = await import("@/lib/services/users");
+  await createDemoAccounts(TEST_ACTOR);
   const { loadDemoIfEmpty } = await import("@/lib/services/demo");
   await loadDemoIfEmpty();
   const { db } = await import("@/lib/db/client");
@@ -252,7 +255,8 @@ const CASES: Case[] = [
     expect: ["chain-broken", "row-unaudited", "signature-invalid"],
     tamper: (f) =>
       sql(f, (d) => {
-        d.exec(`DROP TRIGGER "AuditEntry_no_delete"; DELETE FROM "AuditEntry" WHERE "seq" = 3`);
+        // the entry of the demo's limit set (the second definition; the demo accounts' entries come before it)
+        d.exec(`DROP TRIGGER "AuditEntry_no_delete"; DELETE FROM "AuditEntry" WHERE "seq" = (SELECT "seq" FROM "AuditEntry" WHERE "entity" = 'definition' ORDER BY "seq" LIMIT 1 OFFSET 1)`);
         rehashChain(d);
       }),
   },
@@ -574,7 +578,7 @@ describe("anchors", () => {
     const other = path.join(dir, "other.db");
     const { migrateDatabase } = await import("@/lib/db/migrate");
     migrateDatabase(`file:${other}`);
-    await run(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), "-e", `require("./lib/services/demo").loadDemoIfEmpty().then(() => process.exit(0))`], { cwd: ROOT, env: { ...process.env, DATABASE_URL: `file:${other}` } });
+    await run(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), "-e", `require("./lib/services/users").createDemoAccounts({ kind: "system", what: "demo" }).then(() => require("./lib/services/demo").loadDemoIfEmpty()).then(() => process.exit(0))`], { cwd: ROOT, env: { ...process.env, DATABASE_URL: `file:${other}` } });
     const anchor = (await corelag(other, "anchor")).out.trim();
     const file = copyOfDemo();
     const { code, report } = await verify(file, "--anchor", anchor);

@@ -196,8 +196,6 @@ describe("the OpenAPI document", () => {
     const served = new Set(files.map((f) => `${f.method} ${f.path}`));
     // the problems route describes problem types; it is linked from every problem, not an operation
     served.delete("get /api/v1/problems/{kind}");
-    // issue 17's monitor routes answer their own problems (app/api/v1/monitors/problem.ts) and are not yet in ENDPOINTS
-    for (const op of [...served]) if (op.includes("/api/v1/monitors")) served.delete(op);
     // the catch-all answers any other path with a problem+json 404
     for (const m of ["get", "post", "put", "patch", "delete"]) served.delete(`${m} /api/v1/[...rest]`);
     expect([...served].sort()).toEqual([...documented].sort());
@@ -232,6 +230,45 @@ describe("the OpenAPI document", () => {
     expect(v.request("put", "/api/v1/definitions/limits/{id}", limits)).toBeNull();
     expect(v.request("post", "/api/v1/reviews", { trace_id: "t", product_id: "p", limits_id: "l", window: "2026-06-16T05:00:00Z/2026-06-16T11:00:00Z" })).toBeNull();
     expect(v.request("post", "/api/v1/reviews", { trace_id: "t", product_id: "p" })).toMatch(/limits_id/);
+  });
+
+  // An invented fixture with the issue's fields (issue 17): GET /api/v1/monitors/{id} gives exactly these.
+  const state = {
+    id: "m1",
+    last_reading: { t: "2026-06-16T08:00:00.000Z", air_C: 11.5 },
+    core_C: 4.2,
+    rules: [{ id: "core-above-5C", status_so_far: "pass", cumulative_min: 0, remaining_min: 240 }],
+    forecast: { assumed_air_C: 11.5, minutes_to_limit: 42.5, limit_rule: "core-above-5C", horizon_min: 540, reason: "the core reaches 5 °C with the air held at 11.5 °C" },
+    stale: false,
+  };
+
+  test("the monitor state: the issue's fields validate, surface_C and remaining_min are optional, the forecast may be null", () => {
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, state)).toBeNull();
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, { ...state, surface_C: 6.1 })).toBeNull();
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, { ...state, rules: [{ id: "core-above-5C", status_so_far: "inconclusive", cumulative_min: 307.5 }] })).toBeNull();
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, { ...state, last_reading: null, core_C: null, rules: [], forecast: null })).toBeNull();
+  });
+
+  test("the monitor state: a field more, a field less or a wrong status is refused (the document holds the server to the issue's shape)", () => {
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, { ...state, mean_C: 4 })).toMatch(/additional properties/);
+    const { stale: _stale, ...noStale } = state;
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, noStale)).toMatch(/stale/);
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, { ...state, rules: [{ ...state.rules[0], status_so_far: "ok" }] })).toMatch(/allowed values/);
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, { ...state, forecast: { ...state.forecast, minutes_to_limit: "soon" } })).not.toBeNull();
+    expect(v.response("get", "/api/v1/monitors/{id}", 200, { ...state, last_reading: { t: state.last_reading.t } })).toMatch(/air_C/);
+  });
+
+  test("the other monitor operations: create, readings (JSON and the refused-readings problem), close", () => {
+    expect(v.request("post", "/api/v1/monitors", { name: "Route 7 tote 3", product_id: "p", limits_id: "l", alert: { lead_min: 60, webhooks: ["https://example.org/hook"] } })).toBeNull();
+    expect(v.request("post", "/api/v1/monitors", { name: "Route 7 tote 3", product_id: "p", limits_id: "l" })).toMatch(/alert/);
+    expect(v.response("post", "/api/v1/monitors", 201, { id: "m1", device_token: "clg_" + "A".repeat(43) })).toBeNull();
+    expect(v.request("post", "/api/v1/monitors/{id}/readings", { readings: [{ t: "2026-06-16T08:00:00Z", air_C: 3 }, { t: "2026-06-16T08:02:00+02:00", air_C: 3.1, probe_C: 2.9 }] })).toBeNull();
+    expect(v.request("post", "/api/v1/monitors/{id}/readings", { readings: [{ t: "2026-06-16T08:00:00Z", air: 3 }] })).not.toBeNull();
+    expect(v.response("post", "/api/v1/monitors/{id}/readings", 200, { accepted: 2, duplicates: 0, conflicts: [], refused: [], batch: { id: "b1", sha256: "ab" } })).toBeNull();
+    const refused = { ...problem("invalid-readings", "1 reading(s) refused"), refused: [{ index: 1, reason: "t must be an ISO 8601 date-time" }] };
+    expect(v.response("post", "/api/v1/monitors/{id}/readings", 422, refused, "application/problem+json")).toBeNull();
+    expect(v.response("post", "/api/v1/monitors/{id}/readings", 403, problem("forbidden", "bound to another monitor"), "application/problem+json")).toBeNull();
+    expect(v.response("post", "/api/v1/monitors/{id}/close", 200, { trace_id: "t1", review_id: "r1" })).toBeNull();
   });
 });
 

@@ -4,16 +4,16 @@ import { parseArgs } from "node:util";
 import { CliError, currentCliActor } from "../common";
 
 export const TOKEN_USAGE = `usage:
-  corelag token create --user EMAIL --name NAME [--expires-days N] [--scope read|write|device] [--format json]
+  corelag token create --user EMAIL --name NAME [--expires-days N] [--scope read|write|device] [--monitor ID] [--format json]
   corelag token list [--user EMAIL] [--all]
   corelag token revoke ID`;
 
-const FLAG_OF: Record<string, string> = { email: "--user", name: "--name", expiresDays: "--expires-days", scope: "--scope" };
+const FLAG_OF: Record<string, string> = { email: "--user", name: "--name", expiresDays: "--expires-days", scope: "--scope", monitorId: "--monitor" };
 
 async function create(argv: string[]): Promise<string> {
   const { values, positionals } = parseArgs({
     args: argv,
-    options: { user: { type: "string" }, name: { type: "string" }, "expires-days": { type: "string" }, scope: { type: "string" }, format: { type: "string" } },
+    options: { user: { type: "string" }, name: { type: "string" }, "expires-days": { type: "string" }, scope: { type: "string" }, monitor: { type: "string" }, format: { type: "string" } },
     allowPositionals: true,
     strict: true,
   });
@@ -27,14 +27,14 @@ async function create(argv: string[]): Promise<string> {
     expiresDays = Number(values["expires-days"]);
   }
   const { createToken } = await import("../../services/apiTokens");
-  const r = await createToken({ email: values.user, name: values.name, expiresDays, scope: values.scope as "read" | undefined }, currentCliActor());
+  const r = await createToken({ email: values.user, name: values.name, expiresDays, scope: values.scope as "read" | undefined, monitorId: values.monitor }, currentCliActor());
   if (!r.ok) throw new CliError(`${FLAG_OF[r.field] ?? r.field}: ${r.message}`);
   const c = r.created;
-  if (values.format === "json") return JSON.stringify({ id: c.id, token: c.token, scope: c.scope, expires_at: c.expires_at }) + "\n";
+  if (values.format === "json") return JSON.stringify({ id: c.id, token: c.token, scope: c.scope, expires_at: c.expires_at, ...(c.monitor_id ? { monitor_id: c.monitor_id } : {}) }) + "\n";
   return [
     c.token,
     "",
-    `id ${c.id} · owner ${c.owner} · scope ${c.scope} · ${c.expires_at ? `expires ${c.expires_at}` : "does not expire (revoke it with corelag token revoke)"}`,
+    `id ${c.id} · owner ${c.owner} · scope ${c.scope}${c.monitor_id ? ` (monitor ${c.monitor_id})` : ""} · ${c.expires_at ? `expires ${c.expires_at}` : "does not expire (revoke it with corelag token revoke)"}`,
     "This is the only time the token is shown; only its SHA-256 is stored. Keep it in a secret store.",
     "Send it as the header  Authorization: Bearer <the token above>  (e.g. curl -H \"Authorization: Bearer $TOKEN\" http://HOST/api/v1/reviews).",
     "",

@@ -1,14 +1,14 @@
-import { ensureSweeper, monitorView, stateJson } from "@/lib/services/monitors";
-import { problemResponse } from "../problem";
 import { guardRoute } from "@/app/guard";
+import { ApiProblem, problem } from "@/lib/api/problem";
+import { ensureSweeper, monitorView, stateJson } from "@/lib/services/monitors";
+import { api } from "../../_lib/apiRoute";
 
 export const dynamic = "force-dynamic";
 
 /** GET /api/v1/monitors/{id}: the state after the readings so far, the rules' running status, the forecast, staleness. */
-export const GET = guardRoute("read", async (_req: Request, ctx: { params: Promise<{ id: string }> }) => {
-  const { id } = await ctx.params;
-  const v = await monitorView(id);
-  if (!v) return problemResponse("not-found", `no monitor ${id}`, { field: "id" });
+export const GET = guardRoute("read", api<{ id: string }>(async (_req, { params }) => {
+  const v = await monitorView(params.id);
+  if (!v) throw new ApiProblem(problem("not-found", `there is no monitor with id '${params.id}'`, { field: "id" }));
   ensureSweeper();
   return Response.json(stateJson(v));
-});
+}));

@@ -1,6 +1,10 @@
-import { deviceTokenMatches, ensureSweeper, postReadings } from "@/lib/services/monitors";
-import { problemResponse } from "../../problem";
-import { publicRoute } from "@/app/guard";
+import { guardRoute } from "@/app/guard";
+import { readBounded } from "@/lib/api/body";
+import { ApiProblem, problem } from "@/lib/api/problem";
+import { readingsQuerySchema } from "@/lib/api/schemas";
+import { deviceBindingRefusal, ensureSweeper, postReadings } from "@/lib/services/monitors";
+import { api } from "../../../_lib/apiRoute";
+import { queryOf } from "../../../_lib/params";
 
 export const dynamic = "force-dynamic";
 
@@ -8,25 +12,25 @@ export const dynamic = "force-dynamic";
 const MAX_BYTES = 2 * 1024 * 1024;
 
 /**
- * POST /api/v1/monitors/{id}/readings with the monitor's device token (Authorization: Bearer …):
- * {"readings": [{"t", "air_C", "probe_C"?}]} or text/csv with the header t,air_C[,probe_C].
- * ?partial=true keeps the good readings of a batch with refused ones; without it nothing is stored.
+ * POST /api/v1/monitors/{id}/readings with an API token (a device token bound to this monitor, or a write
+ * token whose owner may post readings): {"readings": [{"t", "air_C", "probe_C"?}]} or text/csv with the header
+ * t,air_C[,probe_C]. ?partial=true keeps the good readings of a batch with refused ones; without it nothing is
+ * stored. The audit entry of the batch names the token.
  */
-export const POST = publicRoute("a logger gateway: authenticated by the monitor's own device token, checked first below", async (req: Request, ctx: { params: Promise<{ id: string }> }) => {
-  const { id } = await ctx.params;
-  if (!(await deviceTokenMatches(id, req.headers.get("authorization")))) {
-    return problemResponse("unauthorized", "send this monitor's device token as Authorization: Bearer <token>");
+export const POST = guardRoute("monitor:post-readings", api<{ id: string }>(async (req, { params, actor }) => {
+  const bound = deviceBindingRefusal(actor, params.id);
+  if (bound) throw new ApiProblem(problem("forbidden", bound));
+  const { partial } = queryOf(req, readingsQuerySchema);
+  const type = req.headers.get("content-type") ?? "";
+  if (!/^(application\/json|text\/csv)\b/i.test(type)) {
+    throw new ApiProblem(problem("unsupported-media-type", `send application/json ({"readings": [...]}) or text/csv (t,air_C[,probe_C]); got ${type ? `'${type}'` : "no content type"}`));
   }
-  const partialParam = new URL(req.url).searchParams.get("partial");
-  if (partialParam !== null && partialParam !== "true" && partialParam !== "false") return problemResponse("invalid-request", "query parameter 'partial' must be true or false", { field: "partial" });
-  const bytes = new Uint8Array(await req.arrayBuffer());
-  if (bytes.length > MAX_BYTES) return problemResponse("invalid-request", `the body is ${bytes.length} bytes; at most ${MAX_BYTES} per request`, { field: "body" });
-  const out = await postReadings(id, bytes, req.headers.get("content-type") ?? "", partialParam === "true", { kind: "system", what: `device:${id}` });
+  const bytes = await readBounded(req.body, MAX_BYTES);
+  const out = await postReadings(params.id, bytes, type, partial, actor);
   ensureSweeper();
   if (out.ok) return Response.json(out.body, { status: out.status });
-  if (out.status === 404) return problemResponse("not-found", out.detail, { field: "id" });
-  if (out.status === 409) return problemResponse("conflict", out.detail);
-  if (out.status === 400 && /^send application/.test(out.detail)) return problemResponse("unsupported-media-type", out.detail);
-  if (out.refused) return problemResponse("invalid-readings", out.detail, { refused: out.refused });
-  return problemResponse("invalid-request", out.detail, { field: "body" });
-});
+  if (out.status === 404) throw new ApiProblem(problem("not-found", `there is no monitor with id '${params.id}'`, { field: "id" }));
+  if (out.status === 409) throw new ApiProblem(problem("conflict", out.detail));
+  if (out.refused) throw new ApiProblem({ ...problem("invalid-readings", out.detail), refused: out.refused });
+  throw new ApiProblem(problem("invalid-request", out.detail, { field: "body" }));
+}));
