@@ -26,6 +26,8 @@ async function chooseDesignInputs(page: Page, limits: string) {
   await page.getByTestId("size-limits").selectOption({ label: limits + S });
   await page.getByRole("button", { name: "Use these" }).click();
   await expect(page.getByTestId("size-variable")).toBeVisible();
+  // the page is server-rendered: on a busy machine a click can land before React attaches its handlers
+  await expect(page.getByTestId("design-runner")).toHaveAttribute("data-hydrated", "true");
 }
 
 test("the demo tote sizes out of the box: the value in mm on the 0.1 mm grid, the governing rule and its limit line", async ({ page }) => {

@@ -111,10 +111,13 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
     start("Monte Carlo", { type: "mc", spec, ...(runAt ? { at: { variable: runAt.variable, value: runAt.value } } : {}) }, (r) => setMc({ ...(r as Omit<McResult, "at">), at }));
   };
   const busy = run.kind === "running";
+  // set once React has attached the handlers: a click before that does nothing (tests wait for it)
+  const [hydrated, setHydrated] = useState(false);
+  useEffect(() => setHydrated(true), []);
 
   return (
     <>
-      <section className="card">
+      <section className="card" data-testid="design-runner" data-hydrated={hydrated ? "true" : "false"}>
         <h2 style={{ marginTop: 0 }}>Size one design variable</h2>
         <div style={{ display: "flex", flexWrap: "wrap", gap: "0.8rem", alignItems: "end" }}>
           <label>Variable
