@@ -12,7 +12,7 @@ export const createTokenAction = guardAction("user:admin", async (actor, _prev: 
   const values = formValues(form);
   const days = textField(form, "expiresDays")?.trim();
   const r = await createToken(
-    { email: textField(form, "email") ?? "", name: textField(form, "name") ?? "", scope: (textField(form, "scope") || "read") as "read", expiresDays: days ? numberField(form, "expiresDays") : undefined },
+    { email: textField(form, "email") ?? "", name: textField(form, "name") ?? "", scope: (textField(form, "scope") || "read") as "read", expiresDays: days ? numberField(form, "expiresDays") : undefined, monitorId: textField(form, "monitorId")?.trim() || undefined },
     actor,
   );
   if (!r.ok) return { fieldErrors: { [r.field]: r.message }, values };

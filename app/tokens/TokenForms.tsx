@@ -5,7 +5,7 @@ import { ActionForm } from "@/app/components/ActionForm";
 import { createTokenAction, revokeTokenAction, type TokenFormState } from "@/app/actions/tokens";
 import type { FormState } from "@/lib/validation";
 
-export function CreateTokenForm({ owners }: { owners: Array<{ email: string; label: string }> }) {
+export function CreateTokenForm({ owners, monitors }: { owners: Array<{ email: string; label: string }>; monitors: Array<{ id: string; label: string }> }) {
   const [state, dispatch, pending] = useActionState<TokenFormState, FormData>(createTokenAction, {});
   const v = state.values ?? {};
   const err = state.fieldErrors ?? {};
@@ -13,7 +13,7 @@ export function CreateTokenForm({ owners }: { owners: Array<{ email: string; lab
     <>
       {state.created ? (
         <div className="caution" data-testid="new-token">
-          <p><strong>Copy this token now: it is not shown again.</strong> Owner {state.created.owner}, scope {state.created.scope}, {state.created.expires_at ? `expires ${state.created.expires_at}` : "does not expire"}.</p>
+          <p><strong>Copy this token now: it is not shown again.</strong> Owner {state.created.owner}, scope {state.created.scope}, {state.created.expires_at ? `expires ${state.created.expires_at.slice(0, 16).replace("T", " ")} UTC` : "does not expire"}.</p>
           <p><code className="hash" data-testid="token-value">{state.created.token}</code></p>
         </div>
       ) : null}
@@ -39,6 +39,14 @@ export function CreateTokenForm({ owners }: { owners: Array<{ email: string; lab
             <option value="write">write: what the owner&apos;s role allows</option>
             <option value="device">device: post readings only</option>
           </select>
+        </label>
+        <label>
+          Monitor (device tokens only: the one monitor it may post readings to)
+          <select name="monitorId" defaultValue={v.monitorId ?? ""} aria-invalid={err.monitorId ? true : undefined} key={`monitor-${v.monitorId ?? ""}`} data-testid="token-monitor">
+            <option value="">none (read and write tokens)</option>
+            {monitors.map((m) => <option key={m.id} value={m.id}>{m.label}</option>)}
+          </select>
+          {err.monitorId ? <span className="field-error" data-testid="error-monitorId">{err.monitorId}</span> : null}
         </label>
         <label>
           Expires after (days, blank: until revoked)

@@ -2,6 +2,7 @@ import Link from "next/link";
 import { pageActor, can } from "@/app/guard";
 import { listTokens } from "@/lib/services/apiTokens";
 import { users } from "@/lib/services/users";
+import { listMonitors } from "@/lib/db/monitors";
 import { formatTime } from "@/lib/display/time";
 import { displayZone } from "@/app/displayZone";
 import { CreateTokenForm, RevokeTokenButton } from "./TokenForms";
@@ -23,6 +24,7 @@ export default async function TokensPage() {
   const listed = await listTokens({ includeRevoked: true });
   const tokens = listed.ok ? listed.tokens : [];
   const people = (await users()).filter((u) => !u.disabled);
+  const openMonitors = (await listMonitors()).filter((m) => m.status === "open");
   const when = (iso: string | null, none: string) => (iso ? formatTime(new Date(iso), zone) : none);
   return (
     <>
@@ -33,7 +35,7 @@ export default async function TokensPage() {
       </p>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>New token</h2>
-        <CreateTokenForm owners={people.map((u) => ({ email: u.email, label: `${u.name} <${u.email}> (${u.role})` }))} />
+        <CreateTokenForm owners={people.map((u) => ({ email: u.email, label: `${u.name} <${u.email}> (${u.role})` }))} monitors={openMonitors.map((m) => ({ id: m.id, label: `${m.name}${m.serial ? ` (logger ${m.serial})` : ""}` }))} />
       </section>
       <section className="card">
         <h2 style={{ marginTop: 0 }}>Tokens</h2>

@@ -31,6 +31,8 @@ export async function createToken(input: z.input<typeof createTokenSchema>, acto
   }
   const req = parsed.data;
   if (req.monitorId !== undefined && req.scope !== "device") return { ok: false, field: "monitorId", message: "only a device token is bound to a monitor (give the scope device)" };
+  // a device token may only post readings to its monitor: one bound to none could do nothing at all
+  if (req.monitorId === undefined && req.scope === "device") return { ok: false, field: "monitorId", message: "a device token posts readings to one monitor: choose the monitor it is for" };
   if (req.monitorId !== undefined && !(await getMonitor(req.monitorId))) return { ok: false, field: "monitorId", message: `there is no monitor with id '${req.monitorId}'` };
   const owner = await tokenOwnerByEmail(req.email);
   if (!owner) return { ok: false, field: "email", message: `there is no user with the e-mail address ${req.email}` };

@@ -111,7 +111,13 @@ beforeAll(async () => {
   makeToken("adminW", "admin@example.test", "write");
   makeToken("reviewerW", "reviewer@example.test", "write");
   makeToken("reviewerR", "reviewer@example.test", "read");
-  makeToken("reviewerD", "reviewer@example.test", "device");
+  // a device token is always bound to one monitor; this one to a monitor no request below names (a bare row:
+  // the roles-and-scopes loop only needs it to exist)
+  sql((db) =>
+    db.prepare(`INSERT INTO "Monitor" ("id","name","productId","limitsId","alertLeadMin","webhooks","emails","webhookSecret","deviceTokenSha256","createdAt") VALUES (?,?,?,?,?,?,?,?,?,?)`)
+      .run("mon-elsewhere", "elsewhere", "p-none", "l-none", 60, "[]", "[]", "secret", "0".repeat(64), Date.now()),
+  );
+  makeToken("reviewerD", "reviewer@example.test", "device", ["--monitor", "mon-elsewhere"]);
   makeToken("designerW", "designer@example.test", "write");
   makeToken("auditorW", "auditor@example.test", "write");
   makeToken("revoked", "reviewer@example.test", "write");
@@ -194,9 +200,9 @@ describe("roles and scopes (403 exactly when the owner's role or the token's sco
         // Requests that cannot write: unknown ids, and empty bodies that do not validate.
         const r = await call(e.method.toUpperCase(), concrete(e.path), { token: t.token, ...(e.method !== "get" ? { body: {} } : {}) });
         const allowed = actorAllows(actorOf(t), e.permission!);
-        // a device token posts readings only to the monitor it is bound to; these device tokens are bound to none
-        const unbound = t.scope === "device" && e.permission === "monitor:post-readings";
-        if (allowed && !unbound) {
+        // a device token posts readings only to the monitor it is bound to, which no request here names
+        const elsewhere = t.scope === "device" && e.permission === "monitor:post-readings";
+        if (allowed && !elsewhere) {
           expect([200, 404, 422], `${key} ${e.method} ${e.path}: ${r.text}`).toContain(r.status);
         } else {
           expect(r.status, `${key} ${e.method} ${e.path}`).toBe(403);
@@ -494,6 +500,8 @@ describe("live monitors over /api/v1: the device token is an API token bound to 
     const bad = corelag("token", "create", "--user", "reviewer@example.test", "--name", "x", "--scope", "write", "--monitor", monitors.B.id);
     expect(bad.stderr.split("\n")[0]).toBe("corelag token: --monitor: only a device token is bound to a monitor (give the scope device)");
     expect(corelag("token", "create", "--user", "reviewer@example.test", "--name", "x", "--scope", "device", "--monitor", "no-such-monitor").stderr.split("\n")[0]).toBe("corelag token: --monitor: there is no monitor with id 'no-such-monitor'");
+    // a device token bound to no monitor could post nowhere: refused, naming the flag
+    expect(corelag("token", "create", "--user", "reviewer@example.test", "--name", "x", "--scope", "device").stderr.split("\n")[0]).toBe("corelag token: --monitor: a device token posts readings to one monitor: choose the monitor it is for");
     const t = makeToken("gatewayB", "reviewer@example.test", "device", ["--monitor", monitors.B.id]);
     expect((await call("POST", `/api/v1/monitors/${monitors.B.id}/readings`, { token: t.token, body: { readings: [reading(1, 3)] } })).json).toMatchObject({ accepted: 1 });
     expect((await call("POST", `/api/v1/monitors/${monitors.A.id}/readings`, { token: t.token, body: { readings: [reading(9, 3)] } })).status).toBe(403);
