@@ -15,6 +15,11 @@ export interface ThresholdWords {
    * `usedUp` when that rule's allowance is used up or the rule fails so far
    */
   now: Array<{ rule: string; text: string; usedUp: boolean }>;
+  /**
+   * the rules so far, first: a rule that fails so far cannot pass again whatever the next readings (its time,
+   * stretch or peak beyond the threshold only grows), so that leads, ahead of the thresholds at this moment
+   */
+  verdict: { text: string; failed: boolean };
   /** the forecast: the time until a threshold is crossed, or why none is given */
   forecast: string;
   /** a crossing is forecast within the alert lead */
@@ -70,6 +75,13 @@ export function thresholdWords(limits: LimitSet, rules: readonly RuleRunning[], 
     const usedUp = s?.status_so_far === "fail" || (r.max_cumulative_min !== undefined && (s?.remaining_min ?? 0) <= 0);
     return { rule: r.id, text: nowSentence(r, last![r.channel as Modelled], s), usedUp };
   });
+  const failed = rules.filter((r) => r.status_so_far === "fail");
+  const unsure = rules.filter((r) => r.status_so_far === "inconclusive");
+  const verdict = failed.length
+    ? { failed: true, text: `${failed.length === 1 ? "Rule" : "Rules"} ${failed.map((r) => r.id).join(", ")} ${failed.length === 1 ? "has" : "have"} failed: no later reading can bring ${failed.length === 1 ? "it" : "them"} back to a pass. Decide on the load now.` }
+    : unsure.length
+      ? { failed: false, text: `No rule has failed so far; ${unsure.map((r) => r.id).join(", ")} ${unsure.length === 1 ? "is" : "are"} inconclusive (within the guard band).` }
+      : { failed: false, text: rules.length ? "Every rule passes so far." : "No rules judged yet." };
   let forecast: string;
   let soon = false;
   if (!fc) forecast = "needs readings";
@@ -82,5 +94,5 @@ export function thresholdWords(limits: LimitSet, rules: readonly RuleRunning[], 
     const dir = rule && isThresholdRule(rule) && rule.below_C !== undefined ? "below" : "above";
     forecast = `the ${fc.channel} goes ${dir} ${c(fc.threshold_C!)} (rule ${fc.limit_rule}'s threshold) in ${spanWords(fc.minutes_to_limit)} if the air holds at ${c(fc.assumed_air_C)}; this is when the threshold is crossed, not when an allowance runs out`;
   }
-  return { now, forecast, soon };
+  return { now, verdict, forecast, soon };
 }

@@ -68,4 +68,20 @@ describe("thresholdWords", () => {
     expect(s.usedUp).toBe(true);
     expect(s.text).toMatch(new RegExp(`, and the 120 min allowance is used up \\(${(total - tCross).toFixed(1)} min beyond it so far\\); rule core-5 fails\\.$`));
   });
+
+  it("rules so far: a rule that has failed leads the summary even after the core is back inside every threshold", () => {
+    const tCross = crossingMin(monitorAfter(5));
+    const total = Math.ceil((tCross + 150) / 5) * 5; // about 150 min above 5 °C: the 120 min allowance is used up
+    const m = monitorAfter(total);
+    // then 10 h at 2 °C: the core (tau about 3 h) is back under 5 °C, and the forecast says it never crosses again
+    const back: LiveReading[] = [];
+    for (let t = STEP_S; t <= 600 * 60; t += STEP_S) back.push({ t_s: START + total * 60 + t, air_C: 2 });
+    m.add(back);
+    const w = wordsOf(m);
+    expect(w.now).toEqual([]);
+    expect(w.forecast).toBe("no threshold crossing forecast");
+    expect(w.verdict).toEqual({ failed: true, text: "Rule core-5 has failed: no later reading can bring it back to a pass. Decide on the load now." });
+    // before any failure the verdict says so plainly
+    expect(wordsOf(monitorAfter(10)).verdict).toEqual({ failed: false, text: "Every rule passes so far." });
+  });
 });

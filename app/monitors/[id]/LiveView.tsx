@@ -42,7 +42,7 @@ export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; z
         {p.serial ? ` · logger ${p.serial}` : ""} · alert lead {minutes(p.alertLeadMin)}
         {p.status === "open" && connected === false ? " · reconnecting to the live stream…" : ""}
       </p>
-      {s.stale && (
+      {s.stale && p.status === "open" && (
         <p className="form-error" data-testid="stale-warning">
           No reading for {minutes(p.stale.silent_s / 60)} (usually one every {p.stale.interval_s ? minutes(p.stale.interval_s / 60) : "?"} of arrival time). The values below are as of the last reading: check the logger or gateway.
         </p>
@@ -65,6 +65,8 @@ export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; z
               <dt>Last reading</dt><dd>{s.last_reading ? `${formatTime(new Date(s.last_reading.t), zone)}: air ${fixed(s.last_reading.air_C, 2)} °C` : ""}</dd>
               <dt>Core (predicted)</dt><dd data-testid="core-now">{s.core_C !== null ? `${fixed(s.core_C, 2)} °C` : ""}</dd>
               {s.surface_C !== undefined && (<><dt>Surface (predicted)</dt><dd>{fixed(s.surface_C, 2)} °C</dd></>)}
+              <dt>Rules so far</dt>
+              <dd data-testid="rules-verdict"><strong className={p.words.verdict.failed ? "status-fail" : ""}>{p.words.verdict.text}</strong></dd>
               <dt>Thresholds now</dt>
               <dd data-testid="threshold-now">
                 {p.words.now.length === 0 ? (
