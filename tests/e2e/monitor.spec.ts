@@ -64,6 +64,7 @@ test("create a monitor, replay the demo trace with the simulator, watch the char
   // 0.5 K guard band: over it at 4.5 °C, under it at 5.5 °C, so inconclusive so far, and no rule-fail alert
   await expect(page.getByTestId("rules-running")).toContainText("core-above-5Ccoreinconclusive307.5 min0.0 min");
   await expect(page.getByTestId("alert-rule-fail")).toHaveCount(0);
+  await expect(page.getByTestId("rules-verdict")).toHaveText("No rule has failed so far; core-above-5C is inconclusive (within the guard band).");
   await expect(page.getByTestId("caution")).toContainText("local regulations");
   await page.screenshot({ path: "test-results/monitor-live-end.png", fullPage: true });
 
