@@ -34,7 +34,7 @@ async function main(): Promise<void> {
   console.log(`corelag: database ${url} migrated; demo ${demo === "loaded" ? "loaded" : withDemo ? "already present or not needed" : "off (CORELAG_DEMO=0)"}`);
   if (demo === "loaded") {
     if (accounts.length > 0) {
-      console.log("corelag: demo accounts (shown once; change or disable them before real use):");
+      console.log("corelag: demo accounts (shown once; give them new passwords (Users page, or corelag user set-password) or disable them before real use):");
       for (const a of accounts) console.log(`  ${a.role.padEnd(9)} ${a.email.padEnd(24)} password: ${a.password}`);
     }
   } else if (await needsFirstAdmin()) {

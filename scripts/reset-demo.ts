@@ -22,7 +22,7 @@ async function main(): Promise<number> {
   await loadDemoIfEmpty();
   console.log(`corelag: ${file} recreated with the demo; start the server with npm start`);
   if (accounts.length > 0) {
-    console.log("corelag: demo accounts (shown once; change or disable them before real use):");
+    console.log("corelag: demo accounts (shown once; give them new passwords (Users page, or corelag user set-password) or disable them before real use):");
     for (const a of accounts) console.log(`  ${a.role.padEnd(9)} ${a.email.padEnd(24)} password: ${a.password}`);
   }
   return 0;

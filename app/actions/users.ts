@@ -2,7 +2,7 @@
 
 import { revalidatePath } from "next/cache";
 import { guardAction } from "@/app/guard";
-import { addUser, changeDisabled, changeRole } from "@/lib/services/users";
+import { addUser, changeDisabled, changeRole, resetPassword } from "@/lib/services/users";
 import { formValues, textField, type FormState } from "@/lib/validation";
 
 export const addUserAction = guardAction("user:admin", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
@@ -27,4 +27,13 @@ export const setDisabledAction = guardAction("user:admin", async (actor, _prev: 
   if (!res.ok) return { message: res.message };
   revalidatePath("/users");
   return { message: `${res.user.email} is ${disabled ? "disabled; their sessions have ended" : "enabled again"}.` };
+});
+
+/** An administrator sets a new password for a user (a forgotten one): their sessions end and a lockout lifts. */
+export const resetPasswordAction = guardAction("user:admin", async (actor, _prev: FormState, form: FormData): Promise<FormState> => {
+  const res = await resetPassword(textField(form, "userId") ?? "", textField(form, "password") ?? "", actor);
+  if (!res.ok && res.reason === "invalid") return { fieldErrors: { password: res.message } };
+  if (!res.ok) return { message: res.message };
+  revalidatePath("/users");
+  return { message: `New password set for ${res.user.email}; their sessions have ended. Give it to them by a separate channel.` };
 });

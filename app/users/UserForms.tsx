@@ -1,7 +1,7 @@
 "use client";
 
 import { useActionState, useState } from "react";
-import { addUserAction, setDisabledAction, setRoleAction } from "@/app/actions/users";
+import { addUserAction, resetPasswordAction, setDisabledAction, setRoleAction } from "@/app/actions/users";
 import { ActionForm } from "@/app/components/ActionForm";
 import { Field, FormMessage } from "@/app/components/Field";
 import { ROLES } from "@/lib/access/roles";
@@ -52,5 +52,22 @@ export function DisableForm({ userId, disabled }: { userId: string; disabled: bo
       <button type="submit" className="secondary" disabled={pending}>{disabled ? "Enable" : "Disable"}</button>
       {state.message && <span className="hint" data-testid="disable-message">{state.message}</span>}
     </ActionForm>
+  );
+}
+
+/** A new password for a forgotten one: typed by the administrator, given to the person by a separate channel. */
+export function PasswordForm({ userId, email }: { userId: string; email: string }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(resetPasswordAction, {});
+  return (
+    <details>
+      <summary>Set a new password</summary>
+      <ActionForm action={action} className="inline" aria-label={`New password for ${email}`}>
+        <input type="hidden" name="userId" value={userId} />
+        <input type="password" name="password" autoComplete="new-password" placeholder="at least 12 characters" aria-label={`New password for ${email}`} aria-invalid={state.fieldErrors?.password ? true : undefined} data-testid={`new-password-${email}`} />
+        <button type="submit" className="secondary" disabled={pending}>Set password</button>
+        {state.fieldErrors?.password && <span className="field-error" data-testid="password-error">{state.fieldErrors.password}</span>}
+        {state.message && <span className="hint" data-testid="password-message">{state.message}</span>}
+      </ActionForm>
+    </details>
   );
 }

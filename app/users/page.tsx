@@ -3,7 +3,7 @@ import { can, pageActor } from "@/app/guard";
 import { users } from "@/lib/services/users";
 import { formatTime } from "@/lib/display/time";
 import { displayZone } from "@/app/displayZone";
-import { AddUserForm, DisableForm, RoleForm } from "./UserForms";
+import { AddUserForm, DisableForm, PasswordForm, RoleForm } from "./UserForms";
 
 export const dynamic = "force-dynamic";
 
@@ -21,7 +21,7 @@ export default async function UsersPage() {
   return (
     <section>
       <h1>Users</h1>
-      <p className="hint">Each person has one role. Role changes, disabling and enabling are recorded in the audit log. A disabled user cannot sign in and their sessions end at once.</p>
+      <p className="hint">Each person has one role. Role changes, new passwords, disabling and enabling are recorded in the audit log (never the password). A disabled user cannot sign in and their sessions end at once; so do the sessions of a user given a new password, whose lockout also lifts.</p>
       <ul className="hint">
         {Object.entries(ROLE_WORDS).map(([r, w]) => <li key={r}><strong>{r}</strong>: {w}</li>)}
       </ul>
@@ -35,7 +35,7 @@ export default async function UsersPage() {
               <td><RoleForm userId={u.id} role={u.role} /></td>
               <td>{u.disabled ? "disabled" : "active"}</td>
               <td>{formatTime(u.createdAt, zone)}</td>
-              <td><DisableForm userId={u.id} disabled={u.disabled} /></td>
+              <td><DisableForm userId={u.id} disabled={u.disabled} /> <PasswordForm userId={u.id} email={u.email} /></td>
             </tr>
           ))}
         </tbody>

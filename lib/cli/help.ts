@@ -96,6 +96,7 @@ corelag verify on it, with the original's signing key (CORELAG_SIGNING_KEY_FILE)
   user: `corelag user add --email E --name N --role admin|reviewer|designer|auditor --password-stdin
 corelag user list
 corelag user set-role --email E --role R
+corelag user set-password --email E --password-stdin   (a new password: the user's sessions end, a lockout lifts)
 corelag user disable --email E      (and user enable --email E)
 Accounts of the web app. The password is read from standard input (first line), never from the command line.
 Every change is recorded in the audit log as cli:<operating-system user>. An administrator cannot be demoted or
@@ -128,7 +129,7 @@ const SUMMARY: Record<string, string> = {
   seal: "record content hashes for rows written before they existed",
   backup: "a consistent copy of the database while the app runs",
   restore: "restore a backup into an empty database",
-  user: "add, list, change the role of, disable or enable web accounts",
+  user: "add, list, change the role or password of, disable or enable web accounts",
   token: "create, list and revoke API tokens (token create|list|revoke)",
 };
 

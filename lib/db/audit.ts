@@ -13,7 +13,7 @@ export interface AuditEvent {
   action:
     | "create" | "edit" | "import" | "run" | "sign" | "export" | "rename" | "verify" | "key" | "seal" | "cancel" | "readings" | "raise" | "clear" | "deliver" | "close"
     // accounts (issue 13): a sign-in, a refused one, a sign-out; a user's role changed, disabled or enabled
-    | "sign-in" | "sign-in-refused" | "sign-out" | "set-role" | "disable" | "enable"
+    | "sign-in" | "sign-in-refused" | "sign-out" | "set-role" | "disable" | "enable" | "set-password"
     // a signature refused for its password (wrong, or the account locked); counts toward the sign-in lockout
     | "signature-refused"
     // an alert delivery's retry taken up after the process that scheduled it stopped (entity "delivery": the attempt's row)

@@ -107,6 +107,24 @@ export async function setUserDisabled(id: string, disabled: boolean, actor: Acto
   });
 }
 
+/**
+ * A new password for a user (an administrator's reset, or the CLI's): the credential's hash is replaced, every
+ * session of the user ends (whoever knew the old password is out), refused sign-ins are forgotten (the lockout
+ * lifts), and the change is audited without the password or its hash.
+ */
+export async function setUserPassword(id: string, passwordHash: string, actor: Actor): Promise<UserChange> {
+  return db.$transaction(async (tx) => {
+    const row = await tx.user.findUnique({ where: { id }, select: userSelect });
+    if (!row) return { ok: false, reason: "not-found", message: "that user does not exist" };
+    const changed = await tx.account.updateMany({ where: { userId: id, providerId: "credential" }, data: { password: passwordHash, updatedAt: new Date() } });
+    if (changed.count !== 1) return { ok: false, reason: "not-found", message: `${row.email} has no password credential` };
+    const ended = await tx.session.deleteMany({ where: { userId: id } });
+    await tx.signInFailure.deleteMany({ where: { email: row.email } });
+    await appendAudit(tx, { action: "set-password", entity: "user", entityId: id, actor, details: { email: row.email, sessions_ended: ended.count } });
+    return { ok: true, user: row };
+  });
+}
+
 /** Ends one session (the absolute expiry, or a disabled user's). */
 export async function deleteSession(id: string): Promise<void> {
   await db.session.deleteMany({ where: { id } });

@@ -6,7 +6,7 @@ import { ROLES, type Role } from "../access/roles";
 import type { Actor } from "../access/actor";
 import { config } from "../config";
 import { hashPassword, verifyPassword } from "../db/passwords";
-import { countUsers, createUser, credentialHash, listUsers, setUserDisabled, setUserRole, userByEmail, userById, type CreateUserOutcome, type UserChange, type UserRow } from "../db/users";
+import { countUsers, createUser, credentialHash, listUsers, setUserDisabled, setUserPassword, setUserRole, userByEmail, userById, type CreateUserOutcome, type UserChange, type UserRow } from "../db/users";
 
 export const MIN_PASSWORD_CHARS = 12;
 
@@ -68,6 +68,20 @@ export async function changeDisabled(idOrEmail: string, disabled: boolean, actor
   const u = await findUser(idOrEmail);
   if (!u) return { ok: false, reason: "not-found", message: `no user ${idOrEmail}` };
   return setUserDisabled(u.id, disabled, actor);
+}
+
+const passwordSchema = newUserSchema.shape.password;
+
+/**
+ * Sets a new password (an administrator's reset on the Users page, or `corelag user set-password`): the same
+ * rules as a new account's; the user's sessions end and a lockout lifts (lib/db/users.ts setUserPassword).
+ */
+export async function resetPassword(idOrEmail: string, password: string, actor: Actor): Promise<UserChange | { ok: false; reason: "invalid"; message: string }> {
+  const p = passwordSchema.safeParse(password);
+  if (!p.success) return { ok: false, reason: "invalid", message: p.error.issues[0]!.message };
+  const u = await findUser(idOrEmail);
+  if (!u) return { ok: false, reason: "not-found", message: `no user ${idOrEmail}` };
+  return setUserPassword(u.id, await hashPassword(p.data), actor);
 }
 
 /** The password re-entered at signing (the second component of an electronic signature) checked against the stored hash. */

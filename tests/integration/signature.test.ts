@@ -115,4 +115,30 @@ describe("signing a review", () => {
     const refused = await db.auditEntry.findMany({ where: { action: "signature-refused", entityId: made.user.id }, orderBy: { seq: "asc" } });
     expect(refused.map((e) => (e.details as { reason: string }).reason)).toEqual(["wrong-password", "wrong-password", "wrong-password", "wrong-password", "wrong-password", "locked"]);
   });
+
+  it("a new password from an administrator (or `corelag user set-password`) lifts the lockout, ends the user's sessions, replaces the old one, and is audited without it", async () => {
+    const { findUser, resetPassword, passwordMatches } = await import("@/lib/services/users");
+    const cy = (await findUser("cy@example.com"))!;
+    const { db } = await import("@/lib/db/client");
+    await db.session.create({ data: { id: "sess-cy", token: "tok-cy", userId: cy.id, expiresAt: new Date(Date.now() + 3600_000) } });
+    // the same rule as a new account's password (lib/services/users.ts MIN_PASSWORD_CHARS)
+    expect(await resetPassword("cy@example.com", "short", TEST_ACTOR)).toMatchObject({ ok: false, reason: "invalid", message: "at least 12 characters" });
+    expect(await resetPassword("cy@example.com", "delta-password-012", TEST_ACTOR)).toMatchObject({ ok: true, user: { email: "cy@example.com" } });
+    expect(await passwordMatches(cy.id, "charlie-password-789")).toBe(false);
+    expect(await passwordMatches(cy.id, "delta-password-012")).toBe(true);
+    expect(await db.session.count({ where: { userId: cy.id } })).toBe(0);
+    // the account locked by the earlier test can sign again
+    const { reauthenticate } = await import("@/lib/services/access");
+    expect(await reauthenticate(cy.id, "delta-password-012")).toEqual({ ok: true });
+    const entry = await db.auditEntry.findFirst({ where: { action: "set-password", entityId: cy.id } });
+    expect(entry?.details).toMatchObject({ email: "cy@example.com", sessions_ended: 1 });
+    expect(JSON.stringify(entry?.details)).not.toMatch(/delta-password|argon2/);
+    // from a shell: the password on standard input, never on the command line
+    const { spawnSync } = await import("node:child_process");
+    const cli = (input: string, ...args: string[]) => spawnSync(process.execPath, [path.join(__dirname, "../../dist/cli/corelag.mjs"), "user", "set-password", ...args], { encoding: "utf8", env: { ...process.env, DATABASE_URL: url }, input });
+    expect(cli("echo-password-345\n", "--email", "cy@example.com").stderr.split("\n")[0]).toMatch(/--password-stdin is required/);
+    const r = cli("echo-password-345\n", "--email", "cy@example.com", "--password-stdin");
+    expect(r.status, r.stderr).toBe(0);
+    expect(await passwordMatches(cy.id, "echo-password-345")).toBe(true);
+  });
 });

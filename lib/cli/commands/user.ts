@@ -1,10 +1,10 @@
-// `corelag user add|list|set-role|disable|enable`: accounts from a shell (the first administrator when
+// `corelag user add|list|set-role|set-password|disable|enable`: accounts from a shell (the first administrator when
 // CORELAG_DEMO=0, or when the web page is out of reach). Every change is audited as `cli:<os user>`.
 import { readFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { CliError, currentCliActor } from "../common";
 
-const USER_USAGE = "usage: corelag user add --email E --name N --role admin|reviewer|designer|auditor --password-stdin | user list | user set-role --email E --role R | user disable --email E | user enable --email E";
+const USER_USAGE = "usage: corelag user add --email E --name N --role admin|reviewer|designer|auditor --password-stdin | user list | user set-role --email E --role R | user set-password --email E --password-stdin | user disable --email E | user enable --email E";
 
 /** The password from standard input: its first line, without the line end (so `echo pw |` works). */
 function passwordFromStdin(): string {
@@ -38,6 +38,14 @@ export async function userCommand(argv: string[]): Promise<unknown> {
       if (!values.email || !values.role) throw new CliError(`--email and --role are required (${USER_USAGE})`);
       const res = await svc.changeRole(values.email, values.role, actor);
       if (!res.ok) throw new CliError(res.reason === "invalid" ? `--role: ${res.message}` : res.message);
+      return shown(res.user);
+    }
+    case "set-password": {
+      const { values } = parseArgs({ args: rest, options: { email: { type: "string" }, "password-stdin": { type: "boolean" } }, strict: true });
+      if (!values.email) throw new CliError(`--email is required (${USER_USAGE})`);
+      if (!values["password-stdin"]) throw new CliError("--password-stdin is required: the password is read from standard input, never from the command line (it would show in the process list and shell history)");
+      const res = await svc.resetPassword(values.email, passwordFromStdin(), actor);
+      if (!res.ok) throw new CliError(res.reason === "invalid" ? `--password-stdin: ${res.message}` : res.message);
       return shown(res.user);
     }
     case "disable":
