@@ -167,20 +167,22 @@ export type Reauthentication = { ok: true } | { ok: false; locked: boolean; mess
  * locked account cannot sign even with the right one, and each refusal is audited. A right one clears nothing:
  * only a successful sign-in resets the count.
  */
-export async function reauthenticate(userId: string, password: string): Promise<Reauthentication> {
+export async function reauthenticate(userId: string, password: string, attempt: { actor: Actor; signing: string } = { actor: { kind: "system", what: "signature" }, signing: "" }): Promise<Reauthentication> {
   const user = await userById(userId);
   if (!user) return { ok: false, locked: false, message: "the signer's account does not exist" };
   const since = new Date(Date.now() - LOCKOUT_WINDOW_S * 1000);
   const f = await signInFailuresSince(user.email, SIGNATURE_FAILURE_ADDRESS, since);
-  const system: Actor = { kind: "system", what: "signature" };
+  // the entry is made by the signed-in person (or token) who tried, and says what they tried to sign
+  const system = attempt.actor;
+  const signing = attempt.signing ? { signing: attempt.signing } : {};
   if (f.byAccount >= ACCOUNT_FAILURE_LIMIT && f.lastAccountAt) {
     const until = new Date(f.lastAccountAt.getTime() + LOCKOUT_WINDOW_S * 1000);
-    await logSessionEvent("signature-refused", user.id, system, { email: user.email, reason: "locked" });
+    await logSessionEvent("signature-refused", user.id, system, { email: user.email, reason: "locked", ...signing });
     return { ok: false, locked: true, message: `this account is locked after ${ACCOUNT_FAILURE_LIMIT} wrong passwords; nothing was signed. Try again after ${untilText(until)}, or ask an administrator` };
   }
   if (await passwordMatches(user.id, password)) return { ok: true };
   await recordSignInFailure(user.email, SIGNATURE_FAILURE_ADDRESS);
-  await logSessionEvent("signature-refused", user.id, system, { email: user.email, reason: "wrong-password" });
+  await logSessionEvent("signature-refused", user.id, system, { email: user.email, reason: "wrong-password", ...signing });
   const left = ACCOUNT_FAILURE_LIMIT - f.byAccount - 1;
   return left > 0
     ? { ok: false, locked: false, message: `the password is wrong; nothing was signed (${left} more wrong password${left === 1 ? " locks" : "s lock"} the account for ${LOCKOUT_WINDOW_S / 60} minutes)` }

@@ -13,7 +13,7 @@ import {
   type ShipmentLoggerInput, type ShipmentSignOutcome,
 } from "../db/shipments";
 import { newReviewOf, prepareReview, type PreparedReview } from "./reviews";
-import { SIGNATURE_MEANING, signableProblem, signatureSchema, signerProblem, type SignatureOutcome } from "./signature";
+import { commentProblem, SIGNATURE_MEANING, signableProblem, signatureSchema, signerProblem, type SignatureOutcome } from "./signature";
 import { runReviewInPool } from "./enginePool";
 import { startShipmentRun, type RunContext, type RunState } from "./runs";
 import type { Actor } from "../access/actor";
@@ -306,12 +306,17 @@ async function storeShipmentRun(shipmentId: string, runId: string, computed: Rea
  */
 export async function signOffShipment(shipmentId: string, input: z.input<typeof signatureSchema>, actor: Actor): Promise<SignatureOutcome | ShipmentSignOutcome> {
   const s = signatureSchema.parse(input);
-  const signer = await signerProblem(actor, s.password);
-  if (signer) return signer;
-  const user = actor as Actor & { kind: "user" };
   const shipment = await getShipment(shipmentId);
   if (!shipment) return { ok: false, reason: "not-found", message: "that shipment does not exist" };
   if (shipment.status === "signed") return { ok: false, reason: "signed", message: "this shipment is already signed off" };
+  // settled before the password, so a form that could never be signed uses up no attempts toward the lockout
+  if (shipment.outcome) {
+    const early = commentProblem(s.decision, s.comment, shipment.outcome);
+    if (early) return early;
+  }
+  const signer = await signerProblem(actor, s.password, `shipment ${shipmentId}`);
+  if (signer) return signer;
+  const user = actor as Actor & { kind: "user" };
   for (const l of shipment.reviews) {
     if (l.review.status === "signed") continue; // signed on its own before: that signature stands
     const refusal = await signableProblem(l.reviewId, user);

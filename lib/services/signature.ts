@@ -4,7 +4,7 @@
 // person, and the signature records who (user id and name), when, and what it means.
 import { z } from "zod";
 import type { Actor } from "../access/actor";
-import { getReview, signReview, type ReviewChange } from "../db/reviews";
+import { COMMENT_REQUIRED_MESSAGE, getReview, MIN_DIFFERING_COMMENT_CHARS, signReview, type ReviewChange } from "../db/reviews";
 import { lastAuditEntry } from "../db/auditQueries";
 import { recheckReview } from "./recheck";
 import { reauthenticate } from "./access";
@@ -43,7 +43,13 @@ export async function signReviewWithPassword(reviewId: string, input: z.input<ty
   // owner and the owner's password is the second component; a token alone still cannot sign.
   if (actor.kind !== "user" && !(opts.tokenWithOwnerPassword && actor.kind === "token")) return notAUser();
   const s = signatureSchema.parse(input);
-  const auth = await reauthenticate(actor.userId, s.password);
+  // what the form can settle without the password first, so a form that could never be signed does not use
+  // up attempts toward the lockout; signReview checks it again in its transaction
+  const review = await getReview(reviewId);
+  if (!review) return { ok: false, reason: "not-found", message: "that review does not exist" };
+  const early = commentProblem(s.decision, s.comment, review.outcome);
+  if (early) return early;
+  const auth = await reauthenticate(actor.userId, s.password, { actor, signing: `review ${reviewId}` });
   if (!auth.ok) return refusedPassword(auth.message);
   const refusal = await signableProblem(reviewId, actor);
   if (refusal) return refusal;
@@ -56,10 +62,16 @@ const notAUser = (): SignatureOutcome => ({ ok: false, reason: "not-a-user", mes
 const refusedPassword = (message: string): SignatureOutcome => ({ ok: false, reason: "password", field: "password", message });
 
 /** The identification components of a signature: a signed-in person and their password, re-entered (counted toward lockout). */
-export async function signerProblem(actor: Actor, password: string): Promise<SignatureOutcome | null> {
+export async function signerProblem(actor: Actor, password: string, signing: string): Promise<SignatureOutcome | null> {
   if (actor.kind !== "user") return notAUser();
-  const auth = await reauthenticate(actor.userId, password);
+  const auth = await reauthenticate(actor.userId, password, { actor, signing });
   return auth.ok ? null : refusedPassword(auth.message);
+}
+
+/** A decision that differs from the suggested outcome needs a comment (the rule signReview and signShipment enforce). */
+export function commentProblem(decision: string, comment: string | undefined, suggested: string): SignatureOutcome | null {
+  if (decision === suggested || (comment ?? "").trim().length >= MIN_DIFFERING_COMMENT_CHARS) return null;
+  return { ok: false, reason: "comment-required", field: "comment", message: COMMENT_REQUIRED_MESSAGE };
 }
 
 /**

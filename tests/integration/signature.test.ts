@@ -68,6 +68,27 @@ describe("signing a review", () => {
     expect((await getReview(reviewId))!.status).toBe("open");
   });
 
+  it("a decision that differs from the suggestion without a comment is refused before the password is checked, so it uses up no attempt toward the lockout", async () => {
+    const users = await import("@/lib/services/users");
+    const made = await users.addUser({ email: "dee@example.com", name: "Dee Reviewer", role: "reviewer", password: "echo-password-567" }, TEST_ACTOR);
+    if (!made.ok) throw new Error("user not created");
+    const dee: Actor = { kind: "user", userId: made.user.id, name: made.user.name, email: made.user.email, role: "reviewer" };
+    const { getReview } = await import("@/lib/db/reviews");
+    const suggested = (await getReview(reviewId))!.outcome;
+    const other = suggested === "reject" ? "hold" : "reject";
+    const { signReviewWithPassword } = await import("@/lib/services/signature");
+    const r = await signReviewWithPassword(reviewId, { decision: other, password: "a wrong password" }, dee);
+    expect(r).toMatchObject({ ok: false, reason: "comment-required", field: "comment" });
+    const { db } = await import("@/lib/db/client");
+    expect(await db.auditEntry.count({ where: { action: "signature-refused", entityId: made.user.id } })).toBe(0);
+    // with the comment, the wrong password is refused and recorded under the person who tried, naming the review
+    const w = await signReviewWithPassword(reviewId, { decision: other, comment: "probe the tote first", password: "a wrong password" }, dee);
+    expect(w).toMatchObject({ ok: false, reason: "password" });
+    const e = (await db.auditEntry.findFirst({ where: { action: "signature-refused", entityId: made.user.id } }))!;
+    expect(e.actor).toBe("Dee Reviewer <dee@example.com>");
+    expect(e.details).toMatchObject({ reason: "wrong-password", signing: `review ${reviewId}` });
+  });
+
   it("another user signs with their password: the record names them, the time and the meaning; the audit entry names their account", async () => {
     const { signReviewWithPassword } = await import("@/lib/services/signature");
     const { getReview } = await import("@/lib/db/reviews");
