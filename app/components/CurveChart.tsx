@@ -69,7 +69,7 @@ export function CurveChart({ points, xLabel, yLabel, chosen, feasible, limits = 
       </svg>
       <figcaption className="legend">
         <span><span className="swatch" style={{ background: "#e4f1e6", height: 10 }} />feasible range</span>
-        <span className="muted">green points pass every rule, red points fail one (hover for which)</span>
+        <span className="muted">green points pass every rule, red points fail one<span className="no-print"> (hover for which)</span></span>
         {note && <span className="muted" data-testid="curve-note">{note}</span>}
       </figcaption>
     </figure>

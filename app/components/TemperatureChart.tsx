@@ -201,12 +201,12 @@ export function TemperatureChart({ times_ms, lines, thresholds = [], excursions 
           </span>
         ))}
         {excursions.length > 0 && (
-          <span><span className="swatch" style={{ background: "rgba(155, 31, 46, 0.2)", height: "0.7rem" }} />excursion beyond a rule threshold (marked per rule along the top; hover for details)</span>
+          <span><span className="swatch" style={{ background: "rgba(155, 31, 46, 0.2)", height: "0.7rem" }} />excursion beyond a rule threshold (marked per rule along the top<span className="no-print">; hover for details</span>)</span>
         )}
         {guards.length > 0 && (
           <span><span className="swatch" style={{ background: "rgba(138, 28, 43, 0.15)", height: "0.7rem" }} />guard band: threshold ± {[...new Set(guards.map((x) => formatK(x.g)))].join(", ")} (sensor and model uncertainty)</span>
         )}
-        <span className="muted" data-testid="chart-time">{hover !== null ? formatTime(times_ms[hover]!, zone, { seconds: true }) : `times in ${zone}; hover for values`}</span>
+        <span className="muted" data-testid="chart-time">{hover !== null ? formatTime(times_ms[hover]!, zone, { seconds: true }) : <>times in {zone}<span className="no-print">; hover for values</span></>}</span>
       </figcaption>
     </figure>
   );

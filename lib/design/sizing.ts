@@ -74,6 +74,8 @@ export interface SizingResult {
    * passing point (21 points over 1–150 mm are 7.45 mm apart). Null when no value passes.
    */
   feasible_range: [number, number] | null;
+  /** the curve's measures at the value found (not one of the curve's evenly spaced points): a chart draws its line through it */
+  point_at_value: CurvePoint | null;
   runs: number;
   /** the guard band the rules were judged with (the limit set's sensor accuracy), K */
   guard_K: number;
@@ -170,6 +172,7 @@ export function size(input: SizingInput): SizingResult {
       core_at_value: e ? e.core : null, precision, reason: [reason, ...warnings].join("; "), rule_notes: notes, governing,
       chart: rule && at ? governingCurve(rule, u, at.rules[rule.id]!) : null, best_x, runs, guard_K: u,
       feasible_range: value === null ? null : up ? [value, max] : [min, value],
+      point_at_value: value !== null && e ? { x: value, metric: e.metric, feasible: e.feasible, failing: failingOf(e).map((f) => f.id), rules: e.rules } : null,
     };
   };
   const ruleList = (g: SizingResult["governing"]) => g.map((f) => (f.status === "fail" ? `rule ${f.id} ${f.reason}` : `rule ${f.id} is inconclusive, ${f.reason}`)).join("; ");

@@ -55,6 +55,16 @@ describe("size", () => {
     expect(size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.01 }).feasible_range).toBeNull();
   });
 
+  it("size gives the curve's measures at the value found, so a chart's line passes through the boundary, and it passes there", () => {
+    const r = size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.15 });
+    expect(r.point_at_value).toMatchObject({ x: 0.0209, feasible: true, failing: [] });
+    expect(r.point_at_value!.metric).toBe(r.metric_at_value);
+    // not one of the 21 evenly spaced points (15.9 and 23.35 mm lie either side), and the CLI's curve keeps its 21
+    expect(r.curve.some((c) => c.x === 0.0209)).toBe(false);
+    expect(r.curve).toHaveLength(21);
+    expect(size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.01 }).point_at_value).toBeNull();
+  });
+
   it("size reports a range that holds no feasible value", () => {
     const r = size({ series, product, pack, limits, variable: parseVariable("layer:1:thickness_m")!, min: 0.001, max: 0.01 });
     expect(r).toMatchObject({ feasible: false, value: null });

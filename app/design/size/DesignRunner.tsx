@@ -18,7 +18,7 @@ import { mayConduct, overCapMessage, studyCostSteps } from "@/lib/uncertainty/co
 interface Props { t_s: number[]; air_C: number[]; product: Product; pack?: Pack; limits: LimitSet }
 type Run = { kind: "idle" } | { kind: "running"; what: string; fraction: number; started: number } | { kind: "error"; message: string };
 type SizeResult = Omit<SizingResult, "core_at_value"> & { core_at_value: number[] | null };
-interface McResult { samples: number; seed: number; p05: number[]; p50: number[]; p95: number[]; deterministic: number[]; half_width_K: number; fail_fraction: Record<string, number>; redraws: number; /** the design value it ran at, in words ("EPS wall thickness 33.8 mm, the boundary found above") */ at: string }
+interface McResult { samples: number; seed: number; p05: number[]; p50: number[]; p95: number[]; deterministic: number[]; half_width_K: number; fail_fraction: Record<string, number>; redraws: number; /** the design value it ran at, in words ("EPS wall thickness 33.8 mm, the boundary found above") */ at: string; /** whether that was the boundary sizing found */ atBoundary: boolean }
 interface InputRow { path: string; plusminus: string; percent: boolean; distribution: "normal" | "uniform" }
 
 /** The numeric fields of the product and pack that can carry an uncertainty, as paths. */
@@ -108,7 +108,7 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
     const refusal = overCapMessage(studyCostSteps(t_s.length, n, conduction), conduction, "this page runs");
     if (refusal) return setRun({ kind: "error", message: refusal });
     const at = runAt ? runAt.text : definedText;
-    start("Monte Carlo", { type: "mc", spec, ...(runAt ? { at: { variable: runAt.variable, value: runAt.value } } : {}) }, (r) => setMc({ ...(r as Omit<McResult, "at">), at }));
+    start("Monte Carlo", { type: "mc", spec, ...(runAt ? { at: { variable: runAt.variable, value: runAt.value } } : {}) }, (r) => setMc({ ...(r as Omit<McResult, "at" | "atBoundary">), at, atBoundary: runAt !== null }));
   };
   const busy = run.kind === "running";
   // set once React has attached the handlers: a click before that does nothing (tests wait for it)
@@ -170,6 +170,11 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
             <p data-testid="mc-design-value">Run at {mc.at}.</p>
             <p>{mc.samples} samples (seed {mc.seed}); the 5–95 % band of the core is at most ±{fixed(mc.half_width_K, 2)} K wide{mc.redraws ? `; ${mc.redraws} non-physical draws were repeated` : ""}.</p>
             <ul>{Object.entries(mc.fail_fraction).map(([id, f]) => <li key={id}>rule {id} fails in {(f * 100).toFixed(1)} % of samples</li>)}</ul>
+            {mc.atBoundary && Object.values(mc.fail_fraction).some((f) => f > 0) && (
+              <p className="caution" data-testid="mc-margin">
+                The boundary passes only with every input at its nominal value: with these uncertainties {Object.entries(mc.fail_fraction).filter(([, f]) => f > 0).map(([id, f]) => `rule ${id} fails in ${(f * 100).toFixed(1)} %`).join(", ")} of samples. Add margin (size again with the inputs at their unfavourable ends, or choose a larger value and run this study there) and confirm the pack with a physical test before relying on it.
+              </p>
+            )}
             <TemperatureChart title="Core temperature band" height={260} times_ms={t_s.map((t) => t * 1000)}
               bands={[{ label: "Core 5–95 % band", color: "#23577a", lower: mc.p05, upper: mc.p95 }]}
               lines={[{ label: "Air", color: "var(--air)", values: air_C }, { label: "Core, nominal inputs", color: "var(--core)", values: mc.deterministic }]}

@@ -18,7 +18,10 @@ export function SizeOutcome({ result, t_s, air_C, limits }: { result: SizeResult
     ? `${up ? "Smallest" : "Warmest"} ${d.name} that passes every rule: ${formatVariable(result.value!, d)}`
     : `No ${d.name} in this range passes every rule`;
   const chart = result.chart;
-  const points = result.curve.map((c) => ({ x: c.x * d.factor, y: chart ? (c.rules[chart.rule_id]![chart.quantity] ?? NaN) : c.metric, feasible: c.feasible, failing: c.failing }));
+  // the evenly spaced curve and the value found: without it the line runs straight past the boundary (21 points over
+  // 1–150 mm are 7.45 mm apart) and reads far above the limit at a value the result says passes
+  const curve = result.point_at_value ? [...result.curve.filter((c) => c.x !== result.point_at_value!.x), result.point_at_value].sort((a, b) => a.x - b.x) : result.curve;
+  const points = curve.map((c) => ({ x: c.x * d.factor, y: chart ? (c.rules[chart.rule_id]![chart.quantity] ?? NaN) : c.metric, feasible: c.feasible, failing: c.failing }));
   const lines: CurveLimit[] = chart ? [{ ...chart.limit, kind: "limit" as const }, ...(chart.pass ? [{ ...chart.pass, kind: "pass" as const }] : [])] : [];
   const metricWords = result.metric.replace(/, °C$/, "");
   return (

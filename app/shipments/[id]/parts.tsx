@@ -107,7 +107,7 @@ export function RuleMatrix({ s, names }: { s: StoredShipment; names: Map<string,
                     </td>
                   );
                 })}
-                <td><StatusBadge status={link.review.outcome} /> <Link href={`/reviews/${link.review.id}`}>open</Link></td>
+                <td><StatusBadge status={link.review.outcome} /> <Link href={`/reviews/${link.review.id}`} className="no-print">view the review</Link></td>
               </tr>
             );
           })}
