@@ -1,7 +1,7 @@
 import Link from "next/link";
-import { queryAudit, auditHead, AUDIT_ACTIONS } from "@/lib/db/auditQueries";
+import { queryAudit, auditHead, auditEntityWord, AUDIT_ACTIONS, AUDIT_ENTITIES } from "@/lib/db/auditQueries";
 import { Pager } from "@/app/components/Pager";
-import { auditFilter, auditQueryParams, parseAuditParams } from "./filters";
+import { auditFilter, auditQueryParams, parseAuditParams, unknownFilterMessage } from "./filters";
 import { ChainCheck } from "./ChainCheck";
 import { displayZone } from "@/app/displayZone";
 import { formatTime, zoneLabel } from "@/lib/display/time";
@@ -10,16 +10,17 @@ import { HashText } from "@/app/components/HashText";
 
 export const dynamic = "force-dynamic";
 
-const ENTITY_WORDS: Record<string, string> = { trace: "trace", definition: "definition", review: "review", key: "signing key", chain: "audit chain", user: "account", token: "API token", run: "run" };
-
 export default async function AuditPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const raw = await searchParams;
   const p = parseAuditParams(raw);
   const zone = await displayZone();
-  const [list, head] = await Promise.all([queryAudit({ ...auditFilter(p, zone), page: p.page }), auditHead()]);
+  const refused = p.unknown.length > 0;
+  // a filter naming an unknown kind or action shows nothing (never every entry as if it matched)
+  const empty = { rows: [], total: 0, page: 1, pages: 1, pageSize: 1 };
+  const [list, head] = await Promise.all([refused ? empty : queryAudit({ ...auditFilter(p, zone), page: p.page }), auditHead()]);
   const params = auditQueryParams(p);
   const csv = new URLSearchParams(Object.entries(params).filter((e): e is [string, string] => !!e[1])).toString();
-  const filtered = Object.values(params).some(Boolean);
+  const filtered = refused || Object.values(params).some(Boolean);
   return (
     <>
       <h1>Audit log</h1>
@@ -30,7 +31,8 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
         <form className="filters no-print" aria-label="Filter the audit log" data-testid="audit-filters">
           <label>Kind of record
             <select name="entity" defaultValue={p.entity ?? ""} data-testid="filter-entity">
-              <option value="">any</option><option value="trace">trace</option><option value="definition">definition</option><option value="review">review</option><option value="key">signing key</option><option value="user">account</option><option value="token">API token</option>
+              <option value="">any</option>
+              {AUDIT_ENTITIES.map((k) => <option key={k} value={k}>{auditEntityWord(k)}</option>)}
             </select>
           </label>
           <label>Action
@@ -46,11 +48,12 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
           <button type="submit" className="secondary">Show</button>
           {filtered && <Link href="/audit">Clear</Link>}
         </form>
-        <p className="no-print">
+        {refused && <p className="form-error" data-testid="audit-filter-unknown">{unknownFilterMessage(p.unknown)}</p>}
+        {!refused && <p className="no-print">
           <a href={`/audit/export.csv${csv ? `?${csv}` : ""}`} data-testid="audit-csv" download>Export {filtered ? "these entries" : "the whole log"} as CSV</a>
           <span className="muted"> (every matching entry, oldest first, with names, links, details and hashes; formula-like cells neutralised)</span>
-        </p>
-        <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />
+        </p>}
+        {!refused && <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />}
         {list.rows.length > 0 && (
           <div className="table-scroll">
           <table data-testid="audit-table" className="audit-table">
@@ -66,7 +69,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                       <>audit chain: entries 1–{e.entityId} checked in full</>
                     ) : (
                       <>
-                        {e.entity === "key" ? "" : <>{ENTITY_WORDS[e.entity] ?? e.entity}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}</>}
+                        {e.entity === "key" ? "" : <>{auditEntityWord(e.entity)}{e.subject.kind ? ` (${e.subject.kind})` : ""}:{" "}</>}
                         {e.subject.href && e.subject.name ? <Link href={e.subject.href} data-testid="audit-subject">{e.subject.name}</Link> : e.subject.name ?? <span className="muted">not found</span>}
                         <div className="raw-id"><Link href={`/audit?object=${e.entityId}`} title="every entry for this object">{e.entityId}</Link></div>
                       </>
@@ -81,8 +84,8 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
           </table>
           </div>
         )}
-        {list.rows.length === 0 && <p className="muted">No entries match.</p>}
-        <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />
+        {list.rows.length === 0 && !refused && <p className="muted">No entries match.</p>}
+        {!refused && <Pager path="/audit" params={params} page={list.page} pages={list.pages} total={list.total} pageSize={list.pageSize} noun="entries" />}
       </section>
     </>
   );

@@ -2,13 +2,39 @@ import { db } from "./client";
 import { resolvePage, searchText, type PageRequest, type Paged } from "./page";
 import { actorsContaining, idsContaining, plainPrefix, SEARCH_MATCH_CAP } from "./textSearch";
 import type { AuditEntryRecord } from "../review/audit";
+import type { AuditEvent } from "./audit";
 
-export const AUDIT_ENTITIES = ["trace", "definition", "review", "key", "monitor", "alert", "shipment", "shipmentLogger", "shipmentReview", "lane", "logger", "user", "token", "run", "delivery"] as const;
-export const AUDIT_ACTIONS = ["import", "create", "edit", "run", "sign", "rename", "export", "verify", "key", "seal", "readings", "raise", "clear", "deliver", "close", "sign-in", "sign-in-refused", "sign-out", "set-role", "disable", "enable", "revoke", "cancel", "resume"] as const;
+export type AuditEntity = AuditEvent["entity"];
+export type AuditAction = AuditEvent["action"];
+
+/**
+ * Every kind of record the log holds, as the audit page names it. Keyed by AuditEvent's union (lib/db/audit.ts),
+ * so a kind added there fails type checking until it is named here: the filter once offered 7 of 16 kinds.
+ */
+export const AUDIT_ENTITY_WORDS = {
+  trace: "trace", definition: "definition", review: "review", run: "run",
+  shipment: "shipment", shipmentLogger: "shipment logger", shipmentReview: "shipment review", lane: "lane", logger: "logger",
+  monitor: "monitor", alert: "alert", delivery: "alert delivery",
+  user: "account", token: "API token", key: "signing key", chain: "audit chain",
+} as const satisfies Record<AuditEntity, string>;
+export const AUDIT_ENTITIES = Object.keys(AUDIT_ENTITY_WORDS) as AuditEntity[];
+
+/** A kind of record in words (its own name for a kind the log should not hold). */
+export function auditEntityWord(entity: string): string {
+  return (AUDIT_ENTITY_WORDS as Record<string, string>)[entity] ?? entity;
+}
+
+/** Every action, in the order the filter offers them; keyed by AuditEvent's union as above (signature-refused was missing). */
+const ACTIONS_IN_ORDER = {
+  import: true, create: true, edit: true, rename: true, run: true, cancel: true, sign: true, "signature-refused": true, export: true, verify: true,
+  seal: true, readings: true, raise: true, clear: true, deliver: true, resume: true, close: true,
+  "sign-in": true, "sign-in-refused": true, "sign-out": true, "set-role": true, "set-password": true, disable: true, enable: true, revoke: true, key: true,
+} as const satisfies Record<AuditAction, true>;
+export const AUDIT_ACTIONS = Object.keys(ACTIONS_IN_ORDER) as AuditAction[];
 
 export interface AuditFilter {
-  entity?: (typeof AUDIT_ENTITIES)[number];
-  action?: (typeof AUDIT_ACTIONS)[number];
+  entity?: AuditEntity;
+  action?: AuditAction;
   /** one object: the exact id of a trace, definition version or review */
   object?: string;
   /** entries at or after this instant */
@@ -161,7 +187,7 @@ export async function* auditBatches(filter: AuditFilter = {}, batch = 500): Asyn
 }
 
 /** The newest entry for one object and action (e.g. the last re-check of a review), or null. */
-export async function lastAuditEntry(entityId: string, action: (typeof AUDIT_ACTIONS)[number]): Promise<AuditEntryRecord | null> {
+export async function lastAuditEntry(entityId: string, action: AuditAction): Promise<AuditEntryRecord | null> {
   return db.auditEntry.findFirst({ where: { entityId, action }, orderBy: { seq: "desc" } });
 }
 

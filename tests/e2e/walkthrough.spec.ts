@@ -135,3 +135,29 @@ test("the audit page names the account of a sign-in, says an unknown address has
   const cell = (await hash.locator("xpath=ancestor::td[1]").boundingBox())!;
   expect(cell.x + cell.width).toBeLessThanOrEqual(card.x + card.width);
 });
+
+test("the audit filters offer every kind and action the log holds; an unknown one is named and shows no entries, never all", async ({ page }) => {
+  await page.goto("/audit");
+  for (const kind of ["monitor", "alert", "delivery", "shipment", "lane", "logger", "shipmentLogger", "shipmentReview"]) {
+    await expect(page.getByTestId("filter-entity").locator(`option[value="${kind}"]`), kind).toHaveCount(1);
+  }
+  for (const action of ["signature-refused", "resume", "readings", "raise", "clear", "deliver", "close", "revoke", "cancel", "seal"]) {
+    await expect(page.getByTestId("filter-action").locator(`option[value="${action}"]`), action).toHaveCount(1);
+  }
+  // a mistyped action (there is no "sign-off" action: sign-offs are "sign") and kind
+  await page.goto("/audit?action=sign-off");
+  await expect(page.getByTestId("audit-filter-unknown")).toHaveText("No entries shown: the log has no action “sign-off”. Choose from the lists (“any” shows every entry).");
+  await expect(page.getByTestId("audit-table")).toHaveCount(0);
+  await expect(page.getByTestId("pager-summary")).toHaveCount(0);
+  await page.screenshot({ path: "test-results/walkthrough-audit-unknown.png", fullPage: true });
+  await page.goto("/audit?kind=shipments"); // "kind", the label's word, is read as entity
+  await expect(page.getByTestId("audit-filter-unknown")).toContainText("no kind of record “shipments”");
+  await expect(page.getByTestId("audit-table")).toHaveCount(0);
+  const csv = await page.request.get("/audit/export.csv?action=sign-off");
+  expect(csv.status()).toBe(400);
+  expect(await csv.text()).toContain("no action “sign-off”");
+  // a known one filters as before
+  await page.goto("/audit?entity=user&action=sign-in");
+  await expect(page.getByTestId("audit-filter-unknown")).toHaveCount(0);
+  await expect(page.getByTestId("audit-table").locator("tbody tr").first()).toContainText("sign-in");
+});

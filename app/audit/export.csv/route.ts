@@ -1,6 +1,6 @@
 import { auditBatches } from "@/lib/db/auditQueries";
 import { auditCsvHeader, auditCsvRow } from "@/lib/review/auditCsv";
-import { auditFilter, parseAuditParams } from "../filters";
+import { auditFilter, parseAuditParams, unknownFilterMessage } from "../filters";
 import { displayZone } from "@/app/displayZone";
 import { guardRoute } from "@/app/guard";
 
@@ -13,6 +13,8 @@ export const dynamic = "force-dynamic";
 export const GET = guardRoute("read", async (req: Request) => {
   const url = new URL(req.url);
   const p = parseAuditParams(Object.fromEntries(url.searchParams));
+  // an unknown kind or action is refused, not read as "every entry"
+  if (p.unknown.length > 0) return new Response(unknownFilterMessage(p.unknown), { status: 400, headers: { "content-type": "text/plain; charset=utf-8" } });
   // Links in the file use the host the browser asked for (Next's req.url names its own bind address).
   const host = req.headers.get("x-forwarded-host") ?? req.headers.get("host");
   const proto = req.headers.get("x-forwarded-proto") ?? url.protocol.replace(":", "");
