@@ -105,18 +105,21 @@ test("a shipment: create, drop 4 files, confirm matching, run, matrix, sign off,
   await page.locator("#s-decision").selectOption("accept");
   await page.locator("#s-password").fill("not-the-password");
   await page.getByTestId("sign-shipment").click();
-  await expect(page.getByTestId("error-password")).toHaveText(/^the password is wrong; nothing was signed \(\d more wrong passwords? locks? the account for 15 minutes\)$/);
-  await page.locator("#s-password").fill(TEST_PASSWORD);
-  await page.getByTestId("sign-shipment").click();
+  // a decision other than the suggestion without a comment is refused before the password is checked
   await expect(page.getByTestId("error-comment")).toContainText("needs a comment");
+  await expect(page.getByTestId("error-password")).toHaveCount(0);
   await expect(page.locator("#s-decision")).toHaveValue("accept");
   await page.locator("#s-decision").selectOption("reject");
+  await page.locator("#s-password").fill("not-the-password");
+  await page.getByTestId("sign-shipment").click();
+  await expect(page.getByTestId("error-password")).toHaveText(/^the password is wrong; nothing was signed \(\d more wrong passwords? locks? the account for 15 minutes\)$/);
+  await page.locator("#s-password").fill(TEST_PASSWORD);
   await page.getByTestId("sign-shipment").click();
   await expect(page.getByTestId("shipment-status")).toContainText("signed off by Ilse Admin (demo)");
   await expect(page.getByTestId("shipment-status")).toContainText("decision reject");
   await expect(page.getByTestId("run-shipment")).toHaveCount(0);
   // every review in it is signed
-  const reviewLink = matrix.getByRole("link", { name: "open" }).first();
+  const reviewLink = matrix.getByRole("link", { name: "view the review" }).first();
   await reviewLink.click();
   await expect(page.getByTestId("review-status")).toHaveText("signed off (final)");
   await page.goBack();
