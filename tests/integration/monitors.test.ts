@@ -180,6 +180,8 @@ describe("monitors: readings, alerts and webhooks (local receiver)", () => {
     const { alertHistory } = await import("@/lib/db/monitors");
     const alerts = await alertHistory(m.id);
     expect(alerts.map((a) => a.key)).toEqual(["forecast:core-above-5C"]);
+    // the alert names the reading it was judged at (T0 + 12 × 5 min), not only the server's clock
+    expect(alerts[0]!.message).toMatch(/ \(as of the reading at 2026-06-09 07:00 UTC\)$/);
     const d = alerts[0]!.deliveries;
     expect(d.map((x) => [x.attempt, x.ok, x.httpStatus])).toEqual([[1, false, 500], [2, false, 500], [3, true, 200]]);
     // backoff: 0.05 s then 0.1 s (base·2^(n−1)); the log says when the next attempt was due
