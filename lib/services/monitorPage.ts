@@ -36,7 +36,7 @@ export interface LivePayload {
   words: ThresholdWords;
   stale: { stale: boolean; silent_s: number; interval_s: number | null };
   model: { path: string; tau_s: number; reason: string; step_s: number | null } | null;
-  alerts: Array<{ id: string; key: string; kind: string; rule: string | null; message: string; raisedAt: string; clearedAt: string | null; deliveries: Array<{ id: string; event: string; channel: string; target: string; attempt: number; at: string; ok: boolean; httpStatus: number | null; error: string | null; nextAt: string | null }> }>;
+  alerts: Array<{ id: string; key: string; kind: string; rule: string | null; message: string; raisedAt: string; clearedAt: string | null; /** cleared because the monitor was closed, not because the condition ended */ clearedByClose: boolean; deliveries: Array<{ id: string; event: string; channel: string; target: string; attempt: number; at: string; ok: boolean; httpStatus: number | null; error: string | null; nextAt: string | null }> }>;
 }
 
 export async function livePayload(id: string, now = new Date()): Promise<LivePayload | null> {
@@ -90,6 +90,7 @@ export async function livePayload(id: string, now = new Date()): Promise<LivePay
     model: live.model ? { path: live.model.path, tau_s: live.model.screening.tau_s, reason: live.model.screening.reason, step_s: live.model.step_s } : null,
     alerts: history.map((a) => ({
       id: a.id, key: a.key, kind: a.kind, rule: a.rule, message: a.message, raisedAt: a.raisedAt.toISOString(), clearedAt: a.clearedAt?.toISOString() ?? null,
+      clearedByClose: m.closedAt !== null && a.clearedAt !== null && a.clearedAt.getTime() >= m.closedAt.getTime(),
       deliveries: a.deliveries.map((d) => ({ ...d, at: d.at.toISOString(), nextAt: d.nextAt?.toISOString() ?? null })),
     })),
   };

@@ -128,7 +128,7 @@ export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; z
                 <tr key={a.id} data-testid={`alert-${a.kind}`}>
                   <td><span className={`status ${a.clearedAt ? "" : "status-fail"}`}>{a.kind}</span> {a.message}</td>
                   <td>{formatTime(new Date(a.raisedAt), zone)}</td>
-                  <td>{a.clearedAt ? formatTime(new Date(a.clearedAt), zone) : "open"}</td>
+                  <td>{a.clearedAt ? (a.clearedByClose ? <>closed with the monitor, {formatTime(new Date(a.clearedAt), zone)}{a.kind === "rule-fail" ? <span className="status-fail"> (the rule still failed)</span> : null}</> : formatTime(new Date(a.clearedAt), zone)) : "open"}</td>
                   <td>
                     {a.deliveries.length === 0 ? <span className="muted">in the app only</span> : (
                       <ul style={{ margin: 0, paddingLeft: "1rem" }}>
