@@ -37,7 +37,7 @@ export function ShipmentHeader({ s, zone }: { s: StoredShipment; zone: string })
           <tr><th scope="row">Carrier</th><td>{s.carrier ?? "–"}</td><th scope="row">Vehicle</th><td>{s.vehicle ?? "–"}</td></tr>
           <tr><th scope="row">Departure</th><td>planned {t(s.plannedDepartureAt)}, actual {t(s.actualDepartureAt)}</td><th scope="row">Arrival</th><td>planned {t(s.plannedArrivalAt)}, actual {t(s.actualArrivalAt)}</td></tr>
           {s.notes && <tr><th scope="row">Notes</th><td colSpan={3}>{s.notes}</td></tr>}
-          <tr><th scope="row">Status</th><td colSpan={3} data-testid="shipment-status">{s.status === "signed" ? `signed off by ${s.signedBy} on ${t(s.signedAt)}: decision ${s.decision}${s.signComment ? ` (“${s.signComment}”)` : ""}` : "open"}</td></tr>
+          <tr><th scope="row">Status</th><td colSpan={3} data-testid="shipment-status">{s.status === "signed" ? `signed off by ${s.signedBy} on ${t(s.signedAt)}: decision ${s.decision}${s.signComment ? ` (“${s.signComment}”)` : ""}${s.signMeaning ? `. Meaning: ${s.signMeaning}.` : ""}` : "open"}</td></tr>
         </tbody>
       </table>
     </section>
