@@ -3,16 +3,17 @@ import { listShipments } from "@/lib/db/shipments";
 import { displayZone } from "@/app/displayZone";
 import { formatTime } from "@/lib/display/time";
 import { StatusBadge } from "@/app/components/StatusBadge";
+import { can, pageActor } from "@/app/guard";
 
 export const dynamic = "force-dynamic";
 
 export default async function ShipmentsPage() {
-  const [shipments, zone] = await Promise.all([listShipments(), displayZone()]);
+  const [shipments, zone, actor] = await Promise.all([listShipments(), displayZone(), pageActor()]);
   return (
     <>
       <h1>Shipments</h1>
       <p className="muted">A shipment is one load (a truck, a container) with several loggers and products, reviewed and signed off as a whole. <Link href="/lanes">Lanes</Link> · <Link href="/loggers">Logger register</Link></p>
-      <p><Link href="/shipments/new" data-testid="new-shipment">New shipment</Link></p>
+      {can(actor, "shipment:edit") && <p><Link href="/shipments/new" data-testid="new-shipment">New shipment</Link></p>}
       {shipments.length === 0 ? <p className="muted">No shipments yet.</p> : (
         <table data-testid="shipment-list">
           <thead><tr><th>Reference</th><th>Lane</th><th>Departure</th><th className="num">Loggers</th><th>Outcome</th><th>Status</th></tr></thead>

@@ -3,6 +3,7 @@ import { readFileSync } from "node:fs";
 import { createHash } from "node:crypto";
 import path from "node:path";
 import { saveLumpedProduct, saveTemplateLimits } from "./helpers/seedDefinitions";
+import { roleState } from "./helpers/auth";
 
 // What an auditor and a QA reviewer need beside the review: the audit log, the original file,
 // re-checks, the report's parameters, duplicate uploads and the lists. One shared database, in order.
@@ -180,4 +181,43 @@ test("the home page lists traces never reviewed; the traces list searches and co
   await page.getByTestId("search-input").fill("auditor review");
   await page.getByRole("button", { name: "Filter" }).click();
   await expect(page.getByTestId("review-list").locator("tbody tr")).toHaveCount(1);
+});
+
+let loggerEdit = "";
+
+test("set up: a logger in the register (as the administrator, who may register one)", async ({ page }) => {
+  await page.goto("/loggers");
+  await page.locator("#f-serial").fill("AUD-0001"); // invented serial
+  await page.locator("#f-accuracyK").fill("0.5");
+  await page.getByRole("button", { name: "Register" }).click();
+  await expect(page.getByTestId("logger-register")).toContainText("AUD-0001");
+  loggerEdit = (await page.getByTestId("logger-register").getByRole("link", { name: "Edit" }).getAttribute("href"))!;
+  expect(loggerEdit).toMatch(/^\/loggers\?edit=\w+$/);
+});
+
+// The walkthrough found an auditor offered the logger register's Register and Edit forms and the whole
+// new-shipment form: submitting was refused on the server, but the pages should not offer what the role cannot do.
+test.describe("as the auditor", () => {
+  test.use({ storageState: roleState("auditor") });
+
+  test("the logger register, the new shipment page and the shipments list offer an auditor no write form, and say who can", async ({ page }) => {
+    await page.goto("/loggers");
+    await expect(page.getByTestId("user-role")).toHaveText("auditor");
+    await expect(page.getByTestId("logger-register")).toContainText("AUD-0001");
+    await expect(page.getByTestId("logger-register").getByRole("link", { name: "Edit" })).toHaveCount(0);
+    await expect(page.getByTestId("read-only")).toHaveText("Your role (auditor) reads this page; this needs the admin or reviewer role.");
+    await expect(page.locator("#f-serial")).toHaveCount(0);
+    await page.screenshot({ path: "test-results/auditor-loggers.png", fullPage: true });
+    // an edit address typed by hand shows no edit form either
+    await page.goto(loggerEdit);
+    await expect(page.getByRole("heading", { name: "Edit AUD-0001" })).toHaveCount(0);
+    await expect(page.locator("main form")).toHaveCount(0);
+
+    await page.goto("/shipments/new");
+    await expect(page.getByTestId("read-only")).toHaveText("Your role (auditor) reads this page; this needs the admin or reviewer role.");
+    await expect(page.locator("main form")).toHaveCount(0);
+    await page.screenshot({ path: "test-results/auditor-new-shipment.png", fullPage: true });
+    await page.goto("/shipments");
+    await expect(page.getByTestId("new-shipment")).toHaveCount(0);
+  });
 });

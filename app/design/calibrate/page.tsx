@@ -6,6 +6,7 @@ import { runCalibration } from "@/lib/services/calibration";
 import { readableDuration } from "@/lib/thermal/screening";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
 import { SaveEffectivePack } from "./SaveEffectivePack";
+import { WriteGate } from "@/app/components/WriteGate";
 import { displayZone } from "@/app/displayZone";
 
 export const dynamic = "force-dynamic";
@@ -109,7 +110,9 @@ export default async function CalibratePage({ searchParams }: { searchParams: Pr
                 Saves a pack whose single outside coefficient reproduces the fitted R_total for {out.product.name}, with the calibration recorded as its provenance
                 {out.pack ? `, as a new version of ${out.pack.name} (version ${out.pack.version} stays as it was)` : ", as a new pack"}.
               </p>
-              <SaveEffectivePack traceId={q.trace!} productId={out.product.id} packId={out.pack?.id} fitInitial={fitInitial} fitOffset={fitOffset} suggestedName={`Effective pack for ${out.product.name} (calibrated)`} />
+              <WriteGate permission="definition:edit">
+                <SaveEffectivePack traceId={q.trace!} productId={out.product.id} packId={out.pack?.id} fitInitial={fitInitial} fitOffset={fitOffset} suggestedName={`Effective pack for ${out.product.name} (calibrated)`} />
+              </WriteGate>
             </section>
           )}
         </>

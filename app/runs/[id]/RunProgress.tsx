@@ -5,7 +5,7 @@ import { useEffect, useState } from "react";
 import type { RunState } from "@/lib/services/runs";
 
 /** Follows a background run by polling its state; offers cancel; opens the review when it is stored. */
-export function RunProgress({ initial }: { initial: RunState }) {
+export function RunProgress({ initial, mayCancel }: { initial: RunState; /** the viewer's role may cancel (review:run); others only follow the run */ mayCancel: boolean }) {
   const router = useRouter();
   const [run, setRun] = useState<RunState>(initial);
   const [error, setError] = useState<string | null>(null);
@@ -52,9 +52,11 @@ export function RunProgress({ initial }: { initial: RunState }) {
               <progress max={100} value={percent} aria-label="Monte Carlo samples done" /> {percent} % of the Monte Carlo samples
             </p>
           )}
-          <button type="button" onClick={cancel} disabled={cancelling}>
-            {cancelling ? "Cancelling…" : "Cancel this run"}
-          </button>
+          {mayCancel && (
+            <button type="button" onClick={cancel} disabled={cancelling}>
+              {cancelling ? "Cancelling…" : "Cancel this run"}
+            </button>
+          )}
         </>
       )}
       {run.status === "done" && <p>Done: opening the {run.kind === "shipment" ? "shipment" : "review"}…</p>}

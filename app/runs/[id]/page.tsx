@@ -1,12 +1,13 @@
 import Link from "next/link";
 import { getRun } from "@/lib/services/runs";
 import { RunProgress } from "./RunProgress";
+import { can, pageActor } from "@/app/guard";
 
 export const dynamic = "force-dynamic";
 
 export default async function RunPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
-  const run = await getRun(id);
+  const [run, actor] = await Promise.all([getRun(id), pageActor()]);
   if (!run) {
     return (
       <main>
@@ -22,7 +23,7 @@ export default async function RunPage({ params }: { params: Promise<{ id: string
     <main>
       <h1>Running: {run.title}</h1>
       <p className="muted">The engine works in the background; you can leave this page and find the review under Reviews when it is done.</p>
-      <RunProgress initial={run} />
+      <RunProgress initial={run} mayCancel={can(actor, "review:run")} />
     </main>
   );
 }

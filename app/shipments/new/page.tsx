@@ -1,6 +1,7 @@
 import { listLatestDefinitions } from "@/lib/db/definitions";
 import { listLanes } from "@/lib/db/shipments";
 import { ShipmentForm } from "./ShipmentForm";
+import { WriteGate } from "@/app/components/WriteGate";
 
 export const dynamic = "force-dynamic";
 
@@ -11,7 +12,9 @@ export default async function NewShipmentPage() {
     <>
       <h1>New shipment</h1>
       <p className="muted">Name the load and its loggers: where each sat and which products it stands for. The files come next, all at once, on the shipment&apos;s page.</p>
-      <ShipmentForm lanes={lanes.map((l) => ({ id: l.id, label: `${l.name} (${l.origin} → ${l.destination})` }))} limits={limits.map(opt)} products={products.map(opt)} packs={packs.map(opt)} />
+      <WriteGate permission="shipment:edit">
+        <ShipmentForm lanes={lanes.map((l) => ({ id: l.id, label: `${l.name} (${l.origin} → ${l.destination})` }))} limits={limits.map(opt)} products={products.map(opt)} packs={packs.map(opt)} />
+      </WriteGate>
     </>
   );
 }
