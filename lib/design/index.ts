@@ -4,3 +4,4 @@ export * from "./vary";
 export * from "./sizing";
 export * from "./governing";
 export * from "./ruleNotes";
+export * from "./cautions";

@@ -154,3 +154,25 @@ test("the calibration form keeps every value after a refused factor, and its che
   await expect(page.getByTestId("cal-tau")).toContainText("2 h 30 min");
   await page.screenshot({ path: "test-results/calibration.png", fullPage: true });
 });
+
+// The walkthrough found the design pages showing the review's caution ("recorded air", "suggested outcome"),
+// which a design has neither: each design page carries its own (model estimates for a stated ambient; verify
+// with a probe test; add margin; local regulations decide).
+test("every design page carries the design caution, not the review's", async ({ page }) => {
+  await chooseDesignInputs(page, "Harrowgate tote design (core rules of the example plan)");
+  const caution = page.getByTestId("caution");
+  await expect(caution).toHaveCount(1);
+  await expect(caution).toContainText("model estimates for the stated ambient profile");
+  await expect(caution).toContainText("Verify a pack design with a physical test (a probe test");
+  await expect(caution).toContainText("add a margin");
+  await expect(caution).toContainText("Local regulations and licensed food-safety practice decide");
+  await expect(caution).not.toContainText("recorded air");
+  await expect(caution).not.toContainText("suggested outcome");
+  await caution.screenshot({ path: "test-results/design-caution.png" });
+  for (const url of ["/design", "/design/size", "/design/calibrate", "/design/profiles"]) {
+    await page.goto(url);
+    await expect(page.getByTestId("caution"), url).toHaveCount(1);
+    await expect(page.getByTestId("caution"), url).toHaveAttribute("data-variant", "design");
+    await expect(page.getByTestId("caution"), url).toContainText("probe test");
+  }
+});

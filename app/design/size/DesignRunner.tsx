@@ -12,7 +12,6 @@ import { inputLabel } from "./inputLabel";
 import { fixed } from "@/lib/display/numbers";
 import { num } from "@/app/components/NumberField";
 import { TemperatureChart } from "@/app/components/TemperatureChart";
-import { Caution } from "@/app/components/Caution";
 import { mayConduct, overCapMessage, studyCostSteps } from "@/lib/uncertainty/cost";
 
 interface Props { t_s: number[]; air_C: number[]; product: Product; pack?: Pack; limits: LimitSet }
@@ -190,7 +189,6 @@ export function DesignRunner({ t_s, air_C, product, pack, limits }: Props) {
         </div>
       )}
       {run.kind === "error" && <p className="form-error" data-testid="design-error">{run.message}</p>}
-      <Caution />
     </>
   );
 }
