@@ -14,7 +14,7 @@ import type { FormState } from "@/lib/validation";
 const minutes = (m: number) => (m < 1 / 60 ? "under a second" : m < 1.5 ? `${Math.round(m * 60)} s` : m < 120 ? `${Math.round(m)} min` : `${(m / 60).toFixed(1)} h`);
 
 /** The live page: the payload from the server, replaced by every "state" event of the monitor's stream. */
-export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; zone: string; demoToken: string | null }) {
+export function LiveView({ initial, zone, demoToken, origin }: { initial: LivePayload; zone: string; demoToken: string | null; origin: string | null }) {
   const [p, setP] = useState(initial);
   const [connected, setConnected] = useState<boolean | null>(null);
   const [closeState, closeAction] = useActionState<FormState, FormData>(closeMonitorAction, {});
@@ -56,7 +56,7 @@ export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; z
           <p className="muted" data-testid="no-readings">
             No readings yet. Send them to <code>POST /api/v1/monitors/{p.id}/readings</code> with the device token, or replay a file:
             <br />
-            <code data-testid="simulate-command">npm run -s corelag -- simulate --monitor {p.id} --trace {demoToken ? "public/demo/route7-tote3.csv" : "FILE"} --speed 600 --token {demoToken ?? "TOKEN"}</code>
+            <code data-testid="simulate-command">npm run -s corelag -- simulate --monitor {p.id} --trace {demoToken ? "public/demo/route7-tote3.csv" : "FILE"} --speed 600 --token {demoToken ?? "TOKEN"}{origin ? ` --url ${origin}` : ""}</code>
           </p>
         ) : (
           <>
@@ -92,7 +92,8 @@ export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; z
               lines={[
                 { label: "Air (readings)", color: "var(--air)", values: p.air },
                 { label: "Core (predicted)", color: "var(--core)", values: p.core },
-                { label: fcLabel, color: "var(--core)", values: p.forecastLine, dashed: true },
+                // in the legend only when a forecast line is drawn
+                ...(p.forecastLine.some(Number.isFinite) ? [{ label: fcLabel, color: "var(--core)", values: p.forecastLine, dashed: true }] : []),
               ]}
             />
           </>
@@ -103,6 +104,9 @@ export function LiveView({ initial, zone, demoToken }: { initial: LivePayload; z
         <table data-testid="rules-running">
           <thead><tr><th>Rule</th><th>Channel</th><th>Status so far</th><th className="num">Minutes beyond</th><th className="num">Allowance left</th><th>Why</th></tr></thead>
           <tbody>
+            {p.rules.length === 0 && (
+              <tr><td colSpan={6} className="muted">Judged from the first reading on: the limit set&apos;s threshold rules on the core, surface, mean and air.</td></tr>
+            )}
             {p.rules.map((r) => (
               <tr key={r.id}>
                 <td>{r.id}</td>

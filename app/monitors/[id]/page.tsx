@@ -1,3 +1,4 @@
+import { headers } from "next/headers";
 import { notFound } from "next/navigation";
 import { livePayload } from "@/lib/services/monitorPage";
 import { ensureSweeper, usesDemoToken } from "@/lib/services/monitors";
@@ -14,5 +15,9 @@ export default async function MonitorPage({ params }: { params: Promise<{ id: st
   ensureSweeper();
   // the demo monitor's token is public (README): show the whole command that feeds it
   const demoToken = (await usesDemoToken(id, DEMO_MONITOR.token)) ? DEMO_MONITOR.token : null;
-  return <LiveView initial={payload} zone={zone} demoToken={demoToken} />;
+  // the address this page was served from, for the replay command's --url (its default, port 3000, may be another server)
+  const h = await headers();
+  const host = h.get("x-forwarded-host") ?? h.get("host");
+  const origin = host ? `${h.get("x-forwarded-proto")?.split(",")[0]?.trim() || "http"}://${host}` : null;
+  return <LiveView initial={payload} zone={zone} demoToken={demoToken} origin={origin} />;
 }
