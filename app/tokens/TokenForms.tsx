@@ -18,7 +18,8 @@ export function CreateTokenForm({ owners, monitors }: { owners: Array<{ email: s
         </div>
       ) : null}
       {state.message ? <p className="form-error">{state.message}</p> : null}
-      <ActionForm action={dispatch} className="stack">
+      {/* a new form after each token made (keyed by its id), so a second click cannot make a duplicate by mistake */}
+      <ActionForm action={dispatch} className="stack" key={state.created?.id ?? "form"}>
         <label>
           Owner
           <select name="email" defaultValue={v.email ?? ""} aria-invalid={err.email ? true : undefined} key={`email-${v.email ?? ""}`}>

@@ -30,6 +30,9 @@ test("a device token made on the tokens page is bound to a chosen monitor, and t
   await expect(page.getByTestId("token-value")).toHaveText(/^clg_/);
   const token = (await page.getByTestId("token-value").textContent())!.trim();
   await page.screenshot({ path: "test-results/tokens-device.png", fullPage: true });
+  // the form starts afresh after a token is made: a second click does not make a duplicate
+  await expect(page.locator('input[name="name"]')).toHaveValue("");
+  await expect(page.locator('select[name="scope"]')).toHaveValue("read");
   // the token posts readings to its monitor (and only there: tests/integration/apiV1.test.ts)
   const r = await page.request.post(`/api/v1/monitors/${monitorId}/readings`, { headers: { Authorization: `Bearer ${token}` }, data: { readings: [{ t: "2026-06-16T03:00:00Z", air_C: 3 }] } });
   expect(r.status()).toBe(200);
