@@ -101,23 +101,44 @@ export async function startReviewRun(request: RunReviewRequest, actor: Actor): P
     const id = await (await queue()).enqueueJob(REVIEW_QUEUE, data);
     return { ok: true, run: { id, kind: "review", title: p.title, status: "running", progress: 0, started_at: requested_at } };
   }
+  return {
+    ok: true,
+    run: startLocalRun({ id: randomUUID(), kind: "review", title: p.title, started_at: new Date().toISOString() }, actor, async (run) => {
+      const signal = run.controller.signal;
+      const attempt = await runReviewInPool(p.input, { signal, onProgress: (f) => (run.progress = f) });
+      if (signal.aborted) throw signal.reason;
+      if (!attempt.ok) return { ok: false, message: attempt.message };
+      return { ok: true, extra: { reviewId: await storeReview(p, attempt.computation, actor) } };
+    }),
+  };
+}
+
+/**
+ * Runs `work` in this process as a run the page can follow and cancel: its end (done with `extra`, failed with
+ * the message) is kept on the run; a cancel stores nothing and is audited under whoever cancelled it.
+ */
+function startLocalRun(
+  base: Pick<RunState, "id" | "kind" | "title" | "started_at" | "shipmentId" | "done" | "total">,
+  actor: Actor,
+  work: (run: Run) => Promise<{ ok: true; extra?: Partial<RunState> } | { ok: false; message: string }>,
+): RunState {
   const controller = new AbortController();
-  const run: Run = { id: randomUUID(), kind: "review", title: p.title, status: "running", progress: 0, started_at: new Date().toISOString(), controller, finished: Promise.resolve() };
+  const run: Run = { ...base, status: "running", progress: 0, controller, finished: Promise.resolve() };
   runs.set(run.id, run);
   const end = (status: RunState["status"], extra: Partial<RunState> = {}) => Object.assign(run, { status, finished_at: new Date().toISOString() }, extra);
   run.finished = (async () => {
     try {
-      const attempt = await runReviewInPool(p.input, { signal: controller.signal, onProgress: (f) => (run.progress = f) });
+      const r = await work(run);
       if (controller.signal.aborted) throw controller.signal.reason;
-      if (!attempt.ok) return void end("failed", { message: attempt.message });
-      end("done", { progress: 1, reviewId: await storeReview(p, attempt.computation, actor) });
+      if (!r.ok) return void end("failed", { message: r.message });
+      end("done", { progress: 1, ...r.extra });
     } catch (e) {
       if (!controller.signal.aborted) return void end("failed", { message: e instanceof Error ? e.message : String(e) });
       await logRunCancelled(run.id, run.cancelledBy ?? actor, { kind: run.kind, title: run.title, progress: Number(run.progress.toFixed(3)), requested_at: run.started_at });
       end("cancelled");
     }
   })();
-  return { ok: true, run: publicState(run) };
+  return publicState(run);
 }
 
 /** What a shipment run's job gets: the abort signal and a way to report progress. */
@@ -139,23 +160,10 @@ export async function startShipmentRun(shipmentId: string, title: string, total:
     return { id, kind: "shipment", title, shipmentId, done: 0, total, status: "running", progress: 0, started_at: requested_at };
   }
   const work = await shipmentWork();
-  const controller = new AbortController();
-  const run: Run = { id: randomUUID(), kind: "shipment", title, shipmentId, done: 0, total, status: "running", progress: 0, started_at: requested_at, controller, finished: Promise.resolve() };
-  runs.set(run.id, run);
-  const end = (status: RunState["status"], extra: Partial<RunState> = {}) => Object.assign(run, { status, finished_at: new Date().toISOString() }, extra);
-  run.finished = (async () => {
-    try {
-      const r = await work(shipmentId, run.id, actor, { signal: controller.signal, setProgress: shipmentProgress(run) });
-      if (controller.signal.aborted) throw controller.signal.reason;
-      if (!r.ok) return void end("failed", { message: r.message });
-      end("done", { progress: 1 });
-    } catch (e) {
-      if (!controller.signal.aborted) return void end("failed", { message: e instanceof Error ? e.message : String(e) });
-      await logRunCancelled(run.id, run.cancelledBy ?? actor, { kind: run.kind, title: run.title, progress: Number(run.progress.toFixed(3)), requested_at: run.started_at });
-      end("cancelled");
-    }
-  })();
-  return publicState(run);
+  const id = randomUUID();
+  return startLocalRun({ id, kind: "shipment", title, shipmentId, done: 0, total, started_at: requested_at }, actor, (run) =>
+    work(shipmentId, id, actor, { signal: run.controller.signal, setProgress: shipmentProgress(run) }),
+  );
 }
 
 const shipmentProgress = (run: Run) => (done: number, total: number) => Object.assign(run, { done, total, progress: total > 0 ? done / total : 0 });
