@@ -22,16 +22,19 @@ export function forecastDeadbandMin(lead_min: number): number {
 
 /**
  * The conditions that hold now: the forecast crosses a rule's threshold within `lead_min` (including already beyond it;
- * for an alert already open, within the lead plus its deadband), a rule fails, the monitor is stale.
+ * for an alert already open, within the lead plus its deadband), a rule fails, the monitor is stale. `last_t_s`, the
+ * last reading's time, is named in the forecast and rule messages: in a replay or a late batch the server's clock
+ * (when the alert is raised) is not the trip's time.
  */
-export function alertConditions(rules: readonly RuleRunning[], fc: Forecast | null, stale: Staleness, lead_min: number, openKeys: readonly string[] = []): AlertCondition[] {
+export function alertConditions(rules: readonly RuleRunning[], fc: Forecast | null, stale: Staleness, lead_min: number, openKeys: readonly string[] = [], last_t_s?: number): AlertCondition[] {
+  const asOf = last_t_s === undefined ? "" : ` (as of the reading at ${new Date(last_t_s * 1000).toISOString().slice(0, 16).replace("T", " ")} UTC)`;
   const out: AlertCondition[] = [];
   const forecastOpen = fc?.limit_rule ? openKeys.includes(`forecast:${fc.limit_rule}`) : false;
   const within = lead_min + (forecastOpen ? forecastDeadbandMin(lead_min) : 0);
   if (fc && fc.minutes_to_limit !== null && fc.minutes_to_limit <= within && fc.limit_rule) {
-    out.push({ key: `forecast:${fc.limit_rule}`, kind: "forecast", rule: fc.limit_rule, message: fc.minutes_to_limit === 0 ? fc.reason : `threshold crossed within ${Math.round(fc.minutes_to_limit)} min (alert lead ${lead_min} min): ${fc.reason}` });
+    out.push({ key: `forecast:${fc.limit_rule}`, kind: "forecast", rule: fc.limit_rule, message: (fc.minutes_to_limit === 0 ? fc.reason : `threshold crossed within ${Math.round(fc.minutes_to_limit)} min (alert lead ${lead_min} min): ${fc.reason}`) + asOf });
   }
-  for (const r of rules) if (r.status_so_far === "fail") out.push({ key: `rule-fail:${r.id}`, kind: "rule-fail", rule: r.id, message: `rule ${r.id} fails: ${r.reason}` });
+  for (const r of rules) if (r.status_so_far === "fail") out.push({ key: `rule-fail:${r.id}`, kind: "rule-fail", rule: r.id, message: `rule ${r.id} fails: ${r.reason}${asOf}` });
   if (stale.stale) out.push({ key: "stale", kind: "stale", rule: null, message: `no reading for ${span(stale.silent_s)} (readings usually arrive every ${span(stale.interval_s ?? 0)})` });
   return out;
 }

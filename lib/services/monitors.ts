@@ -129,11 +129,10 @@ export async function monitorView(id: string, now = new Date()): Promise<Monitor
 export async function evaluateAlerts(entry: LiveEntry, now: Date, actor: Actor = { kind: "system", what: "alerts" }): Promise<{ raised: string[]; cleared: string[] }> {
   const v = viewOf(entry, now);
   const open = await openAlerts(entry.monitor.id);
-  // the reading a condition was judged at: in a replay or a late batch the server's clock (raisedAt) is not the trip's time
+  const openKeys = open.map((a) => a.key);
   const n = entry.live.length;
-  const asOf = n ? ` (as of the reading at ${new Date(entry.live.t_s[n - 1]! * 1000).toISOString().slice(0, 16).replace("T", " ")} UTC)` : "";
-  const conds = (entry.monitor.status === "open" ? alertConditions(v.rules, v.forecast, v.stale, entry.monitor.alertLeadMin, open.map((a) => a.key)) : []).map((c) => (c.kind === "stale" ? c : { ...c, message: c.message + asOf }));
-  const { raise, clear } = alertChanges(conds, open.map((a) => a.key));
+  const conds = entry.monitor.status === "open" ? alertConditions(v.rules, v.forecast, v.stale, entry.monitor.alertLeadMin, openKeys, n ? entry.live.t_s[n - 1] : undefined) : [];
+  const { raise, clear } = alertChanges(conds, openKeys);
   const raised: string[] = [], cleared: string[] = [];
   for (const c of raise) {
     const a = await raiseAlert(entry.monitor.id, c, now, actor);
