@@ -230,12 +230,13 @@ export async function deliveryRetryTaken(deliveryId: string): Promise<boolean> {
  */
 export async function overdueDeliveryRetries(since: Date, before: Date): Promise<Array<{ id: string; alertId: string; event: string; channel: string; target: string; attempt: number; nextAt: Date }>> {
   const due = await db.alertDelivery.findMany({ where: { nextAt: { gte: since, lt: before } }, orderBy: { nextAt: "asc" }, take: 500, select: { id: true, alertId: true, event: true, channel: true, target: true, attempt: true, nextAt: true } });
-  const out = [];
-  for (const r of due) {
-    const next = await db.alertDelivery.count({ where: { alertId: r.alertId, event: r.event, channel: r.channel, target: r.target, attempt: r.attempt + 1 } });
-    if (next === 0 && !(await deliveryRetryTaken(r.id))) out.push({ ...r, nextAt: r.nextAt! });
-  }
-  return out;
+  if (due.length === 0) return [];
+  // three queries per sweep whatever the number due (the sweep runs every few seconds): the attempts of their
+  // alerts, and the take-ups already recorded
+  const key = (d: { alertId: string; event: string; channel: string; target: string }, attempt: number) => `${d.alertId}\u0000${d.event}\u0000${d.channel}\u0000${d.target}\u0000${attempt}`;
+  const made = new Set((await db.alertDelivery.findMany({ where: { alertId: { in: [...new Set(due.map((d) => d.alertId))] } }, select: { alertId: true, event: true, channel: true, target: true, attempt: true } })).map((d) => key(d, d.attempt)));
+  const taken = new Set((await db.auditEntry.findMany({ where: { action: "resume", entity: "delivery", entityId: { in: due.map((d) => d.id) } }, select: { entityId: true } })).map((e) => e.entityId));
+  return due.filter((d) => !made.has(key(d, d.attempt + 1)) && !taken.has(d.id)).map((d) => ({ ...d, nextAt: d.nextAt! }));
 }
 
 export async function getAlert(id: string): Promise<StoredAlert | null> {
