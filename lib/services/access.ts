@@ -173,16 +173,16 @@ export async function reauthenticate(userId: string, password: string, attempt: 
   const since = new Date(Date.now() - LOCKOUT_WINDOW_S * 1000);
   const f = await signInFailuresSince(user.email, SIGNATURE_FAILURE_ADDRESS, since);
   // the entry is made by the signed-in person (or token) who tried, and says what they tried to sign
-  const system = attempt.actor;
+  const by = attempt.actor;
   const signing = attempt.signing ? { signing: attempt.signing } : {};
   if (f.byAccount >= ACCOUNT_FAILURE_LIMIT && f.lastAccountAt) {
     const until = new Date(f.lastAccountAt.getTime() + LOCKOUT_WINDOW_S * 1000);
-    await logSessionEvent("signature-refused", user.id, system, { email: user.email, reason: "locked", ...signing });
+    await logSessionEvent("signature-refused", user.id, by, { email: user.email, reason: "locked", ...signing });
     return { ok: false, locked: true, message: `this account is locked after ${ACCOUNT_FAILURE_LIMIT} wrong passwords; nothing was signed. Try again after ${untilText(until)}, or ask an administrator` };
   }
   if (await passwordMatches(user.id, password)) return { ok: true };
   await recordSignInFailure(user.email, SIGNATURE_FAILURE_ADDRESS);
-  await logSessionEvent("signature-refused", user.id, system, { email: user.email, reason: "wrong-password", ...signing });
+  await logSessionEvent("signature-refused", user.id, by, { email: user.email, reason: "wrong-password", ...signing });
   const left = ACCOUNT_FAILURE_LIMIT - f.byAccount - 1;
   return left > 0
     ? { ok: false, locked: false, message: `the password is wrong; nothing was signed (${left} more wrong password${left === 1 ? " locks" : "s lock"} the account for ${LOCKOUT_WINDOW_S / 60} minutes)` }
